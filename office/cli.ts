@@ -1,0 +1,76 @@
+/**
+ * `shearfield`: the office command line. Dispatches to the subcommands in
+ * office/commands/, turns bad input into a one-line message on stderr and a
+ * non-zero exit, and never prints a stack trace for an input error.
+ */
+import { readdirSync } from 'node:fs';
+import { dirname, join } from 'node:path';
+import { fileURLToPath, pathToFileURL } from 'node:url';
+import { InputError } from '../core/errors';
+import type { Command, CommandIO } from './command';
+
+const commandsDir = join(dirname(fileURLToPath(import.meta.url)), 'commands');
+
+async function loadCommands(): Promise<Command[]> {
+  const files = readdirSync(commandsDir)
+    .filter((f) => f.endsWith('.ts') && !f.endsWith('.d.ts'))
+    .sort();
+  const commands: Command[] = [];
+  for (const f of files) {
+    const mod = (await import(pathToFileURL(join(commandsDir, f)).href)) as { default?: Command };
+    if (mod.default) commands.push(mod.default);
+  }
+  return commands;
+}
+
+function usage(commands: Command[]): string {
+  const width = Math.max(...commands.map((c) => c.name.length));
+  return [
+    'Usage: shearfield <command> [options]',
+    '',
+    'Commands:',
+    ...commands.map((c) => `  ${c.name.padEnd(width)}  ${c.summary}`),
+    '',
+    'Run `shearfield <command> --help` for the options of one command.',
+  ].join('\n');
+}
+
+const processIO: CommandIO = {
+  out: (text) => process.stdout.write(text),
+  err: (text) => process.stderr.write(text),
+};
+
+/** Runs the command line; returns the exit code (0 ok, 1 bad input, 2 usage, 3 internal error). */
+export async function main(argv: string[], io: CommandIO = processIO): Promise<number> {
+  const commands = await loadCommands();
+  const [name, ...rest] = argv;
+  if (name === undefined || name === '--help' || name === '-h' || name === 'help') {
+    io.out(usage(commands) + '\n');
+    return name === undefined ? 2 : 0;
+  }
+  const command = commands.find((c) => c.name === name);
+  if (!command) {
+    io.err(`shearfield: unknown command "${name}". Commands: ${commands.map((c) => c.name).join(', ')}.\n`);
+    return 2;
+  }
+  if (rest.includes('--help') || rest.includes('-h')) {
+    io.out(command.help.trimEnd() + '\n');
+    return 0;
+  }
+  try {
+    return await command.run(rest, io);
+  } catch (e) {
+    if (e instanceof InputError) {
+      io.err(`shearfield ${name}: ${e.message.replace(/\s*\n\s*/g, ' ')}\n`);
+      return 1;
+    }
+    // Option-parser errors (node:util parseArgs) are usage errors.
+    const code = (e as { code?: string }).code;
+    if (typeof code === 'string' && code.startsWith('ERR_PARSE_ARGS')) {
+      io.err(`shearfield ${name}: ${(e as Error).message.split('\n')[0]}\n`);
+      return 2;
+    }
+    io.err(`shearfield ${name}: internal error: ${(e as Error).message.split('\n')[0]}\n`);
+    return 3;
+  }
+}
