@@ -1,0 +1,196 @@
+/**
+ * `shearfield curve MODEL.json`: Love-wave dispersion curves of a layered
+ * model, as JSON (default) or CSV, for the office's batch work.
+ *
+ * Output contract (read by other tools, keep it exact):
+ *   {"wave":"love","modes":[{"mode":0,"points":[{"frequency_hz":…,"period_s":…,
+ *     "phase_velocity_m_s":…,"group_velocity_m_s":…}]}]}
+ * With --csv: a header `mode,frequency_hz,period_s,phase_velocity_m_s,group_velocity_m_s`
+ * and one row per point. Points appear only where the mode exists.
+ */
+import { readFileSync } from 'node:fs';
+import { parseArgs } from 'node:util';
+import { loveCurves, logBand, MAX_MODES, type DispersionCurves } from '../../core/curve';
+import { InputError } from '../../core/errors';
+import { modelFromJson } from '../../core/model';
+import type { Command, CommandIO } from '../command';
+
+/** Largest number of frequencies accepted in one run (common practice: keeps a typo from filling the disk). */
+const MAX_FREQUENCIES = 100_000;
+
+const HELP = `Usage: shearfield curve MODEL.json (--freq LIST | --band FROM:TO:COUNT) [--modes N] [--csv]
+
+Love-wave dispersion curves (phase and group velocity) of a layered model:
+N layers over a half-space, Thomson–Haskell propagator (closed forms for one layer).
+
+MODEL.json holds, in SI units named in the fields:
+  {"layers":[{"thickness_m":10,"vs_m_s":200,"density_kg_m3":1800}],
+   "halfspace":{"vs_m_s":500,"density_kg_m3":2000}}
+
+Options:
+  --freq LIST            Frequencies in Hz, comma-separated, e.g. --freq 1,2,5.5.
+  --band FROM:TO:COUNT   COUNT frequencies log-spaced from FROM Hz to TO Hz inclusive,
+                         e.g. --band 1:50:200. Give either --freq or --band, not both.
+  --modes N              Number of modes, from the fundamental (mode 0) up, 1 to ${MAX_MODES}.
+                         Default: 1.
+  --csv                  Print a CSV table (columns mode, frequency_hz, period_s,
+                         phase_velocity_m_s, group_velocity_m_s) instead of JSON.
+  -h, --help             Show this help.
+
+Output (JSON, default):
+  {"wave":"love","modes":[{"mode":0,"points":[{"frequency_hz":…,"period_s":…,
+    "phase_velocity_m_s":…,"group_velocity_m_s":…}]}]}
+Points appear only where a mode exists (above its cutoff), in ascending frequency.
+
+Exit status: 0 success; 1 bad file, model or option value (one line on stderr
+naming the field); 2 usage error.`;
+
+function readModel(path: string) {
+  let text: string;
+  try {
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as { code?: string }).code;
+    const why =
+      code === 'ENOENT'
+        ? 'does not exist'
+        : code === 'EISDIR'
+          ? 'is a folder, not a file'
+          : code === 'EACCES'
+            ? 'cannot be read (permission denied)'
+            : `cannot be read (${code ?? 'unknown error'})`;
+    throw new InputError('MODEL.json', `The model file "${path}" ${why}.`);
+  }
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (e) {
+    const detail = (e as Error).message.split('\n')[0];
+    throw new InputError('MODEL.json', `The model file "${path}" is not valid JSON (${detail}).`);
+  }
+  try {
+    return modelFromJson(json);
+  } catch (e) {
+    if (e instanceof InputError) {
+      throw new InputError(e.field, `The model file "${path}" is invalid: ${e.message}`);
+    }
+    throw e;
+  }
+}
+
+function parsePositiveNumber(text: string, what: string): number {
+  const t = text.trim();
+  const v = t === '' ? NaN : Number(t);
+  if (!Number.isFinite(v)) throw new InputError(what, `${what} must be a number, but it is "${t}".`);
+  if (v <= 0) throw new InputError(what, `${what} must be a frequency above 0 Hz, but it is ${v}.`);
+  return v;
+}
+
+function parseFreq(text: string): Float64Array {
+  const parts = text.split(',');
+  if (parts.length > MAX_FREQUENCIES) {
+    throw new InputError('--freq', `--freq lists ${parts.length} frequencies; at most ${MAX_FREQUENCIES} are allowed.`);
+  }
+  const out = new Float64Array(parts.length);
+  parts.forEach((p, i) => {
+    out[i] = parsePositiveNumber(p, `--freq value ${i + 1}`);
+  });
+  return out;
+}
+
+function parseBand(text: string): Float64Array {
+  const parts = text.split(':');
+  if (parts.length !== 3) {
+    throw new InputError('--band', `--band must be FROM:TO:COUNT (e.g. 1:50:200), but it is "${text}".`);
+  }
+  const from = parsePositiveNumber(parts[0], '--band FROM');
+  const to = parsePositiveNumber(parts[1], '--band TO');
+  const countText = parts[2].trim();
+  const count = countText === '' ? NaN : Number(countText);
+  if (!Number.isInteger(count) || count < 2 || count > MAX_FREQUENCIES) {
+    throw new InputError('--band COUNT', `--band COUNT must be a whole number from 2 to ${MAX_FREQUENCIES}, but it is "${countText}".`);
+  }
+  if (!(to > from)) {
+    throw new InputError('--band TO', `--band TO (${to} Hz) must be above FROM (${from} Hz).`);
+  }
+  return logBand(from, to, count);
+}
+
+function parseModes(text: string | undefined): number {
+  if (text === undefined) return 1;
+  const t = text.trim();
+  const v = t === '' ? NaN : Number(t);
+  if (!Number.isInteger(v) || v < 1 || v > MAX_MODES) {
+    throw new InputError('--modes', `--modes must be a whole number from 1 to ${MAX_MODES}, but it is "${t}".`);
+  }
+  return v;
+}
+
+function toJson(curves: DispersionCurves): string {
+  return JSON.stringify({
+    wave: curves.wave,
+    modes: curves.modes.map((m) => {
+      const points = new Array(m.frequency.length);
+      for (let i = 0; i < points.length; i++) {
+        points[i] = {
+          frequency_hz: m.frequency[i],
+          period_s: m.period[i],
+          phase_velocity_m_s: m.phase[i],
+          group_velocity_m_s: m.group[i],
+        };
+      }
+      return { mode: m.mode, points };
+    }),
+  });
+}
+
+function toCsv(curves: DispersionCurves): string {
+  const rows = ['mode,frequency_hz,period_s,phase_velocity_m_s,group_velocity_m_s'];
+  for (const m of curves.modes) {
+    for (let i = 0; i < m.frequency.length; i++) {
+      rows.push(`${m.mode},${m.frequency[i]},${m.period[i]},${m.phase[i]},${m.group[i]}`);
+    }
+  }
+  return rows.join('\n');
+}
+
+const curve: Command = {
+  name: 'curve',
+  summary: 'Love-wave dispersion curves (phase and group velocity) of a layered model.',
+  help: HELP,
+  async run(args: string[], io: CommandIO): Promise<number> {
+    const { values, positionals } = parseArgs({
+      args,
+      options: {
+        freq: { type: 'string' },
+        band: { type: 'string' },
+        modes: { type: 'string' },
+        csv: { type: 'boolean', default: false },
+      },
+      allowPositionals: true,
+      strict: true,
+    });
+    if (positionals.length !== 1) {
+      throw new InputError(
+        'MODEL.json',
+        positionals.length === 0
+          ? 'Give one model file, e.g. shearfield curve model.json --band 1:50:200.'
+          : `Give exactly one model file, but ${positionals.length} were given.`,
+      );
+    }
+    if ((values.freq === undefined) === (values.band === undefined)) {
+      throw new InputError('--freq', 'Give either --freq LIST or --band FROM:TO:COUNT (exactly one of them).');
+    }
+    const modes = parseModes(values.modes);
+    const frequencies = values.freq !== undefined ? parseFreq(values.freq) : parseBand(values.band as string);
+    const model = readModel(positionals[0]);
+    const curves = loveCurves(model, frequencies, { modes });
+    for (const f of curves.failures) {
+      io.err(`shearfield curve: warning: mode ${f.mode} at ${f.frequency} Hz left out, the root search ended with "${f.status}".\n`);
+    }
+    io.out((values.csv ? toCsv(curves) : toJson(curves)) + '\n');
+    return 0;
+  },
+};
+
+export default curve;
