@@ -1,0 +1,74 @@
+/**
+ * The demo site: an INVENTED scenario, so that a new user sees the whole
+ * flow in one tap. Nothing here is a real place, survey or crew.
+ *
+ * The invented ground: a river-terrace fill, 7.5 m of loose sandy gravel
+ * (β1 = 190 m/s, ρ1 = 1850 kg/m³) over weathered mudstone (β2 = 560 m/s,
+ * ρ2 = 2150 kg/m³). The picks are that model's Love-wave group velocities
+ * (fundamental mode 3–40 Hz, first higher mode above its cutoff), computed
+ * with the core's closed forms (love-layer.ts), plus seeded Gaussian noise
+ * of 3 % of the velocity, which each pick states as its sd.
+ */
+import type { TwoLayer } from './love-layer';
+import { loveCutoffHz, loveVelocities } from './love-layer';
+import type { Pick } from './picks';
+
+/** The invented model the demo picks come from. */
+export const DEMO_MODEL: Readonly<TwoLayer> = Object.freeze({ h: 7.5, vs1: 190, vs2: 560, rho1: 1850, rho2: 2150 });
+
+/** The invented site's descriptive fields. */
+export const DEMO_SITE = Object.freeze({
+  name: 'Invented demo: Kestrel Bend terrace fill',
+  date: '2026-04-14',
+  crew: 'Demo crew (invented)',
+  notes:
+    'INVENTED SCENARIO for trying the app; not a real site. Made-up river-terrace fill: ' +
+    '7.5 m of loose sandy gravel (190 m/s) over weathered mudstone (560 m/s). ' +
+    'Picks are the model\'s Love-wave group velocities plus seeded 3 % noise.',
+  location: Object.freeze({ lat: 51.4321, lon: -2.1234, source: 'typed' as const }),
+  axisUnit: 'hz' as const,
+});
+
+/** Relative noise (one sd) on the demo picks. */
+export const DEMO_NOISE = 0.03;
+/** Seed of the demo noise. */
+export const DEMO_SEED = 20260414;
+
+/** Mulberry32, a small seeded generator of uniform numbers in [0, 1) (Tommy Ettinger, public domain). */
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) >>> 0;
+    let t = a;
+    t = Math.imul(t ^ (t >>> 15), t | 1);
+    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+/** Standard normal numbers from uniforms by the Box–Muller transform (Box & Muller 1958). */
+function normals(uniform: () => number): () => number {
+  return () => {
+    const u = 1 - uniform();
+    const v = uniform();
+    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
+  };
+}
+
+const round = (x: number, digits: number) => Number(x.toFixed(digits));
+
+/** The demo picks: deterministic for a given seed. */
+export function demoPicks(seed = DEMO_SEED): Pick[] {
+  const gauss = normals(mulberry32(seed));
+  const picks: Pick[] = [];
+  const add = (f: number, mode: number) => {
+    const u = loveVelocities(DEMO_MODEL, f, mode).group;
+    if (!Number.isFinite(u)) return;
+    const sd = round(DEMO_NOISE * u, 1);
+    picks.push({ frequency: f, velocity: round(u + sd * gauss(), 1), kind: 'group', mode, sd });
+  };
+  for (const f of [3, 4, 5, 6, 7, 8, 9, 10, 12, 14, 16, 18, 21, 24, 28, 33, 40]) add(f, 0);
+  const f1 = loveCutoffHz(DEMO_MODEL, 1);
+  for (const f of [16, 19, 22, 26, 30, 35]) if (f > f1 * 1.05) add(f, 1);
+  return picks;
+}
