@@ -45,7 +45,7 @@ Points appear only where a mode exists (above its cutoff), in ascending frequenc
 Exit status: 0 success; 1 bad file, model or option value (one line on stderr
 naming the field); 2 usage error.`;
 
-function readModel(path: string) {
+export function readModel(path: string) {
   let text: string;
   try {
     text = readFileSync(path, 'utf8');

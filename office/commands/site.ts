@@ -1,0 +1,92 @@
+/**
+ * `shearfield site MODEL.json`: site figures of a layered model.
+ *
+ * Output contract (read by other tools, keep the first keys exact):
+ *   {"vs30_m_s":…,"vs100ft_m_s":…,"site_class":{"asce7_16":[…],"asce7_22":[…],"en1998_1":[…]},
+ *    "f0_hz":…,"t0_s":…,"impedance_ratio":…,"warnings":[…],"caution":"…"}
+ * Class values are arrays so that a range crossing a boundary lists every class.
+ */
+import { parseArgs } from 'node:util';
+import { InputError } from '../../core/errors';
+import { siteFigures, VS100FT_DEPTH_M } from '../../core/site';
+import type { Command, CommandIO } from '../command';
+import { readModel } from './curve';
+
+const HELP = `Usage: shearfield site MODEL.json [--estimated-velocities]
+
+Site figures of a layered model (N layers over a half-space):
+  vs30_m_s         Vs30 = 30 / Σ(h_i/v_i) over the top 30 m (EN 1998-1:2004 eq. 3.1).
+  vs100ft_m_s      The same average over the top 100 ft = ${VS100FT_DEPTH_M} m (ASCE/SEI 7-16 §20.4).
+                   Where the layers end above that depth, the half-space continues down.
+  site_class       Every class the average speed allows in each table, as a list:
+                     asce7_16  ASCE/SEI 7-16 Table 20.3-1 (A–E, from vs100ft_m_s)
+                     asce7_22  ASCE/SEI 7-22 Table 20.2-1 (A, B, BC, C, CD, D, DE, E, from vs100ft_m_s)
+                     en1998_1  EN 1998-1:2004 Table 3.1 (A–D from vs30_m_s; E when 5–20 m of
+                               soil slower than 360 m/s lies on material faster than 800 m/s)
+                   Classes the speeds cannot decide (ASCE F, EN S1 and S2) are in the warnings.
+  f0_hz, t0_s      Fundamental site frequency and period, f0 = β1/(4H), T0 = 4H/β1
+                   (Kramer, Geotechnical Earthquake Engineering, 1996, ch. 7). With several
+                   layers: the approximation f0 ≈ 1/(4 Σ h_i/β_i), labelled in the warnings.
+  impedance_ratio  ρ1β1/(ρ2β2) of the layers over the half-space (with several layers, of
+                   their travel-time average speed and mean density; labelled in the warnings).
+  warnings         Plain-words notes: what the tool cannot decide, approximations.
+  caution          Screening only: site characterisation for structures must follow local
+                   codes and licensed geotechnical practice.
+
+MODEL.json holds, in SI units named in the fields:
+  {"layers":[{"thickness_m":10,"vs_m_s":200,"density_kg_m3":1800}],
+   "halfspace":{"vs_m_s":900,"density_kg_m3":2200}}
+
+Options:
+  --estimated-velocities  The speeds are estimated, not measured: list the ASCE/SEI 7-22
+                          classes for the average speed divided and multiplied by 1.3
+                          (from memory of ASCE/SEI 7-22 §20.3; verify). Default: off.
+  -h, --help              Show this help.
+
+Output: one line of JSON,
+  {"vs30_m_s":…,"vs100ft_m_s":…,"site_class":{"asce7_16":[…],"asce7_22":[…],"en1998_1":[…]},
+   "f0_hz":…,"t0_s":…,"impedance_ratio":…,"warnings":[…],"caution":"…"}
+
+Exit status: 0 success; 1 bad file or model (one line on stderr naming the field);
+2 usage error.`;
+
+const site: Command = {
+  name: 'site',
+  summary: 'Site figures of a layered model: Vs30, site classes, f0 and T0, impedance ratio.',
+  help: HELP,
+  async run(args: string[], io: CommandIO): Promise<number> {
+    const { values, positionals } = parseArgs({
+      args,
+      options: {
+        'estimated-velocities': { type: 'boolean', default: false },
+      },
+      allowPositionals: true,
+      strict: true,
+    });
+    if (positionals.length !== 1) {
+      throw new InputError(
+        'MODEL.json',
+        positionals.length === 0
+          ? 'Give one model file, e.g. shearfield site model.json.'
+          : `Give exactly one model file, but ${positionals.length} were given.`,
+      );
+    }
+    const model = readModel(positionals[0]);
+    const s = siteFigures(model, { estimatedVelocities: values['estimated-velocities'] });
+    io.out(
+      JSON.stringify({
+        vs30_m_s: s.vs30.best,
+        vs100ft_m_s: s.vs100ft.best,
+        site_class: { asce7_16: s.classes.asce7_16, asce7_22: s.classes.asce7_22, en1998_1: s.classes.en1998_1 },
+        f0_hz: s.f0_hz.best,
+        t0_s: s.t0_s.best,
+        impedance_ratio: s.impedance_ratio.best,
+        warnings: s.warnings,
+        caution: s.caution,
+      }) + '\n',
+    );
+    return 0;
+  },
+};
+
+export default site;
