@@ -1,0 +1,521 @@
+/**
+ * The field app's store: sites, picks, estimates and settings in IndexedDB
+ * (through idb), with an outbox for sync.
+ *
+ * Rules every write keeps:
+ * - The input is checked first (pwa/store/validate.ts, on the core's rules);
+ *   a bad value rejects with a StoreError naming the field, and nothing is
+ *   written.
+ * - A save writes the record and its outbox entry in ONE transaction. Inside
+ *   a transaction only IndexedDB requests are awaited (anything else would
+ *   let the transaction commit half-way).
+ * - Revisions: rev 1 creates a record; any other rev must be exactly one
+ *   above the stored one, else the edit is stale and is refused.
+ * - A failed write (full storage, an aborted transaction, a closed
+ *   database) rejects with a StoreError in plain words, and the transaction
+ *   is rolled back, so nothing changes.
+ */
+import { openDB, type IDBPDatabase, type IDBPTransaction, type StoreNames } from 'idb';
+import { InputError } from '../../core/errors';
+import { checkPickSet } from '../../core/picks';
+import {
+  nextRevision,
+  type AnyRecord,
+  type EstimateRecord,
+  type PickRecord,
+  type SiteRecord,
+} from '../../core/records';
+import { SCHEMA_VERSION, upgradeTo, type FieldDB, type OutboxEntry } from './schema';
+import { checkEstimate, checkPick, checkRecord, checkSite, pickOf } from './validate';
+
+/** A store failure, in plain words; `field` names the bad field when the input was at fault. */
+export class StoreError extends Error {
+  /** The field at fault (e.g. `name`, `velocity_m_s`, `rev`), when the input was the cause. */
+  field?: string;
+
+  constructor(message: string, options: { field?: string; cause?: unknown } = {}) {
+    super(message, options.cause === undefined ? undefined : { cause: options.cause });
+    this.name = 'StoreError';
+    if (options.field !== undefined) this.field = options.field;
+  }
+}
+
+export interface FieldStore {
+  /** Sites that are not deleted, most recently changed first. */
+  listSites(): Promise<SiteRecord[]>;
+  /** A site by id (deleted ones too: check `deleted`). */
+  getSite(id: string): Promise<SiteRecord | undefined>;
+  /** Saves a site revision (rev 1 creates; else the stored rev must be rev − 1). Returns what was stored. */
+  saveSite(site: SiteRecord): Promise<SiteRecord>;
+  /** Deletes a site as tombstones: the site, its picks and its estimates each get a deleted revision. */
+  deleteSite(id: string): Promise<void>;
+  /** The site's picks that are not deleted, by `order`. */
+  listPicks(siteId: string): Promise<PickRecord[]>;
+  /** Saves a pick revision; its site must exist. Returns the stored (normalised) record. */
+  savePick(pick: PickRecord): Promise<PickRecord>;
+  /** Saves many picks in one transaction: all or nothing (CSV import). */
+  savePicks(picks: PickRecord[]): Promise<void>;
+  /** Deletes a pick as a tombstone revision. */
+  deletePick(id: string): Promise<void>;
+  /** Saves an estimate revision. */
+  saveEstimate(estimate: EstimateRecord): Promise<void>;
+  /** The site's most recently computed estimate that is not deleted. */
+  latestEstimate(siteId: string): Promise<EstimateRecord | undefined>;
+  getSetting<T>(key: string): Promise<T | undefined>;
+  putSetting(key: string, value: unknown): Promise<void>;
+  /** Every queued change, oldest first. */
+  outbox(): Promise<OutboxEntry[]>;
+  /** Removes acknowledged entries from the outbox. */
+  ackOutbox(seqs: number[]): Promise<void>;
+  /** Every record, tombstones included (for export and sync). */
+  allRecords(): Promise<AnyRecord[]>;
+  /**
+   * Writes records received from sync or an import, in one transaction,
+   * without queueing them in the outbox. The caller has already decided the
+   * merge; this only checks each record's shape.
+   */
+  putIncoming(records: AnyRecord[]): Promise<void>;
+  close(): void;
+}
+
+export type { OutboxEntry } from './schema';
+
+/** A new site record (rev 1, fresh UUID). Fields not given take empty or default values. */
+export function newSite(fields: Partial<Omit<SiteRecord, 'id' | 'rev' | 'type' | 'updatedAt'>> = {}, now = new Date()): SiteRecord {
+  return {
+    name: '',
+    date: now.toISOString().slice(0, 10),
+    crew: '',
+    notes: '',
+    axisUnit: 'hz',
+    settings: {},
+    ...fields,
+    id: crypto.randomUUID(),
+    rev: 1,
+    updatedAt: now.toISOString(),
+    type: 'site',
+  };
+}
+
+/** The pick fields a new pick needs: the core's pick values (kind and mode default to group, 0). */
+export type NewPickFields = Partial<Omit<PickRecord, 'id' | 'rev' | 'type' | 'updatedAt' | 'siteId' | 'order'>> &
+  Pick<PickRecord, 'velocity'>;
+
+/** A new pick record (rev 1, fresh UUID) for a site, at table position `order`. */
+export function newPick(siteId: string, fields: NewPickFields, order: number, now = new Date()): PickRecord {
+  const pick = {
+    kind: 'group',
+    mode: 0,
+    ...fields,
+    id: crypto.randomUUID(),
+    rev: 1,
+    updatedAt: now.toISOString(),
+    type: 'pick',
+    siteId,
+    order,
+  } as PickRecord;
+  if (pick.frequency === undefined && pick.period !== undefined && pick.period > 0) pick.frequency = 1 / pick.period;
+  return pick;
+}
+
+/** What the crew is told about a failed write; `what` names the thing, e.g. "the site". */
+function storeErrorFrom(error: unknown, what: string): StoreError {
+  if (error instanceof StoreError) return error;
+  const was = /^the \d+ /.test(what) && !what.startsWith('the 1 ') ? 'were' : 'was';
+  if (error instanceof InputError) {
+    return new StoreError(error.message, { field: error.field, cause: error });
+  }
+  const name = (error as { name?: string } | null)?.name ?? '';
+  if (name === 'QuotaExceededError') {
+    return new StoreError(
+      `The device's storage is full, so ${what} ${was} not saved. Nothing was changed; ` +
+        'free some space (for example delete old sites after exporting them) and try again.',
+      { cause: error },
+    );
+  }
+  if (name === 'AbortError') {
+    return new StoreError(`The database stopped the write, so ${what} ${was} not saved. Nothing was changed; try again.`, {
+      cause: error,
+    });
+  }
+  if (name === 'InvalidStateError') {
+    return new StoreError(
+      `The database is closed (the app may have been updated in another tab), so ${what} ${was} not saved. ` +
+        'Reload the page to keep working.',
+      { cause: error },
+    );
+  }
+  const detail = error instanceof Error ? `${error.name}: ${error.message}` : String(error);
+  return new StoreError(`${what.charAt(0).toUpperCase()}${what.slice(1)} could not be saved (${detail}). Nothing was changed; try again.`, {
+    cause: error,
+  });
+}
+
+/** Runs a validation step; an InputError becomes a StoreError (`prefix` is cut from the field name). */
+function check<T>(fn: () => T, prefix = ''): T {
+  try {
+    return fn();
+  } catch (e) {
+    if (e instanceof InputError) {
+      const field = prefix && e.field.startsWith(prefix) ? e.field.slice(prefix.length) : e.field;
+      throw new StoreError(e.message, { field, cause: e });
+    }
+    throw e;
+  }
+}
+
+type Stores = StoreNames<FieldDB>;
+type WriteTx<S extends Stores[]> = IDBPTransaction<FieldDB, S, 'readwrite'>;
+
+/**
+ * The revision rule, checked against what is stored, inside the transaction.
+ * `label` names the record for the message, e.g. "This site".
+ */
+function checkRevision(stored: AnyRecord | undefined, incoming: AnyRecord, label: string): void {
+  if (incoming.rev === 1) {
+    if (stored) {
+      throw new StoreError(
+        `${label} already exists (revision ${stored.rev}); a revision-1 record is only for creating it. ` +
+          'Reload it and make the change again.',
+        { field: 'rev' },
+      );
+    }
+    return;
+  }
+  if (!stored) {
+    throw new StoreError(`${label} is not in the store, so revision ${incoming.rev} of it cannot be saved.`, { field: 'id' });
+  }
+  if (stored.rev !== incoming.rev - 1) {
+    throw new StoreError(
+      `${label} was changed elsewhere since this edit began (stored revision ${stored.rev}, this edit follows revision ` +
+        `${incoming.rev - 1}), so the edit was not saved. Reload it and make the change again.`,
+      { field: 'rev' },
+    );
+  }
+}
+
+function outboxEntry(r: AnyRecord, queuedAt: string): OutboxEntry {
+  // seq is assigned by the store (auto-increment key path).
+  return { recordId: r.id, type: r.type, rev: r.rev, queuedAt } as OutboxEntry;
+}
+
+class IdbFieldStore implements FieldStore {
+  constructor(private readonly db: IDBPDatabase<FieldDB>) {}
+
+  /**
+   * Runs `body` in one read-write transaction. Any failure aborts the
+   * transaction (nothing is written) and rejects with a StoreError.
+   */
+  private async write<S extends Stores[], T>(stores: S, what: string, body: (tx: WriteTx<S>) => Promise<T>): Promise<T> {
+    let tx: WriteTx<S>;
+    try {
+      tx = this.db.transaction(stores, 'readwrite');
+    } catch (e) {
+      throw storeErrorFrom(e, what);
+    }
+    const done = tx.done;
+    let aborted = false;
+    tx.addEventListener('abort', () => {
+      aborted = true;
+    });
+    try {
+      const result = await body(tx);
+      await done;
+      return result;
+    } catch (e) {
+      done.catch(() => undefined);
+      try {
+        tx.abort();
+      } catch {
+        /* already finished or aborted */
+      }
+      if (e instanceof StoreError || e instanceof InputError) throw storeErrorFrom(e, what);
+      // If the transaction itself failed, its error is the clearer cause.
+      if (tx.error) throw storeErrorFrom(tx.error, what);
+      const name = (e as { name?: string } | null)?.name;
+      if (aborted || name === 'TransactionInactiveError') {
+        throw storeErrorFrom(new DOMException('The transaction was aborted.', 'AbortError'), what);
+      }
+      throw storeErrorFrom(e, what);
+    }
+  }
+
+  private async read<T>(what: string, fn: () => Promise<T>): Promise<T> {
+    try {
+      return await fn();
+    } catch (e) {
+      const err = storeErrorFrom(e, what);
+      err.message = err.message.replace(' was not saved', ' could not be read').replace(' could not be saved', ' could not be read');
+      throw err;
+    }
+  }
+
+  async listSites(): Promise<SiteRecord[]> {
+    const all = await this.read('the site list', () => this.db.getAll('sites'));
+    return all.filter((s) => !s.deleted).sort((a, b) => (a.updatedAt < b.updatedAt ? 1 : a.updatedAt > b.updatedAt ? -1 : 0));
+  }
+
+  getSite(id: string): Promise<SiteRecord | undefined> {
+    return this.read('the site', () => this.db.get('sites', id));
+  }
+
+  async saveSite(site: SiteRecord): Promise<SiteRecord> {
+    check(() => checkSite(site));
+    const record: SiteRecord = { ...site };
+    await this.write(['sites', 'outbox'], 'the site', async (tx) => {
+      checkRevision(await tx.objectStore('sites').get(record.id), record, 'This site');
+      await tx.objectStore('sites').put(record);
+      await tx.objectStore('outbox').add(outboxEntry(record, record.updatedAt));
+    });
+    return record;
+  }
+
+  async deleteSite(id: string): Promise<void> {
+    const now = new Date();
+    await this.write(['sites', 'picks', 'estimates', 'outbox'], 'the deletion of the site', async (tx) => {
+      const site = await tx.objectStore('sites').get(id);
+      if (!site) throw new StoreError('This site is not in the store, so it cannot be deleted.', { field: 'id' });
+      if (site.deleted) return;
+      const queuedAt = now.toISOString();
+      const tombstones: AnyRecord[] = [nextRevision(site, { deleted: true } as Partial<SiteRecord>, now)];
+      for (const p of await tx.objectStore('picks').index('by-site').getAll(id)) {
+        if (!p.deleted) tombstones.push(nextRevision(p, { deleted: true } as Partial<PickRecord>, now));
+      }
+      for (const e of await tx.objectStore('estimates').index('by-site').getAll(id)) {
+        if (!e.deleted) tombstones.push(nextRevision(e, { deleted: true } as Partial<EstimateRecord>, now));
+      }
+      for (const t of tombstones) {
+        const store = t.type === 'site' ? 'sites' : t.type === 'pick' ? 'picks' : 'estimates';
+        await tx.objectStore(store).put(t as never);
+        await tx.objectStore('outbox').add(outboxEntry(t, queuedAt));
+      }
+    });
+  }
+
+  async listPicks(siteId: string): Promise<PickRecord[]> {
+    const range = IDBKeyRange.bound([siteId, -Infinity], [siteId, Infinity]);
+    const picks = await this.read('the picks', () => this.db.getAllFromIndex('picks', 'by-site-order', range));
+    return picks.filter((p) => !p.deleted);
+  }
+
+  async savePick(pick: PickRecord): Promise<PickRecord> {
+    const record = check(() => checkPick(pick, 'this pick'), 'this pick, ');
+    await this.write(['sites', 'picks', 'outbox'], 'the pick', async (tx) => {
+      await this.pickWrites(tx, [record], (i) => (i === 0 ? 'this pick' : `the pick in row ${i + 1}`));
+    });
+    return record;
+  }
+
+  async savePicks(picks: PickRecord[]): Promise<void> {
+    if (!Array.isArray(picks)) throw new StoreError('The picks to save must be a list.', { field: 'picks' });
+    if (picks.length === 0) return;
+    const records = check(() => picks.map((p, i) => checkPick(p, `pick ${i + 1}`)));
+    const ids = new Set<string>();
+    for (const [i, r] of records.entries()) {
+      if (ids.has(r.id)) {
+        throw new StoreError(`Pick ${i + 1} repeats the id of an earlier pick in the same batch; ids must be unique.`, {
+          field: `pick ${i + 1}, id`,
+        });
+      }
+      ids.add(r.id);
+    }
+    await this.write(['sites', 'picks', 'outbox'], `the ${records.length} picks`, async (tx) => {
+      await this.pickWrites(tx, records, (i) => `pick ${i + 1}`);
+    });
+  }
+
+  /**
+   * The body of a pick save, inside its transaction: each pick's site must
+   * exist, revisions must follow, and a site's live picks must stay
+   * distinct (core/picks.ts checkPickSet: one pick per frequency, kind and mode).
+   */
+  private async pickWrites(
+    tx: WriteTx<['sites', 'picks', 'outbox']>,
+    records: PickRecord[],
+    whereOf: (index: number) => string,
+  ): Promise<void> {
+    const picks = tx.objectStore('picks');
+    const sites = new Map<string, SiteRecord | undefined>();
+    for (const [i, r] of records.entries()) {
+      if (!sites.has(r.siteId)) sites.set(r.siteId, await tx.objectStore('sites').get(r.siteId));
+      const site = sites.get(r.siteId);
+      if (!site || site.deleted) {
+        throw new StoreError(
+          `${capital(whereOf(i))} belongs to a site that is ${site ? 'deleted' : 'not in the store'}, so it was not saved.`,
+          { field: 'siteId' },
+        );
+      }
+      checkRevision(await picks.get(r.id), r, capital(whereOf(i)));
+    }
+    // The distinctness rule over each touched site: stored live picks, replaced by the incoming ones.
+    for (const siteId of sites.keys()) {
+      const incoming = records.map((r, i) => ({ r, i })).filter(({ r }) => r.siteId === siteId);
+      const replaced = new Set(incoming.map(({ r }) => r.id));
+      const stored = (await picks.index('by-site').getAll(siteId)).filter((p) => !p.deleted && !replaced.has(p.id));
+      const live = incoming.filter(({ r }) => !r.deleted);
+      // Stored picks first, so that a clash is reported on the incoming pick.
+      const set = [...stored.map(pickOf), ...live.map(({ r }) => pickOf(r))];
+      const n = stored.length;
+      checkPickSet(set, (k) => (k >= n ? whereOf(live[k - n].i) : `the stored pick in row ${rowOf(stored, k)}`));
+    }
+    const queuedAt = new Date().toISOString();
+    for (const r of records) {
+      await picks.put(r);
+      await tx.objectStore('outbox').add(outboxEntry(r, queuedAt));
+    }
+  }
+
+  async deletePick(id: string): Promise<void> {
+    await this.write(['picks', 'outbox'], 'the deletion of the pick', async (tx) => {
+      const pick = await tx.objectStore('picks').get(id);
+      if (!pick) throw new StoreError('This pick is not in the store, so it cannot be deleted.', { field: 'id' });
+      if (pick.deleted) return;
+      const tomb = nextRevision(pick, { deleted: true } as Partial<PickRecord>);
+      await tx.objectStore('picks').put(tomb);
+      await tx.objectStore('outbox').add(outboxEntry(tomb, tomb.updatedAt));
+    });
+  }
+
+  async saveEstimate(estimate: EstimateRecord): Promise<void> {
+    check(() => checkEstimate(estimate));
+    const record: EstimateRecord = { ...estimate };
+    await this.write(['sites', 'estimates', 'outbox'], 'the estimate', async (tx) => {
+      const site = await tx.objectStore('sites').get(record.siteId);
+      if (!site || site.deleted) {
+        throw new StoreError(`This estimate belongs to a site that is ${site ? 'deleted' : 'not in the store'}, so it was not saved.`, {
+          field: 'siteId',
+        });
+      }
+      checkRevision(await tx.objectStore('estimates').get(record.id), record, 'This estimate');
+      await tx.objectStore('estimates').put(record);
+      await tx.objectStore('outbox').add(outboxEntry(record, record.updatedAt));
+    });
+  }
+
+  async latestEstimate(siteId: string): Promise<EstimateRecord | undefined> {
+    return this.read('the estimate', async () => {
+      const range = IDBKeyRange.bound([siteId, ''], [siteId, '\uffff']);
+      let cursor = await this.db.transaction('estimates').store.index('by-site-computed').openCursor(range, 'prev');
+      while (cursor) {
+        if (!cursor.value.deleted) return cursor.value;
+        cursor = await cursor.continue();
+      }
+      return undefined;
+    });
+  }
+
+  getSetting<T>(key: string): Promise<T | undefined> {
+    return this.read('the setting', () => this.db.get('settings', key) as Promise<T | undefined>);
+  }
+
+  async putSetting(key: string, value: unknown): Promise<void> {
+    if (typeof key !== 'string' || key === '') throw new StoreError('The setting key must be non-empty text.', { field: 'key' });
+    await this.write(['settings'], `the setting "${key}"`, async (tx) => {
+      await tx.objectStore('settings').put(value, key);
+    });
+  }
+
+  outbox(): Promise<OutboxEntry[]> {
+    return this.read('the outbox', () => this.db.getAll('outbox'));
+  }
+
+  async ackOutbox(seqs: number[]): Promise<void> {
+    if (!Array.isArray(seqs) || seqs.some((s) => !Number.isInteger(s))) {
+      throw new StoreError('The outbox entries to acknowledge must be a list of whole sequence numbers.', { field: 'seqs' });
+    }
+    await this.write(['outbox'], 'the outbox acknowledgement', async (tx) => {
+      for (const s of seqs) await tx.objectStore('outbox').delete(s);
+    });
+  }
+
+  async allRecords(): Promise<AnyRecord[]> {
+    return this.read('the records', async () => {
+      const tx = this.db.transaction(['sites', 'picks', 'estimates']);
+      const [sites, picks, estimates] = await Promise.all([
+        tx.objectStore('sites').getAll(),
+        tx.objectStore('picks').getAll(),
+        tx.objectStore('estimates').getAll(),
+      ]);
+      return [...sites, ...picks, ...estimates];
+    });
+  }
+
+  async putIncoming(records: AnyRecord[]): Promise<void> {
+    if (!Array.isArray(records)) throw new StoreError('The incoming records must be a list.', { field: 'records' });
+    const clean = records.map((r, i) => {
+      try {
+        return checkRecord(r);
+      } catch (e) {
+        if (e instanceof InputError) {
+          throw new StoreError(`Incoming record ${i + 1}: ${e.message}`, { field: `record ${i + 1}, ${e.field}`, cause: e });
+        }
+        throw e;
+      }
+    });
+    if (clean.length === 0) return;
+    await this.write(['sites', 'picks', 'estimates'], `the ${clean.length} incoming records`, async (tx) => {
+      for (const r of clean) {
+        if (r.type === 'site') await tx.objectStore('sites').put(r);
+        else if (r.type === 'pick') await tx.objectStore('picks').put(r);
+        else await tx.objectStore('estimates').put(r);
+      }
+    });
+  }
+
+  close(): void {
+    this.db.close();
+  }
+}
+
+function capital(s: string): string {
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+function rowOf(stored: PickRecord[], k: number): number {
+  const sorted = [...stored].sort((a, b) => a.order - b.order);
+  return sorted.indexOf(stored[k]) + 1;
+}
+
+/**
+ * Opens (creating or migrating as needed) the field store. Rejects with a
+ * StoreError in plain words when the browser cannot open IndexedDB.
+ */
+export async function openFieldStore(name = 'shearfield'): Promise<FieldStore> {
+  let db: IDBPDatabase<FieldDB>;
+  try {
+    db = await openDB<FieldDB>(name, SCHEMA_VERSION, {
+      upgrade: upgradeTo(SCHEMA_VERSION),
+      blocking() {
+        // A newer version of the app wants to upgrade the database: let it.
+        db.close();
+      },
+    });
+  } catch (e) {
+    const detail = e instanceof Error ? `${e.name}: ${e.message}` : String(e);
+    throw new StoreError(
+      `The app could not open its on-device database (${detail}). Check that the browser allows site storage ` +
+        '(private browsing may block it), then reload.',
+      { cause: e },
+    );
+  }
+  return new IdbFieldStore(db);
+}
+
+/** The answer to the persistent-storage request. */
+export type PersistenceAnswer = 'granted' | 'denied' | 'unsupported';
+
+/**
+ * Asks the browser to keep this app's storage even under storage pressure
+ * (StorageManager.persist(), WHATWG Storage Standard). Already-persistent
+ * storage answers 'granted' without asking again.
+ */
+export async function requestPersistentStorage(): Promise<PersistenceAnswer> {
+  const storage = (globalThis as { navigator?: Navigator }).navigator?.storage;
+  if (!storage || typeof storage.persist !== 'function') return 'unsupported';
+  try {
+    if (typeof storage.persisted === 'function' && (await storage.persisted())) return 'granted';
+    return (await storage.persist()) ? 'granted' : 'denied';
+  } catch {
+    return 'denied';
+  }
+}

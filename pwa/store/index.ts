@@ -1,0 +1,13 @@
+/** The field app's store: import everything from here. */
+export {
+  openFieldStore,
+  newSite,
+  newPick,
+  requestPersistentStorage,
+  StoreError,
+  type FieldStore,
+  type NewPickFields,
+  type PersistenceAnswer,
+} from './field-store';
+export { SCHEMA_VERSION, type OutboxEntry, type FieldDB, type FieldDBv1 } from './schema';
+export type { AnyRecord, EstimateRecord, PickRecord, SiteRecord, EstimateSettings, SiteLocation } from '../../core/records';
