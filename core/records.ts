@@ -7,6 +7,7 @@
  * and a revision counter `rev` that goes up by one on every saved change.
  */
 import type { Pick } from './picks';
+import { historyAfter } from './revision';
 
 export interface RecordMeta {
   /** Stable id, a UUID; never reused. */
@@ -17,6 +18,29 @@ export interface RecordMeta {
   updatedAt: string;
   /** A deletion is a revision too (a tombstone), so that it syncs. */
   deleted?: boolean;
+  /**
+   * Lineage for sync (core/revision.ts, core/sync.ts): the revision keys
+   * (`"<rev>-<hash>"`) this revision was made from, oldest first, at most
+   * 64. Set by `nextRevision`; absent on a first revision.
+   */
+  history?: string[];
+  /**
+   * Other versions of this record made concurrently elsewhere (the same
+   * record edited on two devices from the same revision). Both are kept:
+   * this record is the one shown, these wait for review. Set only by the
+   * merge rules (core/sync.ts); cleared by `resolveConflict`.
+   */
+  conflicts?: ConflictVersion[];
+}
+
+/** A concurrent version kept beside the shown one, for review (core/sync.ts). */
+export interface ConflictVersion {
+  /** Its revision key, `"<rev>-<hash>"`. */
+  key: string;
+  /** Where it came from, when known (a device name or a bundle), for the reviewer. */
+  from?: string;
+  /** The version itself, without its own `conflicts`. */
+  record: Omit<AnyRecord, 'conflicts'>;
 }
 
 /** A site location in WGS 84 degrees (as GeoJSON, RFC 7946, expects). */
@@ -78,7 +102,19 @@ export interface EstimateRecord extends RecordMeta {
 export type AnyRecord = SiteRecord | PickRecord | EstimateRecord;
 export type RecordType = AnyRecord['type'];
 
-/** A new revision of a record: same id, rev + 1, fresh time. Records are immutable. */
-export function nextRevision<T extends AnyRecord>(record: T, changes: Partial<Omit<T, 'id' | 'rev' | 'type'>>, now = new Date()): T {
-  return { ...record, ...changes, id: record.id, type: record.type, rev: record.rev + 1, updatedAt: now.toISOString() };
+/**
+ * A new revision of a record: same id, rev + 1, fresh time, and `history`
+ * extended by the key of the revision it was made from (so sync can tell an
+ * edit of what the office has from a concurrent one). Records are immutable.
+ */
+export function nextRevision<T extends AnyRecord>(record: T, changes: Partial<Omit<T, 'id' | 'rev' | 'type' | 'history'>>, now = new Date()): T {
+  return {
+    ...record,
+    ...changes,
+    id: record.id,
+    type: record.type,
+    rev: record.rev + 1,
+    updatedAt: now.toISOString(),
+    history: historyAfter(record),
+  };
 }
