@@ -104,14 +104,14 @@ export interface Revisioned {
 }
 
 /** Content hash of a record: FNV-1a 64 of its canonical JSON without `history` and `conflicts`. */
-export function contentHash(record: Revisioned): string {
+export function contentHash<T extends Revisioned>(record: T): string {
   const content: Record<string, unknown> = {};
   for (const [k, v] of Object.entries(record)) if (!BOOKKEEPING.has(k)) content[k] = v;
   return fnv1a64(canonicalJson(content));
 }
 
 /** The revision key `"<rev>-<hash>"` that names this exact version of a record. */
-export function revisionKey(record: Revisioned): string {
+export function revisionKey<T extends Revisioned>(record: T): string {
   return `${record.rev}-${contentHash(record)}`;
 }
 
