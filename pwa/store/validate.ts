@@ -69,6 +69,12 @@ function checkMeta(r: AnyRecord, expectedType: AnyRecord['type']): void {
   if (r.deleted !== undefined && typeof r.deleted !== 'boolean') {
     throw new InputError('deleted', `deleted must be true or false, but it is ${describeValue(r.deleted)}.`);
   }
+  if (r.history !== undefined && (!Array.isArray(r.history) || r.history.some((k) => typeof k !== 'string'))) {
+    throw new InputError('history', `history must be a list of revision keys (text), but it is ${describeValue(r.history)}.`);
+  }
+  if (r.conflicts !== undefined && !Array.isArray(r.conflicts)) {
+    throw new InputError('conflicts', `conflicts must be a list, but it is ${describeValue(r.conflicts)}.`);
+  }
 }
 
 function checkRange(value: unknown, field: string, check: (v: unknown, f: string) => number): void {
@@ -155,23 +161,12 @@ export function checkPick(pick: PickRecord, where = 'pick'): PickRecord {
   const candidate = pickOf(pick);
   if (candidate.period !== undefined && candidate.frequency === undefined) delete (candidate as Partial<Pick>).frequency;
   const clean = validatePick(candidate, where);
-  const out: PickRecord = {
-    id: pick.id,
-    rev: pick.rev,
-    updatedAt: pick.updatedAt,
-    type: 'pick',
-    siteId: pick.siteId,
-    order: pick.order,
-    frequency: clean.frequency,
-    velocity: clean.velocity,
-    kind: clean.kind,
-    mode: clean.mode,
-  };
-  if (pick.deleted !== undefined) out.deleted = pick.deleted;
-  if (clean.period !== undefined) out.period = clean.period;
-  if (clean.sd !== undefined) out.sd = clean.sd;
-  if (clean.note !== undefined) out.note = clean.note;
-  if (clean.time !== undefined) out.time = clean.time;
+  // Keep every other field (history, conflicts, …); replace the pick values by their clean form.
+  const out: PickRecord = { ...pick, frequency: clean.frequency, velocity: clean.velocity, kind: clean.kind, mode: clean.mode };
+  for (const key of ['period', 'sd', 'note', 'time'] as const) {
+    if (clean[key] === undefined) delete out[key];
+    else (out as unknown as Record<string, unknown>)[key] = clean[key];
+  }
   return out;
 }
 

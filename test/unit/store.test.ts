@@ -195,7 +195,9 @@ describe('the outbox', () => {
     const a = newPick(site.id, { frequency: 10, velocity: 200 }, 0);
     const b = newPick(site.id, { frequency: 5, velocity: 260 }, 1);
     await store.savePicks([a, b]);
-    await store.savePick(nextRevision(a, { velocity: 205 }));
+    const a2 = nextRevision(a, { velocity: 205 });
+    expect(a2.history).toHaveLength(1);
+    expect(await store.savePick(a2)).toEqual(a2); // lineage (history) is kept
     await store.deletePick(b.id);
 
     const q = await store.outbox();
