@@ -6,9 +6,10 @@
  * in ascending frequency.
  *
  * Method: one layer over a half-space uses the closed forms of
- * love-layer.ts (period equation solved by Brent's method on the phase
- * residual, energy-integral group velocity; Aki & Richards, *Quantitative
- * Seismology*, 2nd ed. 2002, §7.2–7.3). N layers use the Thomson–Haskell
+ * love-layer.ts (period equation in its phase-residual form,
+ * energy-integral group velocity; Aki & Richards, *Quantitative
+ * Seismology*, 2nd ed. 2002, §7.2–7.3), each root started from the previous
+ * frequency's (safeguarded Newton, love-layer.ts). N layers use the Thomson–Haskell
  * propagator with the Sturm-count root isolation of love-stack.ts and the
  * energy-integral group velocity of group-velocity.ts.
  *
@@ -24,6 +25,7 @@ import {
   loveCutoffHz,
   loveGroupVelocityAt,
   loveModeCount,
+  lovePhaseVelocityNear,
   lovePhaseVelocitySolve,
   type TwoLayer,
 } from './love-layer';
@@ -131,11 +133,14 @@ export function loveCurves(
 
   if (model.layers.length === 1) {
     const p = twoLayer(model);
+    // The previous frequency's root of each mode starts the next search.
+    const previous = new Float64Array(modes).fill(NaN);
     for (let i = 0; i < nf; i++) {
       const f = freq[i];
       const present = Math.min(modes, loveModeCount(p, f));
       for (let m = 0; m < present; m++) {
-        const r = lovePhaseVelocitySolve(p, f, m);
+        const r = lovePhaseVelocityNear(p, f, m, previous[m]);
+        previous[m] = r.x;
         if (r.status === 'converged') push(m, f, r.x, loveGroupVelocityAt(p, f, r.x));
         else failures.push({ mode: m, frequency: f, status: r.status });
       }
