@@ -550,6 +550,14 @@ export function parsePicksCsv(text: string): PicksParseResult {
 
   // The separator comes from the header row (its first line outside quotes).
   const firstLine = body.replace(/^(?:[ \t]*\r?\n)+/, '').split(/\r\n|\n|\r/, 1)[0];
+  const missingHeader = (line: number) =>
+    new InputError(
+      'header',
+      `Line ${line}: the first row must be a header naming the columns (e.g. frequency_hz,velocity_m_s), but it holds numbers.`,
+    );
+  if (firstLine.split(/[,;]/).some((t) => NUMBER_TEXT.test(t.trim().replace(/^"(.*)"$/, '$1')))) {
+    throw missingHeader(body.slice(0, body.indexOf(firstLine)).split(/\r\n|\n|\r/).length);
+  }
   const commas = (firstLine.match(/,/g) ?? []).length;
   const semis = (firstLine.match(/;/g) ?? []).length;
   if (commas > 0 && semis > 0) {
@@ -576,12 +584,7 @@ export function parsePicksCsv(text: string): PicksParseResult {
   // Header.
   const header = headerRecord.fields.map((h) => h.trim().toLowerCase());
   const headerLine = headerRecord.line;
-  if (header.some((h) => NUMBER_TEXT.test(h.replace(',', '.')))) {
-    throw new InputError(
-      'header',
-      `Line ${headerLine}: the first row must be a header naming the columns (e.g. frequency_hz,velocity_m_s), but it holds numbers.`,
-    );
-  }
+  if (header.some((h) => NUMBER_TEXT.test(h.replace(',', '.')))) throw missingHeader(headerLine);
   const columns: PickColumn[] = [];
   const seen = new Set<string>();
   header.forEach((h, k) => {
