@@ -1,0 +1,93 @@
+/**
+ * What the compute worker does: the core's computations, called directly,
+ * each wrapped so that bad input comes back as data (an InputError keeps
+ * its field across the worker boundary) and typed arrays are listed for
+ * transfer instead of copying.
+ *
+ * Runs in the worker (compute.worker.ts exposes it with comlink); kept in
+ * its own module so it can also be called in-process (tests, benches).
+ * Only core is imported here: no DOM, no IndexedDB.
+ */
+import { loveCurves, loveCutoffFrequencies, type CurveOptions, type DispersionCurves } from '../../core/curve';
+import { InputError } from '../../core/errors';
+import type { LayeredModel } from '../../core/model';
+import {
+  siteFigures,
+  siteFiguresForRanges,
+  type SiteFigures,
+  type SiteOptions,
+  type TwoLayerBest,
+  type TwoLayerRanges,
+} from '../../core/site';
+
+/** A failure carried across the worker boundary as plain data. */
+export interface ComputeFailure {
+  ok: false;
+  /** 'InputError' for bad input (then `field` names it); otherwise the error's name. */
+  name: string;
+  message: string;
+  field?: string;
+}
+
+/** A result and the buffers to transfer with it. */
+export interface ComputeSuccess<T> {
+  ok: true;
+  value: T;
+}
+
+export type ComputeOutcome<T> = ComputeSuccess<T> | ComputeFailure;
+
+/** Dispersion curves with the cutoff frequencies of the same modes. */
+export interface CurvesResult extends DispersionCurves {
+  /** Cutoff frequency of each mode, Hz (0 for the fundamental; NaN if its search failed). */
+  cutoffs: Float64Array;
+}
+
+/** A computed value and the ArrayBuffers it owns (to transfer, not copy). */
+export interface Computed<T> {
+  outcome: ComputeOutcome<T>;
+  transfer: ArrayBuffer[];
+}
+
+function run<T>(fn: () => T, buffersOf: (value: T) => ArrayBufferLike[]): Computed<T> {
+  try {
+    const value = fn();
+    return { outcome: { ok: true, value }, transfer: unique(buffersOf(value)) };
+  } catch (e) {
+    if (e instanceof InputError) {
+      return { outcome: { ok: false, name: 'InputError', message: e.message, field: e.field }, transfer: [] };
+    }
+    const err = e instanceof Error ? e : new Error(String(e));
+    return { outcome: { ok: false, name: err.name, message: err.message }, transfer: [] };
+  }
+}
+
+function unique(buffers: ArrayBufferLike[]): ArrayBuffer[] {
+  return [...new Set(buffers)].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer && b.byteLength > 0);
+}
+
+/** Every computation the worker offers, on plain (structured-clone) inputs. */
+export const computeApi = {
+  /** Love-wave curves of `model` at `frequencies` (Hz), plus the modes' cutoffs (core/curve.ts). */
+  curves(model: LayeredModel, frequencies: ArrayLike<number>, options: CurveOptions = {}): Computed<CurvesResult> {
+    return run(
+      () => {
+        const curves = loveCurves(model, frequencies, options);
+        return { ...curves, cutoffs: loveCutoffFrequencies(model, curves.modes.length) };
+      },
+      (r) => [r.cutoffs.buffer, ...r.modes.flatMap((m) => [m.frequency.buffer, m.period.buffer, m.phase.buffer, m.group.buffer])],
+    );
+  },
+
+  /** Site figures of a layered model (core/site.ts). */
+  siteFigures(model: LayeredModel, options: SiteOptions = {}): Computed<SiteFigures> {
+    return run(() => siteFigures(model, options), () => []);
+  },
+
+  /** Site figures of one layer over a half-space with uncertainty ranges (core/site.ts). */
+  siteFiguresForRanges(best: TwoLayerBest, ranges: TwoLayerRanges, options: SiteOptions = {}): Computed<SiteFigures> {
+    return run(() => siteFiguresForRanges(best, ranges, options), () => []);
+  },
+};
+
+export type ComputeApi = typeof computeApi;
