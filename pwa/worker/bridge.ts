@@ -15,11 +15,13 @@
 import { wrap, type Endpoint, type Remote } from 'comlink';
 import type { CurveOptions } from '../../core/curve';
 import { InputError } from '../../core/errors';
+import type { EstimateResult } from '../../core/estimate';
 import type { LayeredModel } from '../../core/model';
+import type { Pick } from '../../core/picks';
 import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site';
-import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult } from './compute-api';
+import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions } from './compute-api';
 
-export type { CurvesResult } from './compute-api';
+export type { CurvesResult, WorkerEstimateOptions } from './compute-api';
 
 /** What the bridge needs of a worker: a comlink endpoint that can be terminated. */
 export interface WorkerLike extends Endpoint {
@@ -212,6 +214,21 @@ export function computeCurves(
 ): Promise<CurvesResult> {
   const f = frequencies instanceof Float64Array ? frequencies : Float64Array.from(frequencies);
   return computeBridge().call('curves', [model, f, options], signal);
+}
+
+/**
+ * The layer-thickness estimate (core/estimate.ts estimateLayer) off the
+ * main thread: thickness and speeds with 68/95 % intervals, alternatives,
+ * misfit map (Float64Array columns), diagnostics and the caution. Bad picks
+ * or options reject with an InputError naming the field (picks named by
+ * `options.pickLabels`, e.g. "row 3").
+ */
+export function computeEstimate(
+  picks: readonly Pick[],
+  options: WorkerEstimateOptions = {},
+  signal?: AbortSignal,
+): Promise<EstimateResult> {
+  return computeBridge().call('estimate', [picks, options], signal);
 }
 
 /** Site figures of a layered model (core/site.ts siteFigures). */

@@ -10,7 +10,9 @@
  */
 import { loveCurves, loveCutoffFrequencies, type CurveOptions, type DispersionCurves } from '../../core/curve';
 import { InputError } from '../../core/errors';
+import { estimateLayer, type EstimateOptions, type EstimateResult } from '../../core/estimate';
 import type { LayeredModel } from '../../core/model';
+import type { Pick } from '../../core/picks';
 import {
   siteFigures,
   siteFiguresForRanges,
@@ -41,6 +43,18 @@ export type ComputeOutcome<T> = ComputeSuccess<T> | ComputeFailure;
 export interface CurvesResult extends DispersionCurves {
   /** Cutoff frequency of each mode, Hz (0 for the fundamental; NaN if its search failed). */
   cutoffs: Float64Array;
+}
+
+/**
+ * Estimate options that can cross to the worker (no functions): the core's
+ * EstimateOptions, with `pickLabels[i]` naming pick i in messages (e.g.
+ * "row 3") in place of `whereOf`.
+ */
+export interface WorkerEstimateOptions extends Omit<EstimateOptions, 'whereOf' | 'onProgress' | 'fieldLabels'> {
+  /** How each pick is named in messages. @default `pick ${i + 1}` */
+  pickLabels?: readonly string[];
+  /** How the options are named in messages (e.g. a form's labels). @default the option names */
+  fieldLabels?: EstimateOptions['fieldLabels'];
 }
 
 /** A computed value and the ArrayBuffers it owns (to transfer, not copy). */
@@ -76,6 +90,25 @@ export const computeApi = {
         return { ...curves, cutoffs: loveCutoffFrequencies(model, curves.modes.length) };
       },
       (r) => [r.cutoffs.buffer, ...r.modes.flatMap((m) => [m.frequency.buffer, m.period.buffer, m.phase.buffer, m.group.buffer])],
+    );
+  },
+
+  /** The layer-thickness estimate from picks (core/estimate.ts estimateLayer). */
+  estimate(picks: readonly Pick[], options: WorkerEstimateOptions = {}): Computed<EstimateResult> {
+    const { pickLabels, ...rest } = options;
+    const core: EstimateOptions = { ...rest };
+    if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+    return run(
+      () => estimateLayer(picks, core),
+      (r) => [
+        r.misfitMap.x.buffer,
+        r.misfitMap.y.buffer,
+        r.misfitMap.chi2.buffer,
+        r.pickFit.predicted.buffer,
+        r.pickFit.residual.buffer,
+        r.pickFit.normalised.buffer,
+        r.pickFit.sd.buffer,
+      ],
     );
   },
 

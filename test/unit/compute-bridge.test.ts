@@ -69,6 +69,7 @@ function harness() {
       return new Promise((resolve) => held.push(() => resolve(computeApi.siteFigures(...args).outcome)));
     },
     siteFiguresForRanges: (...args: Parameters<ComputeApi['siteFiguresForRanges']>) => computeApi.siteFiguresForRanges(...args).outcome,
+    estimate: (...args: Parameters<ComputeApi['estimate']>) => computeApi.estimate(...args).outcome,
   };
   const bridge = new ComputeBridge(() => {
     const w = new FakeWorker(api);
@@ -189,6 +190,30 @@ describe('the compute bridge', () => {
     );
     await bridge.call('curves', [model, [4], {}]);
     expect(workers).toHaveLength(2);
+  });
+
+  it('the estimate crosses with its columns, and bad picks are named by the labels given', async () => {
+    const { bridge } = harness();
+    cleanup.push(() => bridge.terminate());
+    // Exact synthetic group picks of the model above, from the core's own curves (a consistency check, not a reference).
+    const f = [3, 4, 6, 8, 12, 16, 24];
+    const curves = computeApi.curves(model, f, {}).outcome;
+    if (!curves.ok) throw new Error('curves failed');
+    const picks = f.map((fr, i) => ({ frequency: fr, velocity: curves.value.modes[0].group[i], kind: 'group' as const, mode: 0, sd: 3 }));
+    const options = { vs1: 200, vs2: 500, density1: 1800, density2: 2000 };
+    const result = await bridge.call('estimate', [picks, options]);
+    const direct = computeApi.estimate(picks, options).outcome;
+    expect(result).toEqual(direct.ok ? direct.value : undefined); // the bridge changes nothing
+    expect(result.thickness.best).toBeCloseTo(10, 3);
+    expect(result.misfitMap.chi2).toBeInstanceOf(Float64Array);
+    expect(result.caution).toMatch(/^Screening estimate only\./);
+    const bad = [...picks.slice(0, 2), { ...picks[2], velocity: 0.2 }];
+    const e = await bridge.call('estimate', [bad, { vs1: 200, vs2: 500, pickLabels: ['row 1', 'row 2', 'row 3'] }]).then(
+      () => undefined,
+      (err: unknown) => err,
+    );
+    expect(e).toBeInstanceOf(InputError);
+    expect((e as InputError).field).toBe('row 3, velocity_m_s');
   });
 
   it('LatestOnly aborts the previous signal when a new input arrives', () => {
