@@ -8,8 +8,9 @@
  * of both against log x therefore serves every H and β1 at that (r, q): a
  * pick's prediction is β1 · table(log f + log H − log β1).
  *
- * Method: the exact closed forms of love-layer.ts (loveDimensionless: Brent
- * on the period equation, group velocity from the energy integrals) sampled
+ * Method: the exact closed forms of love-layer.ts (the period equation solved
+ * by safeguarded Newton warm-started from the previous sample,
+ * lovePhaseVelocityNear; group velocity from the energy integrals) sampled
  * on a uniform grid in ln x, read back by linear interpolation.
  *
  * Domain: x > 0. Below the cutoff of mode n (x < n r / (2√(r² − 1))) the
@@ -22,7 +23,7 @@
  * smooth parts and more within a few steps of a cutoff: fit for a global
  * search only. Refine with the exact forward model.
  */
-import { loveDimensionless } from './love-layer';
+import { loveGroupVelocityAt, lovePhaseVelocityNear, type TwoLayer } from './love-layer';
 
 export interface DimensionlessTable {
   /** Speed ratio β2/β1 (> 1). */
@@ -66,11 +67,20 @@ export function buildDimensionlessTable(
   const step = span / (n - 1);
   const phase = new Float64Array(n);
   const group = new Float64Array(n);
+  const p: TwoLayer = { h: 1, vs1: 1, vs2: vsRatio, rho1: 1, rho2: densityRatio };
+  let guess = NaN;
   for (let i = 0; i < n; i++) {
     const x = Math.exp(lnXMin + i * step);
-    const v = loveDimensionless(vsRatio, densityRatio, x, mode);
-    phase[i] = Number.isNaN(v.phase) ? vsRatio : v.phase;
-    group[i] = Number.isNaN(v.group) ? vsRatio : v.group;
+    // Warm start from the previous sample (safeguarded Newton, love-layer.ts).
+    const r = lovePhaseVelocityNear(p, x, mode, guess);
+    if (r.status === 'converged') {
+      guess = r.x;
+      phase[i] = r.x;
+      group[i] = loveGroupVelocityAt(p, x, r.x);
+    } else {
+      phase[i] = vsRatio;
+      group[i] = vsRatio;
+    }
   }
   return { vsRatio, densityRatio, mode, lnX0: lnXMin, invStep: 1 / step, n, phase, group };
 }
