@@ -259,7 +259,10 @@ function checkRange(range: readonly [number, number], field: string, allowInfini
 
 /** The class of one average speed (m/s) in a table (F, S1, S2 are never returned). */
 export function siteClassOf(table: SiteClassTableId, vs: number): string {
-  const v = checkRange([vs, vs], 'vs', false)[0];
+  if (typeof vs !== 'number' || !Number.isFinite(vs) || vs <= 0) {
+    throw new InputError('vs', `vs must be a finite speed above 0 m/s, but it is ${describeValue(vs)}.`);
+  }
+  const v = vs;
   const band = SITE_CLASS_TABLES[table].bands.find((b) => bandContains(b, v));
   // The bands tile [0, ∞), so a finite v ≥ 0 always has one.
   return band!.code;
