@@ -54,7 +54,11 @@ export interface EstimateDiagnostics {
   outsideTrapping: Array<PickNote & { reason: string }>;
   belowCutoff: Array<PickNote & { cutoffHz: number }>;
   unconstrained: Array<{ parameter: 'thickness' | 'vs1' | 'vs2'; side: 'low' | 'high' | 'both' }>;
-  /** Longest picked wavelength v/f, m, and the depth it resolves (λ/2, common practice). */
+  /**
+   * Longest picked wavelength λ = c/f, m (c: the pick's phase velocity, or for
+   * a group pick the best model's phase velocity), and the depth it resolves
+   * (λ/2, common practice).
+   */
   longestWavelength: number;
   resolvedDepth: number;
   /** False when the best thickness is deeper than resolvedDepth. */
@@ -235,15 +239,21 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   }
 
   // Depth resolution (common practice, shared/PHYSICS.md §8).
+  // λ = c/f with c the phase velocity: the pick's own for phase picks, the
+  // best model's (of the pick's mode) for group picks.
+  const wavelengths = new Float64Array(P.n);
   let longestWavelength = 0;
-  for (let i = 0; i < P.n; i++) longestWavelength = Math.max(longestWavelength, P.v[i] / P.f[i]);
+  for (let i = 0; i < P.n; i++) {
+    const c = P.isPhase[i] ? P.v[i] : predictVelocity(m, P.f[i], P.mode[i], true);
+    wavelengths[i] = c / P.f[i];
+    longestWavelength = Math.max(longestWavelength, wavelengths[i]);
+  }
   const resolvedDepth = longestWavelength / 2;
   const h = input.estimates.thickness.best;
   const thicknessResolved = !(h > resolvedDepth);
   if (!thicknessResolved) {
     let advice = '';
     if (h <= 1000) {
-      const wavelengths = Float64Array.from({ length: P.n }, (_, i) => P.v[i] / P.f[i]);
       const a = surveyAdvice({ targetDepth: h, model: m, pickedWavelengths: wavelengths });
       const fText = Number.isFinite(a.lowestFrequency[1]) ? `, i.e. picks down to about ${fmt(a.lowestFrequency[1])} Hz` : '';
       advice =

@@ -48,6 +48,7 @@ import { checkDensity, checkShearSpeed, checkThickness, MODEL_BOUNDS } from './m
 import { checkPickSet, effectiveSd, validatePick, type Pick } from './picks';
 import { brent } from './roots';
 import { diagnoseFit, type EstimateDiagnostics } from './estimate-diagnostics';
+import { siteFiguresForRanges, type SiteFigures } from './site';
 
 // ---------------------------------------------------------------- constants
 
@@ -207,6 +208,15 @@ export interface EstimateResult {
   defaultedSdCount: number;
   /** Search ranges used, m and m/s ([v, v] for a fixed speed). */
   searchRange: { thickness: [number, number]; vs1: [number, number]; vs2: [number, number] };
+  /**
+   * Site figures (site.ts: Vs30 by EN 1998-1 eq. 3.1, v̄s100ft, site classes,
+   * f0) of the best model, each range taken exactly over the box of the 95 %
+   * intervals (so at least 95 %; a thickness open at its high end counts as
+   * unbounded); the speeds count as estimated. Null when site.ts rejects the
+   * model, with the reason in siteNote.
+   */
+  site: SiteFigures | null;
+  siteNote: string;
   /** How the estimate and intervals were made, in words. */
   method: string;
   caution: string;
@@ -941,6 +951,7 @@ export function estimateLayer(picks: readonly Pick[], options: EstimateOptions =
     density1Defaulted: options.density1 === undefined,
     density2Defaulted: options.density2 === undefined,
   });
+  const { site, siteNote } = siteOf(thickness, vs1, vs2, P);
   progress(1);
 
   const method =
@@ -976,9 +987,34 @@ export function estimateLayer(picks: readonly Pick[], options: EstimateOptions =
       vs1: [...P.ranges.vs1],
       vs2: [...P.ranges.vs2],
     },
+    site,
+    siteNote,
     method,
     caution: CAUTION,
   };
+}
+
+function siteOf(
+  thickness: ParameterEstimate,
+  vs1: ParameterEstimate,
+  vs2: ParameterEstimate,
+  P: EstimateProblem,
+): { site: SiteFigures | null; siteNote: string } {
+  try {
+    const site = siteFiguresForRanges(
+      { thickness: thickness.best, vs1: vs1.best, vs2: vs2.best, density1: P.rho1, density2: P.rho2 },
+      {
+        thickness: [thickness.low95, thickness.openHigh ? Infinity : thickness.high95],
+        vs1: [vs1.low95, vs1.high95],
+        vs2: [vs2.low95, vs2.high95],
+      },
+      { estimatedVelocities: vs1.free || vs2.free },
+    );
+    return { site, siteNote: 'Site figures are taken over the box of the 95 % intervals (so at least 95 %).' };
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    return { site: null, siteNote: `Site figures are not given: ${e.message}` };
+  }
 }
 
 function round(x: number): string {
