@@ -21,7 +21,7 @@ export interface TlmLayer {
 }
 
 export interface TlmModel {
-  layers: TlmLayer[];
+  layers: readonly TlmLayer[];
   halfspace: { vs: number; density: number };
 }
 
