@@ -143,7 +143,22 @@ function fail(where: string, column: string, reason: string): never {
 const CONTROL_CHARS = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/;
 
 // ISO 8601 calendar date, optionally with a time and a zone.
-const ISO_TIME = /^\d{4}-\d{2}-\d{2}(?:[T ]\d{2}:\d{2}(?::\d{2}(?:\.\d{1,9})?)?(?:Z|[+-]\d{2}:?\d{2})?)?$/;
+const ISO_TIME = /^(\d{4})-(\d{2})-(\d{2})(?:[T ](\d{2}):(\d{2})(?::(\d{2})(?:\.\d{1,9})?)?(Z|[+-](\d{2}):?(\d{2}))?)?$/;
+
+/** True when the text is an ISO 8601 date or date-time naming a real calendar day and clock time. */
+function isIsoTime(text: string): boolean {
+  const m = ISO_TIME.exec(text);
+  if (!m) return false;
+  const [year, month, day] = [Number(m[1]), Number(m[2]), Number(m[3])];
+  if (month < 1 || month > 12 || day < 1) return false;
+  const leap = (year % 4 === 0 && year % 100 !== 0) || year % 400 === 0;
+  const days = [31, leap ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][month - 1];
+  if (day > days) return false;
+  if (m[4] !== undefined && (Number(m[4]) > 23 || Number(m[5]) > 59)) return false;
+  if (m[6] !== undefined && Number(m[6]) > 59) return false;
+  if (m[8] !== undefined && (Number(m[8]) > 14 || Number(m[9]) > 59)) return false;
+  return true;
+}
 
 function checkText(value: unknown, where: string, column: string, max: number): string | undefined {
   if (value === undefined) return undefined;
@@ -248,7 +263,7 @@ export function validatePick(pick: Pick, where: string): Pick {
   const id = checkText(pick.id, where, 'id', PICK_LIMITS.maxFieldLength);
   const note = checkText(pick.note, where, 'note', PICK_LIMITS.maxNoteLength);
   const time = checkText(pick.time, where, 'time', PICK_LIMITS.maxFieldLength);
-  if (time !== undefined && (!ISO_TIME.test(time) || Number.isNaN(Date.parse(time.replace(' ', 'T'))))) {
+  if (time !== undefined && !isIsoTime(time)) {
     fail(where, 'time', `must be an ISO 8601 date or date-time such as 2026-05-04T10:30:00Z, but it is ${describeValue(time)}.`);
   }
 

@@ -310,7 +310,12 @@ describe('parsePicksCsv: bad files name the row, its line and the column', () =>
     expect(bad('frequency_hz,velocity_m_s,time\n5,320,yesterday\n').message).toBe(
       'Row 1 (line 2), column time: must be an ISO 8601 date or date-time such as 2026-05-04T10:30:00Z, but it is "yesterday".',
     );
-    expect(bad('frequency_hz,velocity_m_s,time\n5,320,2026-13-45\n').message).toMatch(/column time: must be an ISO 8601/);
+    for (const t of ['2026-13-01', '2026-02-29', '2026-04-31', '2026-05-04T24:00:00Z', '2026-05-04T10:60:00Z', '2026-05-04T10:30:00+15:00', '04/05/2026']) {
+      expect(bad(`frequency_hz,velocity_m_s,time\n5,320,${t}\n`).message, t).toMatch(/column time: must be an ISO 8601/);
+    }
+    for (const t of ['2024-02-29', '2026-05-04 10:30', '2026-05-04T10:30:00+0200', '2026-12-31T23:59:59.999Z']) {
+      expect(parsePicksCsv(`frequency_hz,velocity_m_s,time\n5,320,${t}\n`).picks[0].time, t).toBe(t);
+    }
   });
 
   it('rejects a duplicate frequency of the same kind and mode, naming both rows', () => {
