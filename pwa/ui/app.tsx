@@ -1,0 +1,253 @@
+/**
+ * The app shell: header, notices, the update prompt, and either the site
+ * list or the open site's work (picks and plot, estimate, site figures,
+ * what-if, survey plan, details).
+ */
+import { useEffect, useMemo, useState } from 'preact/hooks';
+import type { LayeredModel } from '../../core/model';
+import type { Controller } from './controller';
+import { EstimateView } from './estimate-view';
+import { FiguresView } from './figures-view';
+import { ImportPanel, PicksTable } from './picks-table';
+import { PlotPanel } from './plot';
+import { SiteDetails } from './site-details';
+import { SitesView } from './sites-view';
+import type { AppState, ViewName } from './state';
+import { SurveyView } from './survey-view';
+import { WhatIfView } from './whatif-view';
+
+/** The state of a controller, re-rendered on every change. */
+function useAppState(c: Controller): AppState {
+  const [s, setS] = useState(c.current);
+  useEffect(() => c.subscribe(setS), [c]);
+  return s;
+}
+
+const VIEWS: { id: ViewName; label: string }[] = [
+  { id: 'picks', label: 'Picks & plot' },
+  { id: 'estimate', label: 'Estimate' },
+  { id: 'figures', label: 'Site figures' },
+  { id: 'whatif', label: 'What-if' },
+  { id: 'survey', label: 'Survey plan' },
+  { id: 'details', label: 'Site details' },
+];
+
+function Mark() {
+  // Own mark: a wave train over a two-tone layered block.
+  return (
+    <svg class="mark" viewBox="0 0 32 32" width="32" height="32" aria-hidden="true">
+      <rect x="2" y="17" width="28" height="6" fill="currentColor" opacity="0.55" />
+      <rect x="2" y="23" width="28" height="7" fill="currentColor" />
+      <path d="M2 11 q3.5 -6 7 0 t7 0 t7 0 t7 0" fill="none" stroke="currentColor" stroke-width="2.5" />
+    </svg>
+  );
+}
+
+export interface AppProps {
+  controller: Controller;
+}
+
+export function App({ controller: c }: AppProps) {
+  const s = useAppState(c);
+  const site = s.sites.find((x) => x.id === s.openSiteId);
+
+  useEffect(() => {
+    document.documentElement.dataset.theme = s.theme;
+  }, [s.theme]);
+
+  return (
+    <div class="shell">
+      <header class="top">
+        <div class="brand">
+          <Mark />
+          <span>Shearfield</span>
+        </div>
+        <span class={`net ${s.online ? 'on' : 'off'}`} role="status">
+          {s.online ? 'Online' : 'Offline: all work is kept on this device'}
+        </span>
+        <button
+          type="button"
+          class="theme"
+          aria-pressed={s.theme === 'sun'}
+          onClick={() => void c.setTheme(s.theme === 'sun' ? 'standard' : 'sun')}
+        >
+          Sunlight contrast
+        </button>
+      </header>
+
+      {s.updateReady ? (
+        <div class="update" role="alertdialog" aria-labelledby="upd-h" aria-describedby="upd-p">
+          <h2 id="upd-h">A new version of the app is ready</h2>
+          <p id="upd-p">Everything you typed is saved first; rows with unsaved corrections hold the update back.</p>
+          <button type="button" class="primary" onClick={() => void c.applyUpdate()}>
+            Update now
+          </button>
+          <button type="button" onClick={() => c.dismissUpdate()}>
+            Later
+          </button>
+        </div>
+      ) : null}
+
+      <div class="notices" aria-live="polite">
+        {s.notices.map((n) => (
+          <div key={n.id} class={`notice ${n.tone}`} role={n.tone === 'error' ? 'alert' : 'status'}>
+            <span>{n.text}</span>
+            <button type="button" class="icon" aria-label="Dismiss this message" onClick={() => c.dismiss(n.id)}>
+              ×
+            </button>
+          </div>
+        ))}
+      </div>
+
+      <main id="main">
+        {!s.ready ? (
+          <p class="status" role="status">
+            Opening the on-device store…
+          </p>
+        ) : s.fatal ? (
+          <p class="error" role="alert">
+            {s.fatal}
+          </p>
+        ) : site ? (
+          <SiteWork s={s} c={c} />
+        ) : (
+          <>
+            <h1 class="page-title">Field sites</h1>
+            <SitesView
+              sites={s.sites}
+              query={s.siteQuery}
+              sort={s.siteSort}
+              error={s.siteError}
+              onQuery={(q) => c.setSiteQuery(q)}
+              onSort={(x) => c.setSiteSort(x)}
+              onCreate={(name) => c.createSite(name)}
+              onOpen={(id) => c.openSite(id)}
+              onDemo={() => void c.loadDemo()}
+            />
+          </>
+        )}
+      </main>
+    </div>
+  );
+}
+
+function fittedModel(s: AppState): LayeredModel | undefined {
+  const r = s.estimate.result;
+  if (!r) return undefined;
+  return {
+    layers: [{ thickness: r.thickness.best, vs: r.vs1.best, density: r.density1 }],
+    halfspace: { vs: r.vs2.best, density: r.density2 },
+  };
+}
+
+function SiteWork({ s, c }: { s: AppState; c: Controller }) {
+  const site = s.sites.find((x) => x.id === s.openSiteId)!;
+  const fitted = useMemo(() => fittedModel(s), [s.estimate.result]);
+  const estimateCaption =
+    s.estimate.status === 'running'
+      ? 'Best-fit curves: computing…'
+      : s.estimate.result
+        ? `Best fit: H = ${Number(s.estimate.result.thickness.best.toPrecision(3))} m.`
+        : 'Best-fit curves appear once the estimate is ready.';
+  return (
+    <>
+      <div class="site-head">
+        <button type="button" onClick={() => c.closeSite()}>
+          ← All sites
+        </button>
+        <h1 class="page-title">{site.name || '(unnamed site)'}</h1>
+      </div>
+      <nav class="views" aria-label="Site work">
+        {VIEWS.map((v) => (
+          <button
+            type="button"
+            key={v.id}
+            aria-current={s.view === v.id ? 'page' : undefined}
+            onClick={() => c.setView(v.id)}
+          >
+            {v.label}
+          </button>
+        ))}
+      </nav>
+      {s.view === 'picks' ? (
+        <div class="split">
+          <div class="col">
+            <PicksTable
+              picks={s.picks}
+              drafts={s.drafts}
+              unit={site.axisUnit}
+              selectedId={s.selectedPickId}
+              undo={s.undo}
+              onEdit={(r, col, t) => c.editCell(r, col, t)}
+              onCommit={(r, force) => void c.commitRow(r, force)}
+              onKind={(r, k) => void c.setKind(r, k)}
+              onDelete={(id) => void c.deletePick(id)}
+              onDiscard={(r) => c.discardDraft(r)}
+              onSelect={(id) => c.selectPick(id)}
+              onUnit={(u) => void c.setAxisUnit(u)}
+              onUndo={() => void c.undo()}
+            />
+            <ImportPanel
+              state={s.importState}
+              onText={(t) => c.setImportText(t)}
+              onReplace={(r) => c.setImportReplace(r)}
+              onImport={(t, src) => void c.importCsv(t, src)}
+            />
+          </div>
+          <PlotPanel
+            id="plot-h"
+            picks={s.picks}
+            model={fitted}
+            curveLabel="best fit"
+            caption={estimateCaption}
+            selectedId={s.selectedPickId}
+            settings={s.plot}
+            theme={s.theme}
+            onSelect={(id) => c.selectPick(id)}
+            onSettings={(p) => c.setPlot(p)}
+          />
+        </div>
+      ) : s.view === 'estimate' ? (
+        <EstimateView
+          site={site}
+          drafts={s.siteDraft}
+          error={s.siteError}
+          estimate={s.estimate}
+          pickCount={s.picks.length}
+          theme={s.theme}
+          onEdit={(k, t) => c.editSetting(k, t)}
+          onCommit={(k) => void c.commitSetting(k)}
+          onKnown={(w, known, sug) => void c.setKnown(w, known, sug)}
+          onRun={() => void c.estimateNow()}
+        />
+      ) : s.view === 'figures' ? (
+        <FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />
+      ) : s.view === 'whatif' ? (
+        <WhatIfView
+          model={s.whatif}
+          result={s.estimate.result}
+          picks={s.picks}
+          selectedId={s.selectedPickId}
+          plot={s.plot}
+          theme={s.theme}
+          onModel={(m) => c.setWhatIf(m)}
+          onSelect={(id) => c.selectPick(id)}
+          onPlot={(p) => c.setPlot(p)}
+        />
+      ) : s.view === 'survey' ? (
+        <SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.setSurveyDepth(t)} />
+      ) : (
+        <SiteDetails
+          site={site}
+          drafts={s.siteDraft}
+          error={s.siteError}
+          locating={s.locating}
+          onEdit={(f, t) => c.editSiteField(f, t)}
+          onCommit={(f) => void c.commitSiteField(f)}
+          onLocate={() => c.locate()}
+          onDelete={() => void c.deleteOpenSite()}
+        />
+      )}
+    </>
+  );
+}

@@ -1,0 +1,250 @@
+/**
+ * The estimate: what is known or free, then the thickness with its 68/95 %
+ * intervals, the speeds, the alternatives, the diagnostics in plain words
+ * and the misfit map. The caution text stands on every result.
+ */
+import { CAUTION } from '../../core/caution';
+import type { EstimateResult, ParameterEstimate } from '../../core/estimate';
+import type { SiteRecord } from '../../core/records';
+import { settingText, SETTING_FIELDS, type SettingKey } from './controller';
+import { num } from './format';
+import { MisfitMapView } from './misfit-map';
+import type { EstimateState, SiteFormError } from './state';
+
+export interface EstimateViewProps {
+  site: SiteRecord;
+  drafts: Readonly<Record<string, string>>;
+  error?: SiteFormError;
+  estimate: EstimateState;
+  pickCount: number;
+  theme: string;
+  onEdit: (key: SettingKey, text: string) => void;
+  onCommit: (key: SettingKey) => void;
+  onKnown: (which: 'vs1' | 'vs2', known: boolean, suggestion?: number) => void;
+  onRun: () => void;
+}
+
+export function Caution() {
+  return (
+    <p class="caution" role="note">
+      <strong>Caution.</strong> {CAUTION}
+    </p>
+  );
+}
+
+function SettingInput(props: { k: SettingKey; view: EstimateViewProps; short?: string }) {
+  const { k, view } = props;
+  const meta = SETTING_FIELDS[k];
+  const bad = view.error?.field === `set.${k}` || view.error?.field === `settings.${k}`;
+  return (
+    <label class="field">
+      <span>
+        {props.short ?? meta.label} ({meta.unit})
+      </span>
+      <input
+        inputMode="decimal"
+        autoComplete="off"
+        value={settingText(view.site, view.drafts, k)}
+        aria-invalid={bad ? 'true' : undefined}
+        aria-describedby={bad ? 'settings-err' : undefined}
+        onInput={(e) => view.onEdit(k, e.currentTarget.value)}
+        onChange={() => view.onCommit(k)}
+      />
+    </label>
+  );
+}
+
+function SpeedChoice(props: { which: 'vs1' | 'vs2'; view: EstimateViewProps }) {
+  const { which, view } = props;
+  const known = view.site.settings[which] !== undefined || view.drafts[`set.${which}`] !== undefined;
+  const name = which === 'vs1' ? 'Layer shear speed β1' : 'Half-space shear speed β2';
+  const best = view.estimate.result?.[which].best;
+  return (
+    <fieldset class="choice">
+      <legend>{name} (m/s)</legend>
+      <div class="seg" role="group" aria-label={`${name}: known or free`}>
+        <button type="button" aria-pressed={!known} onClick={() => view.onKnown(which, false)}>
+          Free: estimate it
+        </button>
+        <button type="button" aria-pressed={known} onClick={() => view.onKnown(which, true, best)}>
+          Known from another source
+        </button>
+      </div>
+      {known ? (
+        <SettingInput k={which} view={view} short={`${name}, known value`} />
+      ) : (
+        <div class="pair">
+          <SettingInput k={which === 'vs1' ? 'vs1Lo' : 'vs2Lo'} view={view} short="Search from" />
+          <SettingInput k={which === 'vs1' ? 'vs1Hi' : 'vs2Hi'} view={view} short="to" />
+        </div>
+      )}
+    </fieldset>
+  );
+}
+
+function interval(p: ParameterEstimate, unit: string, level: 68 | 95): string {
+  if (!p.free) return 'given';
+  const lo = level === 68 ? p.low68 : p.low95;
+  const hi = level === 68 ? p.high68 : p.high95;
+  const loText = p.openLow && level === 95 ? `≤ ${num(lo)}` : num(lo);
+  const hiText = p.openHigh && level === 95 ? `≥ ${num(hi)} (open)` : num(hi);
+  return `${loText} to ${hiText} ${unit}`;
+}
+
+function ParamRow(props: { name: string; unit: string; p: ParameterEstimate }) {
+  const { p } = props;
+  return (
+    <tr>
+      <th scope="row">{props.name}</th>
+      <td class="big">
+        {num(p.best)} {props.unit}
+      </td>
+      <td>{interval(p, props.unit, 68)}</td>
+      <td>{interval(p, props.unit, 95)}</td>
+      <td>{p.free ? 'estimated' : 'known (fixed)'}</td>
+    </tr>
+  );
+}
+
+export function EstimateResultView(props: { r: EstimateResult; theme: string }) {
+  const { r } = props;
+  const alternatives = r.alternatives.filter((a) => a.rank > 1);
+  const mapSpeed = r.misfitMap.yName === 'vs1_m_s' ? r.vs1.best : r.vs2.best;
+  return (
+    <div class="result">
+      <p class="headline" data-testid="thickness">
+        Layer thickness H = <strong>{num(r.thickness.best)} m</strong>
+        <span class="sub">
+          {' '}
+          (68 %: {interval(r.thickness, 'm', 68)}; 95 %: {interval(r.thickness, 'm', 95)})
+        </span>
+      </p>
+      <Caution />
+      <div class="table-wrap">
+        <table class="params">
+          <caption>Best fit and intervals from the profile likelihood</caption>
+          <thead>
+            <tr>
+              <th scope="col">Parameter</th>
+              <th scope="col">Best</th>
+              <th scope="col">68 % interval</th>
+              <th scope="col">95 % interval</th>
+              <th scope="col">Source</th>
+            </tr>
+          </thead>
+          <tbody>
+            <ParamRow name="Layer thickness H" unit="m" p={r.thickness} />
+            <ParamRow name="Layer shear speed β1" unit="m/s" p={r.vs1} />
+            <ParamRow name="Half-space shear speed β2" unit="m/s" p={r.vs2} />
+          </tbody>
+        </table>
+      </div>
+      <p>
+        Densities used: layer ρ1 = {num(r.density1, 4)} kg/m³{r.density1Defaulted ? ' (default)' : ''}, half-space ρ2 ={' '}
+        {num(r.density2, 4)} kg/m³{r.density2Defaulted ? ' (default)' : ''}. Fit: χ²/dof = {num(r.chi2PerDof, 3)} (χ² ={' '}
+        {num(r.chi2, 3)}, {r.dof} degrees of freedom).
+        {Number.isFinite(r.correlationThicknessVs1) ? ` H–β1 correlation: ${num(r.correlationThicknessVs1, 2)}.` : ''}
+      </p>
+      {alternatives.length > 0 ? (
+        <section aria-labelledby="alt-h">
+          <h3 id="alt-h">Other models that also fit ({alternatives.length})</h3>
+          <ul class="plain">
+            {alternatives.map((a) => (
+              <li key={a.rank}>
+                Alternative {a.rank - 1}: H = {num(a.thickness.best)} m (95 %: {interval(a.thickness, 'm', 95)}), β1 ={' '}
+                {num(a.vs1.best)} m/s, β2 = {num(a.vs2.best)} m/s; misfit higher by Δχ² = {num(a.deltaChi2, 2)}.
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : (
+        <p>No other separate model fits within the noise.</p>
+      )}
+      <section aria-labelledby="diag-h">
+        <h3 id="diag-h">What the picks say</h3>
+        <ul class="plain diag">
+          {r.warnings.map((w, i) => (
+            <li key={i}>{w}</li>
+          ))}
+        </ul>
+      </section>
+      <section aria-labelledby="map-h">
+        <h3 id="map-h">Misfit map: the thickness–speed trade-off</h3>
+        <MisfitMapView
+          map={r.misfitMap}
+          bestThickness={r.thickness.best}
+          bestSpeed={mapSpeed}
+          scale={r.intervalScale}
+          correlation={r.correlationThicknessVs1}
+          theme={props.theme}
+        />
+      </section>
+      <details>
+        <summary>How this was computed</summary>
+        <p>{r.method}</p>
+      </details>
+    </div>
+  );
+}
+
+export function EstimateView(props: EstimateViewProps) {
+  const e = props.estimate;
+  const settingsError = props.error?.field.startsWith('set') ? props.error.text : undefined;
+  return (
+    <div class="estimate">
+      <section class="panel" aria-labelledby="known-h">
+        <h2 id="known-h">What is known</h2>
+        <p class="hint">
+          Speeds known from a borehole or a refraction line are held fixed; free ones are searched within the range (blank:
+          a range from the picks). Blank densities use 1800 and 2100 kg/m³ (common practice).
+        </p>
+        <div class="settings-grid">
+          <SpeedChoice which="vs1" view={props} />
+          <SpeedChoice which="vs2" view={props} />
+          <fieldset class="choice">
+            <legend>Densities (kg/m³)</legend>
+            <div class="pair">
+              <SettingInput k="density1" view={props} short="Layer ρ1" />
+              <SettingInput k="density2" view={props} short="Half-space ρ2" />
+            </div>
+          </fieldset>
+          <fieldset class="choice">
+            <legend>Thickness search range (m)</legend>
+            <div class="pair">
+              <SettingInput k="hLo" view={props} short="From" />
+              <SettingInput k="hHi" view={props} short="to" />
+            </div>
+          </fieldset>
+        </div>
+        {settingsError ? (
+          <p id="settings-err" class="error" role="alert">
+            {settingsError}
+          </p>
+        ) : null}
+      </section>
+      <section class="panel" aria-labelledby="est-h">
+        <div class="panel-head">
+          <h2 id="est-h">Estimate</h2>
+          <button type="button" onClick={props.onRun} disabled={props.pickCount === 0}>
+            Compute again
+          </button>
+        </div>
+        <p class="status" role="status" aria-live="polite">
+          {props.pickCount === 0
+            ? 'Enter or import picks first.'
+            : e.status === 'running'
+              ? 'Computing in the background…'
+              : e.status === 'done'
+                ? 'Up to date with the picks and settings.'
+                : ''}
+        </p>
+        {e.status === 'error' && e.error ? (
+          <p class="error" role="alert">
+            {e.error}
+          </p>
+        ) : null}
+        {e.result ? <EstimateResultView r={e.result} theme={props.theme} /> : <Caution />}
+      </section>
+    </div>
+  );
+}

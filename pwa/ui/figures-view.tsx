@@ -1,0 +1,127 @@
+/**
+ * Site figures from the estimate with its uncertainty: Vs30, the classes in
+ * three tables (every class the range meets, so straddling shows), f0, T0
+ * and the impedance ratio. Computed by core/site.ts siteFiguresForRanges
+ * over the 95 % intervals.
+ */
+import type { EstimateResult } from '../../core/estimate';
+import { siteFiguresForRanges, type FigureRange, type SiteFigures } from '../../core/site';
+import { Caution } from './estimate-view';
+import { num } from './format';
+
+export interface FiguresViewProps {
+  result?: EstimateResult;
+  running: boolean;
+}
+
+/** The figures for an estimate, over its 95 % intervals; an error message when the core refuses. */
+export function figuresOf(r: EstimateResult): { figures?: SiteFigures; error?: string } {
+  try {
+    const figures = siteFiguresForRanges(
+      { thickness: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, density1: r.density1, density2: r.density2 },
+      {
+        thickness: [r.thickness.low95, r.thickness.high95],
+        vs1: [r.vs1.low95, r.vs1.high95],
+        vs2: [r.vs2.low95, r.vs2.high95],
+      },
+      { estimatedVelocities: true },
+    );
+    return { figures };
+  } catch (e) {
+    return { error: e instanceof Error ? e.message : String(e) };
+  }
+}
+
+function rangeText(f: FigureRange, unit: string, digits = 3): string {
+  const same = f.low === f.best && f.high === f.best;
+  return same ? `${num(f.best, digits)} ${unit}` : `${num(f.best, digits)} ${unit} (95 %: ${num(f.low, digits)} to ${num(f.high, digits)} ${unit})`;
+}
+
+function classText(codes: string[]): string {
+  if (codes.length === 0) return 'none decided';
+  if (codes.length === 1) return codes[0];
+  return `${codes.join(' or ')}: the range straddles a class boundary`;
+}
+
+export function FiguresView(props: FiguresViewProps) {
+  if (!props.result) {
+    return (
+      <section class="panel" aria-labelledby="fig-h">
+        <h2 id="fig-h">Site figures</h2>
+        <p class="status" role="status">
+          {props.running ? 'Waiting for the estimate…' : 'The site figures follow from the estimate: enter picks first.'}
+        </p>
+        <Caution />
+      </section>
+    );
+  }
+  const { figures, error } = figuresOf(props.result);
+  return (
+    <section class="panel" aria-labelledby="fig-h">
+      <h2 id="fig-h">Site figures</h2>
+      <p class="hint">From the estimated layer over half-space, over the 95 % intervals of H, β1 and β2.</p>
+      {error ? (
+        <p class="error" role="alert">
+          {error}
+        </p>
+      ) : null}
+      {figures ? (
+        <>
+          <div class="table-wrap">
+            <table class="params">
+              <caption>Figures with their ranges</caption>
+              <tbody>
+                <tr>
+                  <th scope="row">Vs30, EN 1998-1 eq. 3.1 (top 30 m)</th>
+                  <td>{rangeText(figures.vs30, 'm/s')}</td>
+                </tr>
+                <tr>
+                  <th scope="row">v̄s over 100 ft (30.48 m), ASCE/SEI 7</th>
+                  <td>{rangeText(figures.vs100ft, 'm/s')}</td>
+                </tr>
+                <tr>
+                  <th scope="row">Fundamental site frequency f0 = β1/(4H)</th>
+                  <td>{rangeText(figures.f0_hz, 'Hz')}</td>
+                </tr>
+                <tr>
+                  <th scope="row">Fundamental site period T0 = 4H/β1</th>
+                  <td>{rangeText(figures.t0_s, 's')}</td>
+                </tr>
+                <tr>
+                  <th scope="row">Impedance ratio ρ1β1/(ρ2β2) (no unit)</th>
+                  <td>{rangeText(figures.impedance_ratio, '', 2)}</td>
+                </tr>
+              </tbody>
+            </table>
+          </div>
+          <div class="table-wrap">
+            <table class="params classes">
+              <caption>Site class by table</caption>
+              <tbody>
+                <tr>
+                  <th scope="row">ASCE/SEI 7-16 Table 20.3-1</th>
+                  <td data-testid="class-asce7_16">{classText(figures.classes.asce7_16)}</td>
+                </tr>
+                <tr>
+                  <th scope="row">ASCE/SEI 7-22 Table 20.2-1</th>
+                  <td data-testid="class-asce7_22">{classText(figures.classes.asce7_22)}</td>
+                </tr>
+                <tr>
+                  <th scope="row">EN 1998-1 Table 3.1 (ground type)</th>
+                  <td data-testid="class-en1998_1">{classText(figures.classes.en1998_1)}</td>
+                </tr>
+              </tbody>
+            </table>
+          </div>
+          <h3>Notes</h3>
+          <ul class="plain diag">
+            {figures.warnings.map((w, i) => (
+              <li key={i}>{w}</li>
+            ))}
+          </ul>
+        </>
+      ) : null}
+      <Caution />
+    </section>
+  );
+}

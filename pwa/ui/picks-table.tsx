@@ -1,0 +1,291 @@
+/**
+ * The picks table, built for touch: numeric keypad, Enter goes to the next
+ * row, every change saves at once, a refused change stays on screen with
+ * its message. Below it, CSV paste or file import.
+ */
+import { useEffect, useRef } from 'preact/hooks';
+import type { PickKind } from '../../core/picks';
+import type { PickRecord } from '../../core/records';
+import { cellText, type PickTextColumn } from './controller';
+import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from './state';
+
+export interface PicksTableProps {
+  picks: readonly PickRecord[];
+  drafts: Readonly<Record<string, RowDraft>>;
+  unit: 'hz' | 's';
+  selectedId?: string;
+  undo?: UndoEntry;
+  onEdit: (row: string, column: PickTextColumn, text: string) => void;
+  onCommit: (row: string, force?: boolean) => void;
+  onKind: (row: string, kind: PickKind) => void;
+  onDelete: (id: string) => void;
+  onDiscard: (row: string) => void;
+  onSelect: (id: string | undefined) => void;
+  onUnit: (unit: 'hz' | 's') => void;
+  onUndo: () => void;
+}
+
+const COLUMNS: PickTextColumn[] = ['frequency_hz', 'velocity_m_s', 'sd_m_s', 'mode'];
+
+export function PicksTable(props: PicksTableProps) {
+  const table = useRef<HTMLTableElement>(null);
+  const absCol: PickTextColumn = props.unit === 's' ? 'period_s' : 'frequency_hz';
+  const absLabel = props.unit === 's' ? 'Period (s)' : 'Frequency (Hz)';
+  const cols = COLUMNS.map((c) => (c === 'frequency_hz' ? absCol : c));
+  const names: Record<PickTextColumn, string> = {
+    frequency_hz: 'frequency (Hz)',
+    period_s: 'period (s)',
+    velocity_m_s: 'velocity (m/s)',
+    sd_m_s: 'standard deviation (m/s)',
+    mode: 'mode number',
+  };
+
+  // Tapping a pick on the plot brings its row into view.
+  useEffect(() => {
+    if (!props.selectedId || !table.current) return;
+    const row = table.current.querySelector<HTMLElement>(`tr[data-id="${props.selectedId}"]`);
+    row?.scrollIntoView({ block: 'nearest' });
+  }, [props.selectedId]);
+
+  const focusCell = (row: number, col: number) => {
+    const el = table.current?.querySelector<HTMLInputElement>(`input[data-row="${row}"][data-col="${col}"]`);
+    el?.focus();
+    el?.select();
+  };
+
+  const rows: { key: string; rec?: PickRecord }[] = props.picks.map((p) => ({ key: p.id, rec: p }));
+  rows.push({ key: NEW_ROW });
+
+  return (
+    <section class="panel" aria-labelledby="picks-h">
+      <div class="panel-head">
+        <h2 id="picks-h">Picks ({props.picks.length})</h2>
+        <div class="seg" role="group" aria-label="Enter and show picks as">
+          <button type="button" aria-pressed={props.unit === 'hz'} onClick={() => props.onUnit('hz')}>
+            Frequency, Hz
+          </button>
+          <button type="button" aria-pressed={props.unit === 's'} onClick={() => props.onUnit('s')}>
+            Period, s
+          </button>
+        </div>
+        <button type="button" disabled={!props.undo} onClick={props.onUndo}>
+          {props.undo ? `Undo ${props.undo.label}` : 'Nothing to undo'}
+        </button>
+      </div>
+      <p class="hint">Every change is saved on this device at once. Enter moves to the next row. An empty sd uses 3 % of the velocity (common practice).</p>
+      <div class="table-wrap">
+        <table class="picks" ref={table}>
+          <thead>
+            <tr>
+              <th scope="col">No.</th>
+              <th scope="col">{absLabel}</th>
+              <th scope="col">Velocity (m/s)</th>
+              <th scope="col">sd (m/s)</th>
+              <th scope="col">Kind</th>
+              <th scope="col">Mode</th>
+              <th scope="col"><span class="sr-only">Remove</span></th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map(({ key, rec }, r) => {
+              const d = props.drafts[key];
+              const label = rec ? `Pick ${r + 1}` : 'New pick';
+              const selected = rec && rec.id === props.selectedId;
+              const kind = d?.kind ?? rec?.kind ?? 'group';
+              const errId = `err-${key}`;
+              return [
+                <tr
+                  key={key}
+                  data-id={rec?.id}
+                  class={`${selected ? 'selected' : ''} ${d?.error ? 'bad' : ''} ${rec ? '' : 'new-row'}`}
+                >
+                  <th scope="row">
+                    {rec ? (
+                      <button
+                        type="button"
+                        class="rowsel"
+                        aria-pressed={!!selected}
+                        aria-label={`Select pick ${r + 1} on the plot`}
+                        onClick={() => props.onSelect(selected ? undefined : rec.id)}
+                      >
+                        {r + 1}
+                      </button>
+                    ) : (
+                      <span aria-hidden="true">+</span>
+                    )}
+                  </th>
+                  {cols.slice(0, 3).map((c, ci) => {
+                    const value = d?.cells[c] ?? (rec ? cellText(rec, c) : '');
+                    const isBad = d?.errorColumn === c || (d?.errorColumn === 'frequency_hz' && c === absCol);
+                    return (
+                      <td key={c}>
+                        <input
+                          class="cell"
+                          inputMode={c === 'mode' ? 'numeric' : 'decimal'}
+                          enterKeyHint="next"
+                          autoComplete="off"
+                          data-row={r}
+                          data-col={ci}
+                          aria-label={`${label}, ${names[c]}`}
+                          aria-invalid={isBad ? 'true' : undefined}
+                          aria-describedby={d?.error ? errId : undefined}
+                          value={value}
+                          placeholder={!rec && c === 'mode' ? '0' : !rec && c === 'sd_m_s' ? '3 %' : undefined}
+                          onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
+                          onChange={() => props.onCommit(key)}
+                          onKeyDown={(e) => {
+                            if (e.key === 'Enter') {
+                              e.preventDefault();
+                              props.onCommit(key, true);
+                              focusCell(rec ? r + 1 : r, ci);
+                            } else if (e.key === 'Escape' && d) {
+                              props.onDiscard(key);
+                            }
+                          }}
+                        />
+                      </td>
+                    );
+                  })}
+                  <td>
+                    <select
+                      class="cell"
+                      aria-label={`${label}, kind of velocity`}
+                      value={kind}
+                      onChange={(e) => props.onKind(key, e.currentTarget.value as PickKind)}
+                    >
+                      <option value="group">group</option>
+                      <option value="phase">phase</option>
+                    </select>
+                  </td>
+                  {cols.slice(3).map((c) => {
+                    const ci = 3;
+                    const value = d?.cells[c] ?? (rec ? cellText(rec, c) : '');
+                    return (
+                      <td key={c}>
+                        <input
+                          class="cell narrow"
+                          inputMode="numeric"
+                          enterKeyHint="next"
+                          autoComplete="off"
+                          data-row={r}
+                          data-col={ci}
+                          aria-label={`${label}, ${names[c]}`}
+                          aria-invalid={d?.errorColumn === c ? 'true' : undefined}
+                          aria-describedby={d?.error ? errId : undefined}
+                          value={value}
+                          placeholder={!rec ? '0' : undefined}
+                          onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
+                          onChange={() => props.onCommit(key)}
+                          onKeyDown={(e) => {
+                            if (e.key === 'Enter') {
+                              e.preventDefault();
+                              props.onCommit(key, true);
+                              focusCell(rec ? r + 1 : r, 0);
+                            }
+                          }}
+                        />
+                      </td>
+                    );
+                  })}
+                  <td>
+                    {rec ? (
+                      <button type="button" class="icon" aria-label={`Remove pick ${r + 1}`} onClick={() => props.onDelete(rec.id)}>
+                        <svg viewBox="0 0 24 24" width="22" height="22" aria-hidden="true">
+                          <path d="M5 7h14M9 7V4h6v3M7 7l1 13h8l1-13" fill="none" stroke="currentColor" stroke-width="2" />
+                        </svg>
+                      </button>
+                    ) : d ? (
+                      <button type="button" class="icon" aria-label="Clear the new pick" onClick={() => props.onDiscard(key)}>
+                        <svg viewBox="0 0 24 24" width="22" height="22" aria-hidden="true">
+                          <path d="M6 6l12 12M18 6L6 18" fill="none" stroke="currentColor" stroke-width="2" />
+                        </svg>
+                      </button>
+                    ) : null}
+                  </td>
+                </tr>,
+                d?.error ? (
+                  <tr key={`${key}-err`} class="row-error">
+                    <td colSpan={7}>
+                      <p id={errId} class="error" role="alert">
+                        {d.error}
+                        {rec ? (
+                          <button type="button" class="link" onClick={() => props.onDiscard(key)}>
+                            Show the saved values again
+                          </button>
+                        ) : null}
+                      </p>
+                    </td>
+                  </tr>
+                ) : null,
+              ];
+            })}
+          </tbody>
+        </table>
+      </div>
+    </section>
+  );
+}
+
+export interface ImportPanelProps {
+  state: ImportState;
+  onText: (text: string) => void;
+  onReplace: (replace: boolean) => void;
+  onImport: (text: string, source?: string) => void;
+}
+
+/** Paste or pick a CSV file; the core parser checks every row before anything is written. */
+export function ImportPanel(props: ImportPanelProps) {
+  const s = props.state;
+  const onFile = async (e: Event) => {
+    const input = e.currentTarget as HTMLInputElement;
+    const file = input.files?.[0];
+    if (!file) return;
+    const text = await file.text();
+    input.value = '';
+    props.onImport(text, `the file ${file.name}`);
+  };
+  return (
+    <section class="panel" aria-labelledby="import-h">
+      <h2 id="import-h">Paste or import picks (CSV)</h2>
+      <p class="hint">
+        A header row names the columns, units in the names: <code>frequency_hz</code> or <code>period_s</code>,{' '}
+        <code>velocity_m_s</code>, and optionally <code>sd_m_s</code>, <code>kind</code>, <code>mode</code>. Comma or
+        semicolon separated. A file with any bad row is not imported at all.
+      </p>
+      <label class="field">
+        <span>CSV text</span>
+        <textarea
+          rows={4}
+          value={s.text}
+          spellcheck={false}
+          aria-invalid={s.error ? 'true' : undefined}
+          aria-describedby={s.error ? 'import-err' : undefined}
+          onInput={(e) => props.onText(e.currentTarget.value)}
+        />
+      </label>
+      <div class="row-form">
+        <label class="check">
+          <input type="checkbox" checked={s.replace} onChange={(e) => props.onReplace(e.currentTarget.checked)} />
+          Replace the current picks
+        </label>
+        <button type="button" class="primary" disabled={s.text.trim() === ''} onClick={() => props.onImport(s.text)}>
+          Import pasted text
+        </button>
+        <label class="button file">
+          Choose a CSV file
+          <input type="file" accept=".csv,text/csv,text/plain" class="sr-only" onChange={onFile} />
+        </label>
+      </div>
+      {s.error ? (
+        <p id="import-err" class="error" role="alert">
+          {s.error}
+        </p>
+      ) : null}
+      {s.info ? (
+        <p class="info" role="status">
+          {s.info}
+        </p>
+      ) : null}
+    </section>
+  );
+}

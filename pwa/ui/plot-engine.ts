@@ -1,0 +1,303 @@
+/**
+ * The dispersion plot, drawn with uPlot. Loaded lazily (with the curve
+ * computation it needs), so the first screen's JavaScript stays small.
+ *
+ * One uPlot instance lives as long as the axis settings and the set of
+ * drawn curves stay the same; new picks or a new model only call setData,
+ * once per animation frame at most (the what-if sliders fire faster).
+ * Picks, their error bars (± one sd), the selected pick and the cutoffs are
+ * drawn by a small plugin on the same canvas; a tap finds the nearest pick.
+ */
+import uPlot from 'uplot';
+import 'uplot/dist/uPlot.min.css';
+import type { LayeredModel } from '../../core/model';
+import {
+  curveColumns,
+  curveKeysOf,
+  extentOf,
+  pickColumns,
+  plotBand,
+  type AxisQuantity,
+  type CurveColumns,
+  type CurveKey,
+  type PickColumns,
+  type PlotPick,
+} from './chart-data';
+
+export interface PlotInput {
+  picks: readonly PlotPick[];
+  /** The model whose curves are drawn (the estimate's best, or the what-if model). */
+  model?: LayeredModel;
+  /** How the curves are labelled: the fitted model or the what-if model. */
+  curveLabel: string;
+  selectedId?: string;
+  axis: AxisQuantity;
+  xLog: boolean;
+  yLog: boolean;
+  theme: string;
+}
+
+/** Plot colours, read from the page's CSS variables so both themes apply. */
+interface Palette {
+  modes: string[];
+  text: string;
+  grid: string;
+  select: string;
+  cutoff: string;
+}
+
+function palette(el: HTMLElement): Palette {
+  const cs = getComputedStyle(el);
+  const v = (name: string, fallback: string) => cs.getPropertyValue(name).trim() || fallback;
+  return {
+    modes: [v('--mode-0', '#0b4fa8'), v('--mode-1', '#b04a00'), v('--mode-2', '#6b2fa0'), v('--mode-3', '#00695c')],
+    text: v('--ink', '#111'),
+    grid: v('--grid', '#ccc'),
+    select: v('--select', '#d00'),
+    cutoff: v('--ink-soft', '#555'),
+  };
+}
+
+/** Colour of a mode, cycling the palette. */
+export function modeColour(p: { modes: string[] }, mode: number): string {
+  return p.modes[mode % p.modes.length];
+}
+
+function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolean): string {
+  return [input.axis, input.xLog, input.yLog, input.theme, hasModel, keys.map((k) => `${k.mode}${k.kind}`).join(',')].join('|');
+}
+
+/** NaN → null, as uPlot draws gaps only at null. */
+function gaps(col: Float64Array): (number | null)[] {
+  const out = new Array<number | null>(col.length);
+  for (let i = 0; i < col.length; i++) out[i] = Number.isNaN(col[i]) ? null : col[i];
+  return out;
+}
+
+export class DispersionPlot {
+  private u?: uPlot;
+  private sig = '';
+  private pending?: PlotInput;
+  private frame = 0;
+  private picks: PickColumns = pickColumns([], 'frequency');
+  private ids: (string | undefined)[] = [];
+  private curves?: CurveColumns;
+  private selected = -1;
+  private pal: Palette;
+  private xRange: [number, number] = [1, 10];
+  private yRange: [number, number] = [100, 500];
+  private readonly ro: ResizeObserver;
+
+  constructor(
+    private readonly el: HTMLElement,
+    private readonly onSelect: (id: string | undefined) => void,
+  ) {
+    this.pal = palette(el);
+    this.ro = new ResizeObserver(() => {
+      if (this.u) this.u.setSize(this.size());
+    });
+    this.ro.observe(el);
+  }
+
+  private size(): { width: number; height: number } {
+    const w = Math.max(240, Math.floor(this.el.clientWidth));
+    const h = Math.max(220, Math.floor(this.el.clientHeight || w * 0.62));
+    return { width: w, height: h };
+  }
+
+  /** Queues new input; the latest input is drawn on the next animation frame. */
+  update(input: PlotInput): void {
+    this.pending = input;
+    if (!this.frame) this.frame = requestAnimationFrame(() => this.flush());
+  }
+
+  /** Draws the pending input now (tests and the first draw). */
+  flush(): void {
+    this.frame = 0;
+    const input = this.pending;
+    if (!input) return;
+    this.pending = undefined;
+    const keys = curveKeysOf(input.picks);
+    this.picks = pickColumns(input.picks, input.axis);
+    this.ids = input.picks.map((p) => p.id);
+    this.selected = input.selectedId ? this.ids.indexOf(input.selectedId) : -1;
+    let band: Float64Array;
+    try {
+      band = plotBand(input.picks);
+      this.curves = input.model ? curveColumns(input.model, band, keys, input.axis) : undefined;
+    } catch {
+      this.curves = undefined;
+      band = new Float64Array(0);
+    }
+    const xCol = this.curves ? this.curves.x : this.sortedX(band, input.axis);
+    this.xRange = this.padded(extentOf([this.picks.x, xCol]), input.xLog);
+    this.yRange = this.padded(
+      extentOf([this.picks.y, ...(this.curves ? this.curves.y : [])], [this.picks.sd]),
+      input.yLog,
+    );
+    const data: uPlot.AlignedData = [xCol, ...(this.curves ? this.curves.y.map(gaps) : [])];
+    const sig = signature(input, keys, !!this.curves);
+    if (!this.u || sig !== this.sig) {
+      this.sig = sig;
+      this.pal = palette(this.el);
+      this.u?.destroy();
+      this.u = new uPlot(this.options(input, keys), data, this.el);
+      this.u.over.addEventListener('click', this.onTap);
+    } else {
+      this.u.setData(data);
+    }
+  }
+
+  private sortedX(band: Float64Array, axis: AxisQuantity): Float64Array {
+    const x = Float64Array.from(band, (f) => (axis === 'frequency' ? f : 1 / f));
+    return x.sort();
+  }
+
+  private padded([lo, hi]: [number, number], log: boolean): [number, number] {
+    if (!Number.isFinite(lo) || !Number.isFinite(hi)) return log ? [1, 100] : [0, 1];
+    if (log) {
+      const l = Math.max(lo, 1e-9);
+      return [l / 1.15, hi * 1.15];
+    }
+    const pad = (hi - lo) * 0.06 || Math.abs(hi) * 0.1 || 1;
+    return [Math.max(0, lo - pad), hi + pad];
+  }
+
+  private options(input: PlotInput, keys: readonly CurveKey[]): uPlot.Options {
+    const pal = this.pal;
+    const xLabel = input.axis === 'frequency' ? 'Frequency (Hz)' : 'Period (s)';
+    const font = '14px system-ui, sans-serif';
+    const axis = (label: string): uPlot.Axis => ({
+      label,
+      stroke: pal.text,
+      font,
+      labelFont: 'bold 14px system-ui, sans-serif',
+      grid: { stroke: pal.grid, width: 1 },
+      ticks: { stroke: pal.grid, width: 1 },
+    });
+    const series: uPlot.Series[] = [{}];
+    if (this.curves) {
+      for (const k of keys) {
+        series.push({
+          label: `${input.curveLabel}: mode ${k.mode} ${k.kind}`,
+          stroke: modeColour(pal, k.mode),
+          width: 2.5,
+          dash: k.kind === 'phase' ? [8, 5] : undefined,
+          points: { show: false },
+          spanGaps: false,
+        });
+      }
+    }
+    return {
+      ...this.size(),
+      legend: { show: false },
+      cursor: { drag: { x: false, y: false }, points: { show: false }, x: false, y: false },
+      scales: {
+        x: { time: false, distr: input.xLog ? 3 : 1, range: () => this.xRange },
+        y: { distr: input.yLog ? 3 : 1, range: () => this.yRange },
+      },
+      axes: [axis(xLabel), axis('Velocity (m/s)')],
+      series,
+      hooks: { draw: [(u) => this.drawOverlay(u)] },
+    };
+  }
+
+  /** Picks with ± one-sd bars, the selection ring and the cutoffs. */
+  private drawOverlay(u: uPlot): void {
+    const ctx = u.ctx;
+    const pr = devicePixelRatio || 1;
+    const { left, top, width, height } = u.bbox;
+    ctx.save();
+    ctx.beginPath();
+    ctx.rect(left, top, width, height);
+    ctx.clip();
+    // cutoffs
+    if (this.curves) {
+      ctx.setLineDash([3 * pr, 4 * pr]);
+      ctx.lineWidth = 1.5 * pr;
+      ctx.font = `${12 * pr}px system-ui, sans-serif`;
+      for (const c of this.curves.cutoffs) {
+        const x = u.valToPos(c.x, 'x', true);
+        ctx.strokeStyle = modeColour(this.pal, c.mode);
+        ctx.beginPath();
+        ctx.moveTo(x, top);
+        ctx.lineTo(x, top + height);
+        ctx.stroke();
+        ctx.fillStyle = this.pal.text;
+        ctx.fillText(`mode ${c.mode} cutoff`, x + 4 * pr, top + 14 * pr);
+      }
+      ctx.setLineDash([]);
+    }
+    const p = this.picks;
+    const r = 5 * pr;
+    for (let i = 0; i < p.x.length; i++) {
+      const x = u.valToPos(p.x[i], 'x', true);
+      const y = u.valToPos(p.y[i], 'y', true);
+      const y0 = u.valToPos(Math.max(p.y[i] - p.sd[i], 1e-9), 'y', true);
+      const y1 = u.valToPos(p.y[i] + p.sd[i], 'y', true);
+      const colour = modeColour(this.pal, p.mode[i]);
+      ctx.strokeStyle = colour;
+      ctx.fillStyle = colour;
+      ctx.lineWidth = 1.5 * pr;
+      ctx.beginPath();
+      ctx.moveTo(x, y0);
+      ctx.lineTo(x, y1);
+      ctx.moveTo(x - r * 0.8, y0);
+      ctx.lineTo(x + r * 0.8, y0);
+      ctx.moveTo(x - r * 0.8, y1);
+      ctx.lineTo(x + r * 0.8, y1);
+      ctx.stroke();
+      ctx.beginPath();
+      if (p.phase[i]) {
+        // phase picks: open diamonds
+        ctx.moveTo(x, y - r * 1.2);
+        ctx.lineTo(x + r * 1.2, y);
+        ctx.lineTo(x, y + r * 1.2);
+        ctx.lineTo(x - r * 1.2, y);
+        ctx.closePath();
+        ctx.lineWidth = 2 * pr;
+        ctx.stroke();
+      } else {
+        // group picks: filled discs
+        ctx.arc(x, y, r, 0, 2 * Math.PI);
+        ctx.fill();
+      }
+      if (i === this.selected) {
+        ctx.strokeStyle = this.pal.select;
+        ctx.lineWidth = 3 * pr;
+        ctx.beginPath();
+        ctx.arc(x, y, r * 2.4, 0, 2 * Math.PI);
+        ctx.stroke();
+      }
+    }
+    ctx.restore();
+  }
+
+  private onTap = (ev: MouseEvent): void => {
+    const u = this.u;
+    if (!u) return;
+    const rect = u.over.getBoundingClientRect();
+    const px = ev.clientX - rect.left;
+    const py = ev.clientY - rect.top;
+    let best = -1;
+    let bestD = 28 * 28; // a fingertip, CSS px²
+    const p = this.picks;
+    for (let i = 0; i < p.x.length; i++) {
+      const dx = u.valToPos(p.x[i], 'x') - px;
+      const dy = u.valToPos(p.y[i], 'y') - py;
+      const d = dx * dx + dy * dy;
+      if (d < bestD) {
+        bestD = d;
+        best = i;
+      }
+    }
+    this.onSelect(best >= 0 ? this.ids[best] : undefined);
+  };
+
+  destroy(): void {
+    cancelAnimationFrame(this.frame);
+    this.ro.disconnect();
+    this.u?.destroy();
+    this.u = undefined;
+  }
+}

@@ -1,0 +1,121 @@
+/**
+ * The dispersion plot panel: axis controls, a legend in words, and the
+ * lazily loaded uPlot engine (plot-engine.ts).
+ */
+import { useEffect, useRef, useState } from 'preact/hooks';
+import type { LayeredModel } from '../../core/model';
+import type { PickRecord } from '../../core/records';
+import type { DispersionPlot } from './plot-engine';
+import type { PlotSettings } from './state';
+
+export interface PlotPanelProps {
+  picks: readonly PickRecord[];
+  model?: LayeredModel;
+  /** Words for the curves, e.g. "best fit" or "what-if". */
+  curveLabel: string;
+  selectedId?: string;
+  settings: PlotSettings;
+  theme: string;
+  onSelect: (id: string | undefined) => void;
+  onSettings: (patch: Partial<PlotSettings>) => void;
+  /** Shown under the title; e.g. the state of the estimate. */
+  caption?: string;
+  /** Headline id, for aria-labelledby. */
+  id: string;
+}
+
+/** Loads the plot engine once; later calls share the promise. */
+let engineModule: Promise<typeof import('./plot-engine')> | undefined;
+export function loadPlotEngine(): Promise<typeof import('./plot-engine')> {
+  engineModule ??= import('./plot-engine');
+  return engineModule;
+}
+
+export function PlotPanel(props: PlotPanelProps) {
+  const host = useRef<HTMLDivElement>(null);
+  const engine = useRef<DispersionPlot | null>(null);
+  const [failed, setFailed] = useState<string | undefined>(undefined);
+  const onSelect = useRef(props.onSelect);
+  onSelect.current = props.onSelect;
+
+  useEffect(() => {
+    let live = true;
+    loadPlotEngine().then(
+      (m) => {
+        if (!live || !host.current) return;
+        engine.current = new m.DispersionPlot(host.current, (id) => onSelect.current(id));
+        engine.current.update(inputOf(props));
+        engine.current.flush();
+      },
+      (e) => setFailed(`The plot could not load: ${e instanceof Error ? e.message : String(e)}`),
+    );
+    return () => {
+      live = false;
+      engine.current?.destroy();
+      engine.current = null;
+    };
+  }, []);
+
+  useEffect(() => {
+    engine.current?.update(inputOf(props));
+  }, [props.picks, props.model, props.selectedId, props.settings, props.theme, props.curveLabel]);
+
+  const s = props.settings;
+  const kinds = new Set(props.picks.map((p) => p.kind));
+  const modes = [...new Set(props.picks.map((p) => p.mode))].sort((a, b) => a - b);
+  const summary =
+    `Dispersion plot: ${props.picks.length} pick(s), velocity in m/s against ${s.axis === 'frequency' ? 'frequency in Hz' : 'period in s'}` +
+    (props.model ? `, with the ${props.curveLabel} curves.` : '.') +
+    ' The picks table lists the same values.';
+  return (
+    <section class="panel plot-panel" aria-labelledby={props.id}>
+      <div class="panel-head">
+        <h2 id={props.id}>Dispersion plot</h2>
+        <div class="seg" role="group" aria-label="Horizontal axis quantity">
+          <button type="button" aria-pressed={s.axis === 'frequency'} onClick={() => props.onSettings({ axis: 'frequency' })}>
+            Frequency (Hz)
+          </button>
+          <button type="button" aria-pressed={s.axis === 'period'} onClick={() => props.onSettings({ axis: 'period' })}>
+            Period (s)
+          </button>
+        </div>
+        <label class="check">
+          <input type="checkbox" checked={s.xLog} onChange={(e) => props.onSettings({ xLog: e.currentTarget.checked })} />
+          Log horizontal axis
+        </label>
+        <label class="check">
+          <input type="checkbox" checked={s.yLog} onChange={(e) => props.onSettings({ yLog: e.currentTarget.checked })} />
+          Log velocity axis (m/s)
+        </label>
+      </div>
+      {props.caption ? <p class="caption">{props.caption}</p> : null}
+      <div class="plot-host" ref={host} role="img" aria-label={summary} />
+      {failed ? <p class="error" role="alert">{failed}</p> : null}
+      <ul class="legend" aria-label="Plot key">
+        {modes.map((m) => (
+          <li key={m}>
+            <span class={`swatch m${m % 4}`} aria-hidden="true" /> mode {m}
+          </li>
+        ))}
+        {kinds.has('group') ? <li><span class="glyph disc" aria-hidden="true" /> group-velocity pick ± 1 sd</li> : null}
+        {kinds.has('phase') ? <li><span class="glyph diamond" aria-hidden="true" /> phase-velocity pick ± 1 sd</li> : null}
+        {props.model ? <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} curve (dashed: phase)</li> : null}
+        {props.model && modes.some((m) => m > 0) ? <li><span class="glyph dash" aria-hidden="true" /> higher-mode cutoff</li> : null}
+        <li>Tap a pick to select its row.</li>
+      </ul>
+    </section>
+  );
+}
+
+function inputOf(p: PlotPanelProps) {
+  return {
+    picks: p.picks,
+    model: p.model,
+    curveLabel: p.curveLabel,
+    selectedId: p.selectedId,
+    axis: p.settings.axis,
+    xLog: p.settings.xLog,
+    yLog: p.settings.yLog,
+    theme: p.theme,
+  };
+}

@@ -1,0 +1,153 @@
+/**
+ * The app's state: one immutable object, replaced (never mutated) on every
+ * change. Pure helpers here; the async work that changes it lives in
+ * controller.ts.
+ */
+import type { PickCells, PickKind } from '../../core/picks';
+import type { PickRecord, SiteRecord } from '../../core/records';
+import type { AxisQuantity } from './chart-data';
+import type { EstimateOutcome } from './compute';
+
+export type ViewName = 'picks' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
+export type SiteSort = 'recent' | 'name' | 'date';
+export type Theme = 'standard' | 'sun';
+
+/** Text the crew has typed into a row and that is not saved yet (or failed to save). */
+export interface RowDraft {
+  cells: PickCells;
+  kind?: PickKind;
+  /** The message of the last failed check or write; the input stays on screen. */
+  error?: string;
+  /** The column the error is about, for aria-invalid. */
+  errorColumn?: string;
+  saving?: boolean;
+}
+
+export interface Notice {
+  id: number;
+  tone: 'error' | 'info';
+  text: string;
+}
+
+/** The last change, and how to take it back. */
+export interface UndoEntry {
+  label: string;
+  revert: () => Promise<void>;
+}
+
+export interface PlotSettings {
+  axis: AxisQuantity;
+  xLog: boolean;
+  yLog: boolean;
+}
+
+/** The what-if model: strings as typed in the number boxes are not kept; sliders give numbers. */
+export interface WhatIfModel {
+  h: number;
+  vs1: number;
+  vs2: number;
+  rho1: number;
+  rho2: number;
+}
+
+export interface ImportState {
+  text: string;
+  replace: boolean;
+  error?: string;
+  info?: string;
+}
+
+export interface SiteFormError {
+  field: string;
+  text: string;
+}
+
+export interface AppState {
+  ready: boolean;
+  /** A failure that stops the app (the database could not open). */
+  fatal?: string;
+  online: boolean;
+  theme: Theme;
+  sites: SiteRecord[];
+  siteQuery: string;
+  siteSort: SiteSort;
+  openSiteId?: string;
+  view: ViewName;
+  /** The open site's live picks, in table order. */
+  picks: PickRecord[];
+  /** Unsaved row text by row key (pick id, or NEW_ROW). */
+  drafts: Readonly<Record<string, RowDraft>>;
+  selectedPickId?: string;
+  undo?: UndoEntry;
+  notices: readonly Notice[];
+  plot: PlotSettings;
+  whatif?: WhatIfModel;
+  surveyDepth: string;
+  importState: ImportState;
+  siteError?: SiteFormError;
+  /** Site-form text not yet saved (or refused): field name → text. */
+  siteDraft: Readonly<Record<string, string>>;
+  estimate: EstimateState;
+  /** Set when a new version of the app is ready: calling it reloads into the new version. */
+  updateReady?: () => void;
+  locating: boolean;
+}
+
+/** The estimate of the open site, as the worker last answered. */
+export interface EstimateState {
+  status: 'idle' | 'running' | 'done' | 'error';
+  result?: EstimateOutcome;
+  /** Plain-words failure (too few picks, a bad setting, a worker failure). */
+  error?: string;
+}
+
+/** The key of the always-present empty row at the end of the picks table. */
+export const NEW_ROW = 'new';
+
+export const initialState: AppState = {
+  ready: false,
+  online: true,
+  theme: 'standard',
+  sites: [],
+  siteQuery: '',
+  siteSort: 'recent',
+  view: 'picks',
+  picks: [],
+  drafts: {},
+  notices: [],
+  plot: { axis: 'frequency', xLog: true, yLog: false },
+  surveyDepth: '30',
+  importState: { text: '', replace: false },
+  siteDraft: {},
+  estimate: { status: 'idle' },
+  locating: false,
+};
+
+/** Sites matching the search text (name, crew, notes, date), in the chosen order. */
+export function visibleSites(sites: readonly SiteRecord[], query: string, sort: SiteSort): SiteRecord[] {
+  const q = query.trim().toLowerCase();
+  const hits = q
+    ? sites.filter((s) => `${s.name}\n${s.crew}\n${s.notes}\n${s.date}`.toLowerCase().includes(q))
+    : [...sites];
+  const by = (a: string, b: string) => (a < b ? -1 : a > b ? 1 : 0);
+  if (sort === 'name') hits.sort((a, b) => a.name.localeCompare(b.name) || by(a.id, b.id));
+  else if (sort === 'date') hits.sort((a, b) => by(b.date, a.date) || a.name.localeCompare(b.name));
+  else hits.sort((a, b) => by(b.updatedAt, a.updatedAt));
+  return hits;
+}
+
+/** A copy of the record map without one key. */
+export function without<T>(map: Readonly<Record<string, T>>, key: string): Record<string, T> {
+  const out: Record<string, T> = { ...map };
+  delete out[key];
+  return out;
+}
+
+/** Replaces (or appends) a record with the same id in a list, keeping the order. */
+export function replaceById<T extends { id: string }>(list: readonly T[], item: T): T[] {
+  const i = list.findIndex((x) => x.id === item.id);
+  if (i < 0) return [...list, item];
+  const out = list.slice();
+  out[i] = item;
+  return out;
+}

@@ -1,0 +1,137 @@
+/**
+ * Survey advice: from a target depth, the estimate and the picks so far,
+ * what the spread and source must reach (core/survey.ts, common practice),
+ * and what to change before leaving the site.
+ */
+import type { EstimateResult } from '../../core/estimate';
+import type { PickRecord } from '../../core/records';
+import { surveyAdvice, type SurveyAdvice } from '../../core/survey';
+import { num, span } from './format';
+
+export interface SurveyViewProps {
+  depthText: string;
+  picks: readonly PickRecord[];
+  result?: EstimateResult;
+  onDepth: (text: string) => void;
+}
+
+export function adviceOf(props: SurveyViewProps): { advice?: SurveyAdvice; error?: string } {
+  const t = props.depthText.trim();
+  const depth = Number(t.replace(',', '.'));
+  if (t === '' || !Number.isFinite(depth)) {
+    return { error: `The target depth must be a number of metres greater than 0, but it is "${t}".` };
+  }
+  const r = props.result;
+  try {
+    const advice = surveyAdvice({
+      targetDepth: depth,
+      model: r ? { h: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, rho1: r.density1, rho2: r.density2 } : undefined,
+      pickedWavelengths: props.picks.map((p) => p.velocity / p.frequency),
+    });
+    return { advice };
+  } catch (e) {
+    return { error: e instanceof Error ? e.message : String(e) };
+  }
+}
+
+export function SurveyView(props: SurveyViewProps) {
+  const { advice, error } = adviceOf(props);
+  const r = props.result;
+  const notResolved = r && !r.diagnostics.thicknessResolved;
+  return (
+    <section class="panel" aria-labelledby="survey-h">
+      <h2 id="survey-h">Survey plan</h2>
+      <label class="field">
+        <span>Target depth (m)</span>
+        <input
+          inputMode="decimal"
+          value={props.depthText}
+          aria-invalid={error ? 'true' : undefined}
+          aria-describedby={error ? 'survey-err' : 'survey-note'}
+          onInput={(e) => props.onDepth(e.currentTarget.value)}
+        />
+      </label>
+      {error ? (
+        <p id="survey-err" class="error" role="alert">
+          {error}
+        </p>
+      ) : null}
+      {notResolved ? (
+        <p class="warn" role="alert">
+          The estimate says the picks do not reach deep enough: the layer (about {num(r.thickness.best)} m) is deeper than
+          half the longest picked wavelength ({num(r.diagnostics.longestWavelength)} m). Change the survey before leaving the
+          site, as below.
+        </p>
+      ) : null}
+      {advice ? (
+        <>
+          {advice.actions.length > 0 ? (
+            <div class="todo" role="status">
+              <h3>Before leaving the site</h3>
+              <ul class="plain">
+                {advice.actions.map((a, i) => (
+                  <li key={i}>{a}</li>
+                ))}
+              </ul>
+            </div>
+          ) : (
+            <p class="ok" role="status">
+              The picks reach {num(advice.targetDepth)} m on the cautious rule (a third of the longest wavelength).
+            </p>
+          )}
+          <div class="table-wrap">
+            <table class="params">
+              <caption>To see {num(advice.targetDepth)} m deep (common practice)</caption>
+              <tbody>
+                <tr>
+                  <th scope="row">Longest wavelength needed (m)</th>
+                  <td>
+                    {num(advice.wavelength[1])} m cautious (3 × depth); {num(advice.wavelength[0])} m at least (2 × depth)
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">Lowest frequency needed (Hz)</th>
+                  <td>
+                    {Number.isFinite(advice.lowestFrequency[0])
+                      ? `${num(advice.lowestFrequency[0])} Hz cautious; ${num(advice.lowestFrequency[1])} Hz at least (fundamental mode of the current estimate)`
+                      : 'needs an estimate of the ground speeds'}
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">Spread length (m)</th>
+                  <td>
+                    at least {num(advice.spreadLength[0])} m (the depth); {num(advice.spreadLength[1])} m advised (the cautious
+                    wavelength)
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">Source offset from the first receiver (m)</th>
+                  <td>{span(advice.sourceOffset[0], advice.sourceOffset[1])} m (a quarter to a half of the advised spread)</td>
+                </tr>
+                <tr>
+                  <th scope="row">Depth the picks reach now (m)</th>
+                  <td>
+                    {Number.isFinite(advice.pickedLongest)
+                      ? `${span(advice.reachedDepth[0], advice.reachedDepth[1])} m (a third to a half of the longest picked wavelength, ${num(advice.pickedLongest)} m)`
+                      : 'no picks yet'}
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">Largest receiver spacing (m)</th>
+                  <td>
+                    {Number.isFinite(advice.receiverSpacing)
+                      ? `${num(advice.receiverSpacing)} m (half the shortest picked wavelength, ${num(advice.pickedShortest)} m)`
+                      : 'no picks yet'}
+                  </td>
+                </tr>
+              </tbody>
+            </table>
+          </div>
+          <p id="survey-note" class="hint">
+            {advice.note} Picked wavelengths are velocity ÷ frequency of each pick.
+          </p>
+        </>
+      ) : null}
+    </section>
+  );
+}
