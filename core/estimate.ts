@@ -782,6 +782,11 @@ function crossing(P: EstimateProblem, fit: Fit, j: number, dir: 1 | -1, level: n
   return { u: prevU, open: true };
 }
 
+/** The search range of free parameter j, in m or m/s. */
+function rangeOf(P: EstimateProblem, j: number): [number, number] {
+  return j === 0 ? P.ranges.thickness : j === P.iVs1 ? P.ranges.vs1 : P.ranges.vs2;
+}
+
 function fixedEstimate(value: number): ParameterEstimate {
   return { best: value, low68: value, high68: value, low95: value, high95: value, free: false, openLow: false, openHigh: false };
 }
@@ -812,7 +817,8 @@ function intervalsAround(
         // Just past the quadratic (Gauss–Newton) estimate, so one step usually brackets the crossing.
         const first = Math.min(Math.max(guess * 1.1, 1e-6), 0.25 * width);
         const c = crossing(P, fit, j, dir, level, first);
-        ends.push([Math.exp(c.u), c.open ? 1 : 0]);
+        // An open end is the search range's own value, exactly.
+        ends.push([c.open ? rangeOf(P, j)[dir < 0 ? 0 : 1] : Math.exp(c.u), c.open ? 1 : 0]);
       }
       if (dir < 0) {
         est.low68 = ends[0][0];
@@ -1038,7 +1044,7 @@ function mapOf(P: EstimateProblem, g: Grid): MisfitMap {
   const x = g.lnH.map(Math.exp);
   const byVs1 = P.iVs1 >= 0 || P.iVs2 < 0;
   if (byVs1) {
-    const y = g.lnB1.map(Math.exp);
+    const y = P.iVs1 >= 0 ? g.lnB1.map(Math.exp) : Float64Array.of(P.fixedVs1);
     const chi2 = new Float64Array(g.nB * nH).fill(NaN);
     for (let ib = 0; ib < g.nB; ib++) {
       for (let ih = 0; ih < nH; ih++) {
