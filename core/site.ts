@@ -413,16 +413,9 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
     );
   }
 
-  const r22 = options.estimatedVelocities
-    ? range(v100, [v100 / ASCE7_22_ESTIMATE_FACTOR, v100 * ASCE7_22_ESTIMATE_FACTOR])
-    : range(v100, []);
-  if (options.estimatedVelocities) warnings.push(estimatedWarning());
-  const classes: Record<SiteClassTableId, string[]> = {
-    asce7_16: siteClassesInRange('asce7_16', [v100, v100]),
-    asce7_22: siteClassesInRange('asce7_22', [r22.low, r22.high]),
-    en1998_1: siteClassesInRange('en1998_1', [v30, v30]),
-  };
-  const straddles = straddleWarnings(classes, { asce7_16: range(v100, []), asce7_22: r22, en1998_1: range(v30, []) });
+  const speedClasses = siteClassesForRanges({ vs30: [v30, v30], vs100ft: [v100, v100] }, options);
+  const classes = speedClasses.classes;
+  warnings.push(...speedClasses.warnings);
   const e = typeEOfModel(m);
   if (e.isE) {
     warnings.push(
@@ -437,7 +430,7 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
       warnings.push(...edgeWarning([l.thickness, l.thickness]));
     }
   }
-  warnings.push(...straddles, ...standingWarnings());
+  warnings.push(...standingWarnings());
   return {
     vs30: range(v30, []),
     vs100ft: range(v100, []),
@@ -455,6 +448,68 @@ function estimatedWarning(): string {
     'The shear speeds are estimated, not measured: the ASCE/SEI 7-22 classes cover the average speed divided and ' +
     `multiplied by ${ASCE7_22_ESTIMATE_FACTOR} [from memory, verify: ASCE/SEI 7-22 §20.3].`
   );
+}
+
+/** Speed ranges to class: Vs30 for EN 1998-1, v̄s100ft for ASCE/SEI 7, and optionally the layer ranges for type E. */
+export interface ClassRanges {
+  /** Vs30 range [low, high], m/s (EN 1998-1:2004 eq. 3.1). */
+  vs30: readonly [number, number];
+  /** v̄s over 100 ft range [low, high], m/s (ASCE/SEI 7-16 §20.4). */
+  vs100ft: readonly [number, number];
+  /** One layer over a half-space: thickness and speed ranges, for EN type E. Omitted: type E not considered. */
+  typeE?: TypeERanges;
+}
+
+/**
+ * Every class each table allows over speed ranges, never just one when a
+ * range crosses a boundary (ASCE/SEI 7-16 Table 20.3-1 and ASCE/SEI 7-22
+ * Table 20.2-1 from v̄s100ft, EN 1998-1:2004 Table 3.1 from Vs30). With
+ * layer ranges, EN type E is the only EN type when certain over the box and
+ * is listed beside the Vs30 types when only possible. Returns the classes
+ * (slowest first, E last) and plain-words warnings on straddled boundaries
+ * and type E; the standing warnings (F, S1, S2) come with siteFigures.
+ */
+export function siteClassesForRanges(
+  r: ClassRanges,
+  options: SiteOptions = {},
+): { classes: Record<SiteClassTableId, string[]>; warnings: string[] } {
+  if (!r || typeof r !== 'object') throw new InputError('ranges', 'ranges must be an object.');
+  const [a0, a1] = checkRange(r.vs30, 'vs30 range', true);
+  const [c0, c1] = checkRange(r.vs100ft, 'vs100ft range', true);
+  const v30: FigureRange = { best: a0, low: a0, high: a1 };
+  const v100: FigureRange = { best: c0, low: c0, high: c1 };
+  const warnings: string[] = [];
+  const r22 = options.estimatedVelocities
+    ? { best: c0, low: c0 / ASCE7_22_ESTIMATE_FACTOR, high: c1 * ASCE7_22_ESTIMATE_FACTOR }
+    : v100;
+  if (options.estimatedVelocities) warnings.push(estimatedWarning());
+  const classes: Record<SiteClassTableId, string[]> = {
+    asce7_16: siteClassesInRange('asce7_16', [v100.low, v100.high]),
+    asce7_22: siteClassesInRange('asce7_22', [r22.low, r22.high]),
+    en1998_1: siteClassesInRange('en1998_1', [v30.low, v30.high]),
+  };
+  // Straddled boundaries of the speed-based classes, before type E joins them.
+  const straddles = straddleWarnings(classes, { asce7_16: v100, asce7_22: r22, en1998_1: v30 });
+  if (r.typeE !== undefined) {
+    const H = r.typeE.thickness;
+    const e = enTypeE(r.typeE);
+    if (e === 'certain') {
+      warnings.push(
+        `EN 1998-1 Table 3.1 ground type E over the whole range: ${fmt(H[0])}–${fmt(H[1])} m of type C or D soil ` +
+          `(vs < 360 m/s) over material faster than 800 m/s. By Vs30 alone it would be type ${classes.en1998_1.join(', ')}.`,
+      );
+      classes.en1998_1 = ['E'];
+    } else if (e === 'possible') {
+      warnings.push(
+        'EN 1998-1 Table 3.1 ground type E (5–20 m of type C or D soil over material faster than 800 m/s) is possible ' +
+          'within the ranges but not certain, so it is listed with the types by Vs30.',
+      );
+      classes.en1998_1 = [...classes.en1998_1, 'E'];
+    }
+    if (e !== 'no') warnings.push(...edgeWarning(H));
+  }
+  warnings.push(...straddles);
+  return { classes, warnings };
 }
 
 /** Best values of one layer over a half-space. */
@@ -551,33 +606,10 @@ export function siteFiguresForRanges(
   const t0 = range((4 * h) / b1, corners.map(([hh, a]) => (4 * hh) / a));
   const imp = range((r1 * b1) / (r2 * b2), corners.map(([, a, b]) => (r1 * a) / (r2 * b)));
 
-  const warnings: string[] = [];
-  const r22 = options.estimatedVelocities
-    ? range(v100.best, [v100.low / ASCE7_22_ESTIMATE_FACTOR, v100.high * ASCE7_22_ESTIMATE_FACTOR])
-    : v100;
-  if (options.estimatedVelocities) warnings.push(estimatedWarning());
-  const classes: Record<SiteClassTableId, string[]> = {
-    asce7_16: siteClassesInRange('asce7_16', [v100.low, v100.high]),
-    asce7_22: siteClassesInRange('asce7_22', [r22.low, r22.high]),
-    en1998_1: siteClassesInRange('en1998_1', [v30.low, v30.high]),
-  };
-  // Straddled boundaries of the speed-based classes, before type E joins them.
-  const straddles = straddleWarnings(classes, { asce7_16: v100, asce7_22: r22, en1998_1: v30 });
-  const e = enTypeE({ thickness: H, vs1: V1, vs2: V2 });
-  if (e === 'certain') {
-    warnings.push(
-      `EN 1998-1 Table 3.1 ground type E over the whole range: ${fmt(H[0])}–${fmt(H[1])} m of type C or D soil ` +
-        `(vs < 360 m/s) over material faster than 800 m/s. By Vs30 alone it would be type ${classes.en1998_1.join(', ')}.`,
-    );
-    classes.en1998_1 = ['E'];
-  } else if (e === 'possible') {
-    warnings.push(
-      'EN 1998-1 Table 3.1 ground type E (5–20 m of type C or D soil over material faster than 800 m/s) is possible ' +
-        'within the ranges but not certain, so it is listed with the types by Vs30.',
-    );
-    classes.en1998_1 = [...classes.en1998_1, 'E'];
-  }
-  if (e !== 'no') warnings.push(...edgeWarning(H));
+  const { classes, warnings } = siteClassesForRanges(
+    { vs30: [v30.low, v30.high], vs100ft: [v100.low, v100.high], typeE: { thickness: H, vs1: V1, vs2: V2 } },
+    options,
+  );
   if (!Number.isFinite(H[1])) {
     warnings.push('The thickness has no upper bound, so f0 has no lower bound and T0 no upper bound.');
   }
@@ -587,7 +619,7 @@ export function siteFiguresForRanges(
         'assumes a stiffer base.',
     );
   }
-  warnings.push(...straddles, ...standingWarnings());
+  warnings.push(...standingWarnings());
   return {
     vs30: v30,
     vs100ft: v100,

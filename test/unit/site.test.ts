@@ -18,6 +18,7 @@ import {
   ASCE7_22_TABLE,
   EN1998_1_TABLE,
   enTypeE,
+  siteClassesForRanges,
   siteClassesInRange,
   siteClassOf,
   siteFigures,
@@ -190,6 +191,28 @@ describe('straddling: every class in a range, never just one', () => {
     // 150 m/s = 492.1 ft/s (E) to 600 m/s = 1968.5 ft/s (C).
     expect(siteClassesInRange('asce7_22', [150, 600])).toEqual(['E', 'DE', 'D', 'CD', 'C']);
     expect(siteClassesInRange('asce7_16', [1000, Infinity])).toEqual(['B', 'A']);
+  });
+
+  it('siteClassesForRanges gives every class of all three tables from speed ranges', () => {
+    // Vs30 350–370 m/s crosses EN 360 (C|B); v̄s100ft 350–370 m/s = 1148–1214 ft/s crosses
+    // 7-16 1200 ft/s (D|C) and lies inside 7-22 CD (1000–1450 ft/s).
+    const r = siteClassesForRanges({ vs30: [350, 370], vs100ft: [350, 370] });
+    expect(r.classes).toEqual({ asce7_16: ['D', 'C'], asce7_22: ['CD'], en1998_1: ['C', 'B'] });
+    expect(r.warnings).toEqual([
+      'The average shear speed range 350–370 m/s crosses a class boundary of ASCE/SEI 7-16 Table 20.3-1: classes D, C are all possible.',
+      'The average shear speed range 350–370 m/s crosses a class boundary of EN 1998-1:2004 Table 3.1: classes C, B are all possible.',
+    ]);
+    // With a thickness range reaching past 20 m, type E is possible and listed last.
+    const e = siteClassesForRanges({
+      vs30: [250, 300],
+      vs100ft: [250, 300],
+      typeE: { thickness: [18, 24], vs1: [200, 240], vs2: [850, 900] },
+    });
+    expect(e.classes.en1998_1).toEqual(['C', 'E']);
+    expect(e.warnings.some((w) => w.includes('is possible within the ranges'))).toBe(true);
+    expect(inputError(() => siteClassesForRanges({ vs30: [300, 250], vs100ft: [250, 300] })).message).toBe(
+      'vs30 range is [300, 250]: the low end is above the high end.',
+    );
   });
 
   it('one layer over a half-space with ranges crossing boundaries in all three tables', () => {
