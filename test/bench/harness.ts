@@ -18,6 +18,10 @@ export interface BenchResult {
   target_ms?: number;
   /** Free text: units, sizes, anything needed to read the figure. */
   note?: string;
+  /** For a size figure instead of a time (median_ms etc. are then 0): the size in kB. */
+  size_kB?: number;
+  /** The size budget in kB, if the issue states one. */
+  budget_kB?: number;
 }
 
 export interface BenchOptions {
