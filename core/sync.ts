@@ -65,7 +65,7 @@ export interface MergeOptions {
    * superseded, even when its key has fallen out of every history.
    * @default none
    */
-  seen?: (key: string) => boolean;
+  seen?: (key: string, id: string) => boolean;
 }
 
 interface Candidate {
@@ -131,7 +131,7 @@ export function mergeRecord<T extends AnyRecord>(stored: T | undefined, incoming
   const storedKey = revisionKey(stored);
   const incomingKey = revisionKey(incoming);
   const storedCandidates = candidatesOf(stored, undefined);
-  const incomingCandidates = candidatesOf(incoming, options.from).filter((c) => !(c.key === incomingKey && options.seen?.(c.key) && c.key !== storedKey));
+  const incomingCandidates = candidatesOf(incoming, options.from).filter((c) => !(c.key === incomingKey && options.seen?.(c.key, incoming.id) && c.key !== storedKey));
 
   // Every version involved, once each (the stored copy wins a tie, so its `from` stays).
   const all = new Map<string, Candidate>();

@@ -1,0 +1,69 @@
+/**
+ * `shearfield bundle-import FILE... [--data DIR]`: merges site bundles into
+ * the office store with the sync rules, each file in one transaction.
+ */
+import { readFileSync, statSync } from 'node:fs';
+import { basename } from 'node:path';
+import { parseArgs } from 'node:util';
+import { randomUUID } from 'node:crypto';
+import { importSummary, MAX_BUNDLE_CHARS, parseBundle, bundleRecords } from '../../core/bundle';
+import { InputError } from '../../core/errors';
+import type { Command, CommandIO } from '../command';
+import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+
+const HELP = `Usage: shearfield bundle-import FILE.json [FILE.json ...] [--data DIR]
+
+Merges site bundles (exported by the app or by bundle-export) into the office store.
+Records merge by id and revision: nothing is duplicated, a newer revision is never
+replaced by an older one, and two versions edited side by side are both kept and
+flagged for review (see shearfield conflicts). Each file is checked whole first; a bad
+file changes nothing and the reason is printed. Importing the same file twice changes
+nothing the second time.
+
+Options:
+  --data DIR  Folder of the office store (created if missing). Default ${DEFAULT_DATA_DIR}.
+  -h, --help  Show this help.
+
+Exit status: 0 all files imported; 1 a file was refused (files before it stay imported).`;
+
+/** Reads and checks one bundle file; throws InputError naming the file. */
+export function readBundleFile(path: string) {
+  let text: string;
+  try {
+    if (statSync(path).size > MAX_BUNDLE_CHARS * 4) throw new InputError(path, `${path} is larger than a bundle can be.`);
+    text = readFileSync(path, 'utf8');
+  } catch (e) {
+    if (e instanceof InputError) throw e;
+    throw new InputError(path, `Cannot read ${path}: ${(e as NodeJS.ErrnoException).code === 'ENOENT' ? 'no such file' : (e as Error).message}.`);
+  }
+  try {
+    return parseBundle(text);
+  } catch (e) {
+    if (e instanceof InputError) throw new InputError(e.field, `${basename(path)}: ${e.message} Nothing was imported from it.`);
+    throw e;
+  }
+}
+
+const bundleImport: Command = {
+  name: 'bundle-import',
+  summary: 'Merge site bundle files into the office store (same rules as sync).',
+  help: HELP,
+  async run(args: string[], io: CommandIO): Promise<number> {
+    const { values, positionals } = parseArgs({ args, options: { data: { type: 'string', default: DEFAULT_DATA_DIR } }, allowPositionals: true, strict: true });
+    if (positionals.length === 0) throw new InputError('FILE', 'Give at least one bundle file, e.g. shearfield bundle-import sites.json.');
+    const bundles = positionals.map((p) => [p, readBundleFile(p)] as const);
+    const store = OfficeStore.open(values.data!, { create: true });
+    try {
+      for (const [path, bundle] of bundles) {
+        const source = `bundle ${basename(path)}${bundle.exportedBy ? ` from ${bundle.exportedBy}` : ''}`.slice(0, 200);
+        const result = store.applyBatch(bundleRecords(bundle), { batchId: `bundle-${randomUUID()}`, source });
+        io.out(`${basename(path)}: ${importSummary(bundle, result.plan)}\n`);
+      }
+    } finally {
+      store.close();
+    }
+    return 0;
+  },
+};
+
+export default bundleImport;

@@ -1,0 +1,78 @@
+/**
+ * `shearfield device add NAME | list | revoke NAME-or-id [--data DIR]`:
+ * the tablets allowed to sync with the office store.
+ */
+import { parseArgs } from 'node:util';
+import { InputError } from '../../core/errors';
+import type { Command, CommandIO } from '../command';
+import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+
+const HELP = `Usage:
+  shearfield device add NAME [--data DIR]        Register a tablet; prints its token ONCE.
+  shearfield device list [--data DIR]            List devices: id, name, added, last batch, revoked.
+  shearfield device revoke NAME-or-id [--data DIR]  Stop a device's token from working, at once.
+
+The office keeps only the SHA-256 of each token, so a lost token cannot be shown again:
+revoke the device and add it again. Enter the token and the office address in the app's
+sync settings; every sync call sends it as "Authorization: Bearer TOKEN".
+
+Options:
+  --data DIR  Folder of the office store (created by add if missing). Default ${DEFAULT_DATA_DIR}.
+  -h, --help  Show this help.`;
+
+const device: Command = {
+  name: 'device',
+  summary: 'Add, list or revoke the tablets allowed to sync with the office store.',
+  help: HELP,
+  async run(args: string[], io: CommandIO): Promise<number> {
+    const { values, positionals } = parseArgs({
+      args,
+      options: { data: { type: 'string', default: DEFAULT_DATA_DIR } },
+      allowPositionals: true,
+      strict: true,
+    });
+    const [action, ...rest] = positionals;
+    if (action !== 'add' && action !== 'list' && action !== 'revoke') {
+      throw new InputError('action', `Say what to do: shearfield device add NAME, device list or device revoke NAME (got ${action === undefined ? 'nothing' : JSON.stringify(action)}).`);
+    }
+    const wantsName = action !== 'list';
+    if (wantsName && rest.length !== 1) {
+      throw new InputError('NAME', `device ${action} takes one device name${action === 'revoke' ? ' or id' : ''} (quote a name with spaces), but ${rest.length} were given.`);
+    }
+    if (!wantsName && rest.length !== 0) throw new InputError('list', 'device list takes no further words.');
+    const store = OfficeStore.open(values.data!, { create: action === 'add' });
+    try {
+      if (action === 'add') {
+        const d = store.addDevice(rest[0]);
+        io.out(
+          [
+            `Added device ${d.id}: ${d.name}`,
+            `Token (shown once; the office keeps only its SHA-256):`,
+            ``,
+            `  ${d.token}`,
+            ``,
+            `Enter it with the office address in the app's sync settings.`,
+            ``,
+          ].join('\n'),
+        );
+      } else if (action === 'list') {
+        const rows = store.listDevices();
+        if (rows.length === 0) {
+          io.out(`No devices yet. Add one: shearfield device add NAME --data ${values.data}\n`);
+        } else {
+          const table = [['id', 'name', 'added', 'last batch', 'state'], ...rows.map((d) => [String(d.id), d.name, d.createdAt, d.lastBatchAt ?? '-', d.revokedAt ? `revoked ${d.revokedAt}` : 'active'])];
+          const widths = table[0].map((_, i) => Math.max(...table.map((r) => r[i].length)));
+          io.out(table.map((r) => r.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd()).join('\n') + '\n');
+        }
+      } else {
+        const d = store.revokeDevice(rest[0]);
+        io.out(`Revoked device ${d.id}: ${d.name} (since ${d.revokedAt}). Its token no longer works.\n`);
+      }
+    } finally {
+      store.close();
+    }
+    return 0;
+  },
+};
+
+export default device;

@@ -1,0 +1,78 @@
+/**
+ * `shearfield sites-export OUTDIR [--data DIR]`: every site as CSV and
+ * GeoJSON, and each site's picks as a picks CSV file.
+ */
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { parseArgs } from 'node:util';
+import { CAUTION } from '../../core/caution';
+import { InputError } from '../../core/errors';
+import { sitesToGeoJson } from '../../core/geojson';
+import { picksToCsv } from '../../core/picks';
+import type { PickRecord, SiteRecord } from '../../core/records';
+import { sitePicks, summariseSite, type SiteSummary } from '../../core/site-summary';
+import { sitesToCsv } from '../../core/site-tables';
+import type { Command, CommandIO } from '../command';
+import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+
+const HELP = `Usage: shearfield sites-export OUTDIR [--data DIR] [--no-estimate]
+
+Writes into OUTDIR (created if missing):
+  sites.csv          one row per site: site_id, name, date, crew, lat_deg, lon_deg,
+                     location_accuracy_m, location_source, axis_unit, picks, rev, updated_at,
+                     conflicts, notes, caution
+  sites.geojson      RFC 7946 FeatureCollection: a Point [lon, lat] per located site with its
+                     name, date, crew, the estimate (thickness and 95 % interval, speeds, Vs30
+                     range) and site classes, re-run from the picks; and the caution
+  picks/SITE_ID.csv  each site's live picks in the picks CSV format the app and the core read
+                     (frequency_hz or period_s, velocity_m_s, sd_m_s, kind, mode, id, note, time)
+  CAUTION.txt        the screening caution
+Deleted sites are left out.
+
+Options:
+  --no-estimate  Leave the estimate fields of sites.geojson empty (faster).
+  --data DIR     Folder of the office store. Default ${DEFAULT_DATA_DIR}.
+  -h, --help     Show this help.`;
+
+const sitesExport: Command = {
+  name: 'sites-export',
+  summary: 'Export every site as CSV and GeoJSON, and each site\'s picks as CSV.',
+  help: HELP,
+  async run(args: string[], io: CommandIO): Promise<number> {
+    const { values, positionals } = parseArgs({
+      args,
+      options: { data: { type: 'string', default: DEFAULT_DATA_DIR }, 'no-estimate': { type: 'boolean', default: false } },
+      allowPositionals: true,
+      strict: true,
+    });
+    if (positionals.length !== 1) throw new InputError('OUTDIR', 'Give one output folder, e.g. shearfield sites-export export/.');
+    const store = OfficeStore.open(values.data!);
+    let records;
+    try {
+      records = store.allRecords();
+    } finally {
+      store.close();
+    }
+    const sites = records.filter((r): r is SiteRecord => r.type === 'site' && !r.deleted);
+    const picks = records.filter((r): r is PickRecord => r.type === 'pick' && !r.deleted);
+    const out = positionals[0];
+    mkdirSync(join(out, 'picks'), { recursive: true });
+    const summaries = new Map<string, SiteSummary>();
+    if (!values['no-estimate']) for (const s of sites) summaries.set(s.id, summariseSite(s, picks));
+    writeFileSync(join(out, 'sites.csv'), sitesToCsv(sites, picks));
+    writeFileSync(join(out, 'sites.geojson'), JSON.stringify(sitesToGeoJson(sites, summaries), null, 2) + '\n');
+    writeFileSync(join(out, 'CAUTION.txt'), CAUTION + '\n');
+    let files = 0;
+    for (const s of sites) {
+      const own = sitePicks(s.id, picks);
+      if (own.length === 0) continue;
+      // Site ids are checked to be file-name safe (letters, digits, . _ : -) when they enter the store.
+      writeFileSync(join(out, 'picks', `${s.id.replace(/:/g, '_')}.csv`), picksToCsv(own));
+      files++;
+    }
+    io.out(`Wrote ${sites.length} sites to ${join(out, 'sites.csv')} and ${join(out, 'sites.geojson')}, and ${files} picks files to ${join(out, 'picks')}.\n`);
+    return 0;
+  },
+};
+
+export default sitesExport;
