@@ -14,9 +14,13 @@
  *   mode                      optional; integer ≥ 0; empty = 0
  *   id, note, time            optional text (time as ISO 8601)
  *
- * Columns may come in any order. The separator is a comma or a semicolon
+ * Columns may come in any order; header names are matched without regard
+ * to case or surrounding spaces. The separator is a comma or a semicolon
  * (read from the header row). A decimal comma is accepted only when the
- * separator is a semicolon, as spreadsheets in many locales write it.
+ * separator is a semicolon, as spreadsheets in many locales write it
+ * (common practice). Unquoted fields are trimmed, quoted text is kept
+ * exactly, and blank lines (or rows of empty fields) are skipped. Limits
+ * are in PICK_LIMITS.
  *
  * Every bad row is an InputError naming the data row (1-based, header not
  * counted), its line number in the file, and the column.
@@ -139,7 +143,6 @@ function fail(where: string, column: string, reason: string): never {
 }
 
 // C0 control characters other than tab, line feed and carriage return.
-// eslint-disable-next-line no-control-regex
 const CONTROL_CHARS = /[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/;
 
 // ISO 8601 calendar date, optionally with a time and a zone.
@@ -341,6 +344,9 @@ function parseNumberText(
     }
     s = t.replace(',', '.');
     usedComma = true;
+  }
+  if (t.endsWith('%')) {
+    fail(where, column, `is ${describeValue(t)}; give an absolute value in the column's unit, not a percentage.`);
   }
   if (!NUMBER_TEXT.test(s)) fail(where, column, `must be a number, but it is ${describeValue(t)}.`);
   return { value: Number(s), usedComma };
@@ -696,7 +702,9 @@ export interface PicksCsvOptions {
  * pick entered as a period then loses only its period field). id, note and
  * time columns appear when any pick has them. Text is written as given,
  * quoted when it holds a separator, quote, line break or edge spaces;
- * nothing in it is interpreted.
+ * nothing in it is interpreted. Text starting with = + - @ is not altered
+ * (that would break the exact round trip), so a spreadsheet may treat it as
+ * a formula; tables meant for spreadsheets should guard such cells.
  */
 export function picksToCsv(picks: readonly Pick[], options: PicksCsvOptions = {}): string {
   const separator = options.separator ?? ',';

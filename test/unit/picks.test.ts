@@ -211,6 +211,9 @@ describe('parsePicksCsv: bad files name the row, its line and the column', () =>
     expect(bad('frequency_hz,velocity_m_s\n0x10,320\n').message).toBe(
       'Row 1 (line 2), column frequency_hz: must be a number, but it is "0x10".',
     );
+    expect(bad('frequency_hz,velocity_m_s,sd_m_s\n5,320,3%\n').message).toBe(
+      'Row 1 (line 2), column sd_m_s: is "3%"; give an absolute value in the column\'s unit, not a percentage.',
+    );
     expect(bad('frequency_hz;velocity_m_s\n5;1.234,5\n').message).toBe(
       'Row 1 (line 2), column velocity_m_s: is "1.234,5", which mixes separators; write one decimal comma and no thousands separator.',
     );
@@ -469,7 +472,6 @@ describe('validatePick and pickFromCells: the same rules for a typed row', () =>
 describe('picksToCsv: round trip', () => {
   const text = fc
     .string({ unit: 'grapheme', minLength: 1, maxLength: 40 })
-    // eslint-disable-next-line no-control-regex
     .filter((s) => !/[\u0000-\u0008\u000B\u000C\u000E-\u001F\u007F]/.test(s));
   const optional = <T>(arb: fc.Arbitrary<T>) => fc.option(arb, { nil: undefined });
   const pickArb = fc
