@@ -404,7 +404,7 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
   if (column < VS100FT_DEPTH_M) {
     warnings.push(
       `The layers end at ${fmt(column)} m; the half-space speed (${m.halfspace.vs} m/s) is taken to continue down to ` +
-        `${VS30_DEPTH_M} m and ${VS100FT_DEPTH_M} m for the averages.`,
+        (column < VS30_DEPTH_M ? `${VS30_DEPTH_M} m and ${VS100FT_DEPTH_M} m for the averages.` : `${VS100FT_DEPTH_M} m for the 100 ft average.`),
     );
   }
   if (!(m.halfspace.vs > Math.max(...m.layers.map((l) => l.vs)))) {

@@ -423,6 +423,10 @@ describe('siteFigures: the whole result', () => {
     expect(s.warnings).toContain(
       'The layers end at 23 m; the half-space speed (600 m/s) is taken to continue down to 30 m and 30.48 m for the averages.',
     );
+    expect(siteFigures(oneLayer(30.2, 200, 900)).warnings).toContain(
+      'The layers end at 30.2 m; the half-space speed (900 m/s) is taken to continue down to 30.48 m for the 100 ft average.',
+    );
+    expect(siteFigures(oneLayer(31, 200, 900)).warnings.some((w) => w.startsWith('The layers end'))).toBe(false);
     expect(s.warnings.some((w) => w.startsWith('ASCE/SEI 7 site class F'))).toBe(true);
     expect(s.warnings.some((w) => w.startsWith('EN 1998-1 ground types S1'))).toBe(true);
     expect(s.warnings.some((w) => w.includes('crosses a class boundary'))).toBe(false);
