@@ -1,0 +1,120 @@
+/**
+ * Honest intervals: over many seeded noisy synthetic trials, the 68 % and
+ * 95 % intervals of the estimate cover the true value at close to those
+ * rates.
+ *
+ * Reference: the profile-likelihood intervals are asymptotically exact
+ * (Wilks 1938, Ann. Math. Stat. 9:60–62; Press et al., *Numerical Recipes*,
+ * 3rd ed. 2007, §15.6): Δχ² = 1 should cover 68.27 % and Δχ² = 3.84 should
+ * cover 95 %. The number of trials that cover is binomial, so the observed
+ * rate must lie within 3 binomial standard deviations, 3·√(p(1 − p)/N), of
+ * the nominal p.
+ *
+ * Picks: exact velocities of an invented model (H = 12 m, β1 = 200 m/s,
+ * β2 = 500 m/s) from core/love-layer.ts, plus Gaussian noise of 3 % of the
+ * velocity (the sd each pick states). Noise: mulberry32 uniform generator
+ * (a public-domain 32-bit generator, common practice for seeded tests) and
+ * the Box–Muller transform (Box & Muller 1958, Ann. Math. Stat. 29:610).
+ *
+ * Observed with these seeds (deterministic; re-stated in the report):
+ *  - thickness only, 1000 trials: the 68 % interval covers 0.703, the 95 % one
+ *    0.959 (allowed: 0.683 ± 0.044 and 0.95 ± 0.021);
+ *  - joint H, β1, β2, 120 trials (68 % / 95 %): H 0.617 / 0.933,
+ *    β1 0.692 / 0.958, β2 0.650 / 0.933 (allowed: ± 0.127 and ± 0.060).
+ */
+import { describe, expect, it } from 'vitest';
+import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate';
+import { loveVelocities, type TwoLayer } from '../../core/love-layer';
+import type { Pick } from '../../core/picks';
+
+const TRUE: TwoLayer = { h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 };
+/** Nominal coverage of Δχ² = 1 for one parameter: erf(1/√2). */
+const P68 = 0.6826894921370859;
+const P95 = 0.95;
+
+function mulberry32(seed: number): () => number {
+  let a = seed >>> 0;
+  return () => {
+    a = (a + 0x6d2b79f5) | 0;
+    let t = Math.imul(a ^ (a >>> 15), 1 | a);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
+
+function gaussian(rand: () => number): number {
+  const u = 1 - rand();
+  const v = rand();
+  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
+}
+
+function noisyPicks(rand: () => number, count: number): Pick[] {
+  const out: Pick[] = [];
+  for (let i = 0; i < count; i++) {
+    const f = 3 * Math.pow(40 / 3, i / (count - 1));
+    const v = loveVelocities(TRUE, f, 0);
+    const phase = i % 3 === 0;
+    const exact = phase ? v.phase : v.group;
+    const sd = 0.03 * exact;
+    out.push({ frequency: f, velocity: exact + sd * gaussian(rand), kind: phase ? 'phase' : 'group', mode: 0, sd });
+  }
+  return out;
+}
+
+function covers(e: ParameterEstimate, truth: number, level: 68 | 95): boolean {
+  return level === 68 ? e.low68 <= truth && truth <= e.high68 : e.low95 <= truth && truth <= e.high95;
+}
+
+function expectRate(what: string, hits: number, n: number, p: number) {
+  const rate = hits / n;
+  const band = 3 * Math.sqrt((p * (1 - p)) / n);
+  if (!(Math.abs(rate - p) <= band)) {
+    throw new Error(`${what}: observed ${rate} over ${n} trials, nominal ${p}, allowed ±${band.toFixed(4)} (3 binomial sd)`);
+  }
+  return rate;
+}
+
+describe('coverage of the intervals over seeded noisy trials', () => {
+  it('Δχ² = 1 is the 68.27 % level', () => {
+    expect(DELTA_CHI2_68).toBe(1);
+  });
+
+  it('thickness only (speeds known), 1000 trials of 12 picks: 68 % and 95 % within sampling error', () => {
+    const rand = mulberry32(20261201);
+    const N = 1000;
+    let c68 = 0;
+    let c95 = 0;
+    for (let t = 0; t < N; t++) {
+      const r = estimateLayer(noisyPicks(rand, 12), { vs1: 200, vs2: 500 });
+      if (covers(r.thickness, TRUE.h, 68)) c68++;
+      if (covers(r.thickness, TRUE.h, 95)) c95++;
+    }
+    const r68 = expectRate('H 68 %', c68, N, P68);
+    const r95 = expectRate('H 95 %', c95, N, P95);
+    console.log(`coverage, thickness only, ${N} trials: 68 % → ${r68}, 95 % → ${r95}`);
+  });
+
+  it('joint thickness and both speeds, 120 trials of 20 picks: every parameter within sampling error', () => {
+    const rand = mulberry32(7031);
+    const N = 120;
+    const hits = { h68: 0, h95: 0, b168: 0, b195: 0, b268: 0, b295: 0 };
+    for (let t = 0; t < N; t++) {
+      const r = estimateLayer(noisyPicks(rand, 20));
+      if (covers(r.thickness, TRUE.h, 68)) hits.h68++;
+      if (covers(r.thickness, TRUE.h, 95)) hits.h95++;
+      if (covers(r.vs1, TRUE.vs1, 68)) hits.b168++;
+      if (covers(r.vs1, TRUE.vs1, 95)) hits.b195++;
+      if (covers(r.vs2, TRUE.vs2, 68)) hits.b268++;
+      if (covers(r.vs2, TRUE.vs2, 95)) hits.b295++;
+    }
+    const rates = [
+      expectRate('H 68 %', hits.h68, N, P68),
+      expectRate('H 95 %', hits.h95, N, P95),
+      expectRate('β1 68 %', hits.b168, N, P68),
+      expectRate('β1 95 %', hits.b195, N, P95),
+      expectRate('β2 68 %', hits.b268, N, P68),
+      expectRate('β2 95 %', hits.b295, N, P95),
+    ];
+    console.log(`coverage, joint, ${N} trials: H ${rates[0]} / ${rates[1]}, β1 ${rates[2]} / ${rates[3]}, β2 ${rates[4]} / ${rates[5]}`);
+  }, 60_000);
+});
