@@ -30,8 +30,9 @@ import Ajv, { type ErrorObject, type ValidateFunction } from 'ajv';
 import schema from '../schema/site-bundle.schema.json';
 import { CAUTION } from './caution';
 import { InputError, describeValue } from './errors';
+import { checkDensity, checkShearSpeed, checkThickness } from './model';
 import { validatePick } from './picks';
-import type { AnyRecord, EstimateRecord, PickRecord, RecordType, SiteRecord } from './records';
+import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordType, SiteRecord } from './records';
 import { revisionKey } from './revision';
 import { planMerge, type MergePlan } from './sync';
 
@@ -115,7 +116,9 @@ function schemaMessage(error: ErrorObject, root: string, lead: string): InputErr
       reason = `must be one of ${(p.allowedValues as unknown[]).map((v) => JSON.stringify(v)).join(', ')}`;
       break;
     case 'pattern':
-      reason = field.endsWith('id') || field.endsWith('Id')
+      reason = /\.(name|crew|notes)$/.test(field)
+        ? 'contains a control character; only printable text, tabs and line breaks are allowed'
+        : field.endsWith('id') || field.endsWith('Id')
         ? 'must be an id of 1–100 letters, digits and . _ : - (starting with a letter or digit)'
         : field.endsWith('date')
           ? 'must be a date written YYYY-MM-DD'
@@ -156,6 +159,52 @@ function checkConflictKeys(rec: AnyRecord, where: string): void {
   });
 }
 
+/** Speeds, densities and ranges by the model's own checks (core/model.ts); the layer must be slower than the half-space. */
+function checkSettings(s: EstimateSettings, where: string): void {
+  const f = `${where}.settings`;
+  if (s.vs1 !== undefined) checkShearSpeed(s.vs1, `${f}.vs1`);
+  if (s.vs2 !== undefined) checkShearSpeed(s.vs2, `${f}.vs2`);
+  if (s.density1 !== undefined) checkDensity(s.density1, `${f}.density1`);
+  if (s.density2 !== undefined) checkDensity(s.density2, `${f}.density2`);
+  const ranges: [keyof EstimateSettings, (v: unknown, name: string) => number][] = [
+    ['thicknessRange', checkThickness],
+    ['vs1Range', checkShearSpeed],
+    ['vs2Range', checkShearSpeed],
+  ];
+  for (const [key, check] of ranges) {
+    const r = s[key] as [number, number] | undefined;
+    if (r === undefined) continue;
+    check(r[0], `${f}.${key}[0]`);
+    check(r[1], `${f}.${key}[1]`);
+    if (!(r[0] < r[1])) throw new InputError(`${f}.${key}`, `${f}.${key} runs from ${r[0]} to ${r[1]}; the first value must be the smaller.`);
+  }
+  if (s.vs1 !== undefined && s.vs2 !== undefined && !(s.vs2 > s.vs1)) {
+    throw new InputError(`${f}.vs2`, `${f}.vs2 is ${s.vs2} m/s, but it must be faster than vs1 (${s.vs1} m/s) for Love waves to be trapped.`);
+  }
+}
+
+/** The rules beyond the schema that every stored record meets (the field store checks the same). */
+function checkRules(rec: AnyRecord, where: string, lead: string): void {
+  try {
+    if (rec.type === 'pick') {
+      checkPickFields(rec, where);
+      return;
+    }
+    if (rec.type === 'site') {
+      if (rec.name.trim() === '') throw new InputError(`${where}.name`, `${where}.name is empty; a site needs a name.`);
+      const [y, m, d] = rec.date.split('-').map(Number);
+      const day = new Date(Date.UTC(y, m - 1, d));
+      if (day.getUTCFullYear() !== y || day.getUTCMonth() !== m - 1 || day.getUTCDate() !== d) {
+        throw new InputError(`${where}.date`, `${where}.date is ${describeValue(rec.date)}, which is not a calendar date.`);
+      }
+    }
+    checkSettings(rec.settings, where);
+  } catch (e) {
+    if (e instanceof InputError && rec.type !== 'pick') throw new InputError(e.field, `${lead}: ${e.message.charAt(0).toLowerCase()}${e.message.slice(1)}`);
+    throw e;
+  }
+}
+
 /**
  * Checks one record from an outside source (a sync push) against the
  * bundle schema and the pick rules. `where` names it in messages, e.g.
@@ -173,10 +222,8 @@ export function checkRecord(value: unknown, where: string): AnyRecord {
   const validate = compiled()[type];
   if (!validate(value)) throw schemaMessage(validate.errors![0], where, lead);
   const rec = value as AnyRecord;
-  if (rec.type === 'pick') {
-    checkPickFields(rec, where);
-    rec.conflicts?.forEach((c, k) => checkPickFields(c.record as PickRecord, `${where}.conflicts[${k}].record`));
-  }
+  checkRules(rec, where, lead);
+  rec.conflicts?.forEach((c, k) => checkRules(c.record as AnyRecord, `${where}.conflicts[${k}].record`, lead));
   checkConflictKeys(rec, where);
   return rec;
 }
@@ -247,10 +294,9 @@ export function parseBundle(text: unknown): SiteBundle {
       if (rec.type !== 'site' && !siteIds.has(rec.siteId)) {
         throw new InputError(`${where}.siteId`, `The bundle is not valid: ${where}.siteId names site ${describeValue(rec.siteId)}, which is not in the file.`);
       }
-      if (rec.type === 'pick') {
-        checkPickFields(rec, `the bundle's ${where}`);
-        rec.conflicts?.forEach((c, k) => checkPickFields(c.record as PickRecord, `the bundle's ${where}.conflicts[${k}].record`));
-      }
+      const lead = 'The bundle is not valid';
+      checkRules(rec, rec.type === 'pick' ? `the bundle's ${where}` : where, lead);
+      rec.conflicts?.forEach((c, k) => checkRules(c.record as AnyRecord, rec.type === 'pick' ? `the bundle's ${where}.conflicts[${k}].record` : `${where}.conflicts[${k}].record`, lead));
       checkConflictKeys(rec, where);
     });
   }

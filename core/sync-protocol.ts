@@ -24,9 +24,10 @@
  * Errors: {error: "a sentence"} with 400 (malformed JSON or records, the
  * field named), 401 (no or bad token), 404, 405, 413 (body over
  * MAX_PUSH_BYTES), 500 (nothing saved). A failed push writes nothing.
+ *
+ * Types and constants only (the field app imports them); the server's
+ * checks of incoming bodies are in sync-protocol-check.ts.
  */
-import { checkRecord } from './bundle';
-import { InputError, describeValue } from './errors';
 import type { AnyRecord } from './records';
 import type { MergeOutcome } from './sync';
 
@@ -78,37 +79,3 @@ export interface ErrorResponse {
   field?: string;
 }
 
-const BATCH_ID = /^[A-Za-z0-9][A-Za-z0-9._:-]{0,99}$/;
-
-/** Checks a parsed push body; throws InputError naming the field. */
-export function checkPushBody(data: unknown): PushRequest {
-  if (data === null || typeof data !== 'object' || Array.isArray(data)) {
-    throw new InputError('body', `The push body must be a JSON object {batchId, records}, but it is ${describeValue(data)}.`);
-  }
-  const body = data as Record<string, unknown>;
-  if (typeof body.batchId !== 'string' || !BATCH_ID.test(body.batchId)) {
-    throw new InputError('batchId', `batchId must be 1–100 letters, digits or . _ : - (starting with a letter or digit), but it is ${describeValue(body.batchId)}.`);
-  }
-  if (!Array.isArray(body.records)) {
-    throw new InputError('records', `records must be a list of records, but it is ${describeValue(body.records)}.`);
-  }
-  if (body.records.length > MAX_PUSH_RECORDS) {
-    throw new InputError('records', `A push may carry at most ${MAX_PUSH_RECORDS} records, but this one has ${body.records.length}; send smaller batches.`);
-  }
-  const records = body.records.map((r, i) => checkRecord(r, `records[${i}]`));
-  return { batchId: body.batchId, records };
-}
-
-/** Checks the pull query (since, limit). */
-export function checkPullQuery(params: URLSearchParams): { since: number; limit: number } {
-  const sinceText = params.get('since') ?? '0';
-  if (!/^\d{1,15}$/.test(sinceText)) {
-    throw new InputError('since', `since must be a cursor returned by the server (a whole number), but it is ${describeValue(sinceText)}.`);
-  }
-  const limitText = params.get('limit') ?? String(DEFAULT_PULL_LIMIT);
-  const limit = Number(limitText);
-  if (!/^\d{1,6}$/.test(limitText) || limit < 1 || limit > MAX_PULL_LIMIT) {
-    throw new InputError('limit', `limit must be a whole number from 1 to ${MAX_PULL_LIMIT}, but it is ${describeValue(limitText)}.`);
-  }
-  return { since: Number(sinceText), limit };
-}

@@ -19,12 +19,11 @@ import {
   API_PREFIX,
   MAX_PUSH_BYTES,
   PROTOCOL_VERSION,
-  checkPushBody,
-  checkPullQuery,
   type PullResponse,
   type PushResponse,
   type StatusResponse,
 } from '../core/sync-protocol';
+import { checkPullQuery, checkPushBody } from '../core/sync-protocol-check';
 import { DEFAULT_DATA_DIR, OfficeStore } from './store';
 
 /** Defaults of `npm run office`. */
