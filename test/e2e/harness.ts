@@ -136,10 +136,20 @@ export interface BrowserSession {
   close(): Promise<void>;
 }
 
-/** Launches headless Chromium in a fresh persistent profile. */
-export async function launchBrowser(viewport: { width: number; height: number } = VIEWPORTS.tabletLandscape): Promise<BrowserSession> {
+export interface LaunchOptions {
+  /** Reuse this profile folder (a "cold start" of an installed app) instead of a fresh one. */
+  userDataDir?: string;
+  /** Keep the profile folder on close (to launch again on it). @default false */
+  keepProfile?: boolean;
+}
+
+/** Launches headless Chromium in a fresh (or the given) persistent profile. */
+export async function launchBrowser(
+  viewport: { width: number; height: number } = VIEWPORTS.tabletLandscape,
+  options: LaunchOptions = {},
+): Promise<BrowserSession> {
   checkPrerequisites();
-  const userDataDir = mkdtempSync(join(tmpdir(), 'shearfield-e2e-'));
+  const userDataDir = options.userDataDir ?? mkdtempSync(join(tmpdir(), 'shearfield-e2e-'));
   const context = await chromium.launchPersistentContext(userDataDir, {
     executablePath: CHROMIUM_PATH,
     headless: true,
@@ -155,7 +165,7 @@ export async function launchBrowser(viewport: { width: number; height: number } 
       if (closed) return;
       closed = true;
       await context.close().catch(() => undefined);
-      rmSync(userDataDir, { recursive: true, force: true });
+      if (!options.keepProfile) rmSync(userDataDir, { recursive: true, force: true });
     },
   };
 }
