@@ -235,7 +235,8 @@ export function hasConflicts(record: AnyRecord): boolean {
 }
 
 /**
- * Resolves a record's kept conflicts: a new revision (rev + 1) of the shown
+ * Resolves a record's kept conflicts: the next revision (rev + 1, as the
+ * field store expects of any save) of the shown
  * version with `changes` applied (e.g. the fields taken from the other
  * version), no `conflicts`, and a history that names every kept version, so
  * that they count as superseded everywhere this revision travels.
@@ -247,7 +248,8 @@ export function resolveConflict<T extends AnyRecord>(
 ): T {
   const extra: string[] = [];
   for (const c of record.conflicts ?? []) extra.push(...(c.record.history ?? []), c.key);
-  const rev = Math.max(record.rev, ...(record.conflicts ?? []).map((c) => c.record.rev)) + 1;
+  // The shown version has the highest rev of the set (see the header), so rev + 1 is above every kept one.
+  const rev = record.rev + 1;
   const { conflicts: _kept, ...rest } = record;
   return {
     ...rest,

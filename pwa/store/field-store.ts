@@ -73,12 +73,25 @@ export interface FieldStore {
    * Writes records received from sync or an import, in one transaction,
    * without queueing them in the outbox. The caller has already decided the
    * merge; this only checks each record's shape.
+   * Options (pwa/sync): `expectedRevs` maps a record id to the rev the merge
+   * was based on (0 = absent); a record whose stored rev differs by the time
+   * the transaction runs (edited meanwhile) is skipped, and its id returned.
+   * `queue` also queues each written record in the outbox (a bundle import,
+   * whose records the office may not have yet).
    */
-  putIncoming(records: AnyRecord[]): Promise<void>;
+  putIncoming(records: AnyRecord[], options?: IncomingOptions): Promise<string[]>;
   close(): void;
 }
 
 export type { OutboxEntry } from './schema';
+
+/** @see FieldStore.putIncoming */
+export interface IncomingOptions {
+  /** Record id → the stored rev the merge saw (0 = none). @default no check */
+  expectedRevs?: ReadonlyMap<string, number>;
+  /** Queue the written records in the outbox too. @default false */
+  queue?: boolean;
+}
 
 /** A new site record (rev 1, fresh UUID). Fields not given take empty or default values. */
 export function newSite(fields: Partial<Omit<SiteRecord, 'id' | 'rev' | 'type' | 'updatedAt'>> = {}, now = new Date()): SiteRecord {
@@ -440,7 +453,7 @@ class IdbFieldStore implements FieldStore {
     });
   }
 
-  async putIncoming(records: AnyRecord[]): Promise<void> {
+  async putIncoming(records: AnyRecord[], options: IncomingOptions = {}): Promise<string[]> {
     if (!Array.isArray(records)) throw new StoreError('The incoming records must be a list.', { field: 'records' });
     const clean = records.map((r, i) => {
       try {
@@ -452,14 +465,25 @@ class IdbFieldStore implements FieldStore {
         throw e;
       }
     });
-    if (clean.length === 0) return;
-    await this.write(['sites', 'picks', 'estimates'], `the ${clean.length} incoming records`, async (tx) => {
+    if (clean.length === 0) return [];
+    const skipped: string[] = [];
+    const expected = options.expectedRevs;
+    const queuedAt = new Date().toISOString();
+    await this.write(['sites', 'picks', 'estimates', 'outbox'], `the ${clean.length} incoming records`, async (tx) => {
       for (const r of clean) {
-        if (r.type === 'site') await tx.objectStore('sites').put(r);
-        else if (r.type === 'pick') await tx.objectStore('picks').put(r);
-        else await tx.objectStore('estimates').put(r);
+        const name = r.type === 'site' ? 'sites' : r.type === 'pick' ? 'picks' : 'estimates';
+        if (expected?.has(r.id)) {
+          const current = await tx.objectStore(name).get(r.id);
+          if ((current?.rev ?? 0) !== expected.get(r.id)) {
+            skipped.push(r.id);
+            continue;
+          }
+        }
+        await tx.objectStore(name).put(r as never);
+        if (options.queue) await tx.objectStore('outbox').add(outboxEntry(r, queuedAt));
       }
     });
+    return skipped;
   }
 
   close(): void {

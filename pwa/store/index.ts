@@ -6,6 +6,7 @@ export {
   requestPersistentStorage,
   StoreError,
   type FieldStore,
+  type IncomingOptions,
   type NewPickFields,
   type PersistenceAnswer,
 } from './field-store';
