@@ -215,8 +215,13 @@ export function loveSecular(s: LoveStack, omega: number, c: number): number {
 }
 
 /**
- * Number of nodes of the eigenfunction l(z) above the half-space at (ω, c).
- * At a root of mode n it equals n (Sturm–Liouville).
+ * Number of nodes of l(z) above the half-space for the solution started at
+ * the free surface, at (ω, c). For c just below the root c_n of mode n it
+ * equals n (the Prüfer angle is then in [nπ + π/2, nπ + π)); so does the
+ * eigenfunction of mode n (Sturm–Liouville). At the root itself, for a mode
+ * trapped above a thick evanescent layer, the state at the half-space top is
+ * below rounding noise (the decaying solution is lost in the scaled growing
+ * one), so evaluate a little below the root, e.g. c_n·(1 − 1e-7).
  */
 export function loveNodeCount(s: LoveStack, omega: number, c: number): number {
   propagate(s, omega, c, true);
