@@ -254,6 +254,8 @@ export interface EstimateProblem {
 }
 
 const LOG_RATIO_GAP = Math.log(MIN_SPEED_RATIO);
+/** Stand-in for an infinite profile χ² inside Brent's method. */
+const INFEASIBLE = 1e12;
 
 function label(options: EstimateOptions, field: EstimateField): string {
   return options.fieldLabels?.[field] ?? field;
@@ -764,13 +766,15 @@ function crossing(P: EstimateProblem, fit: Fit, j: number, dir: 1 | -1, level: n
     if (val > level) {
       // Bracketed between prevU (below) and cur (above).
       let bestWarm = prevWarm;
+      // Where the profile has no feasible model (Infinity) a large finite value keeps Brent's arithmetic sound.
       const g = (x: number) => {
         const ww = Float64Array.from(bestWarm);
-        const c = profileAt(P, j, x, ww) - level;
+        const c = Math.min(profileAt(P, j, x, ww) - level, INFEASIBLE);
         if (c <= 0) bestWarm = ww;
         return c;
       };
-      const r = brent(g, prevU, cur, Math.min(0, prevVal - level), val - level, { xtol: 2e-6, rtol: 0, maxIterations: 60 });
+      const fb = Math.min(val - level, INFEASIBLE);
+      const r = brent(g, prevU, cur, Math.min(0, prevVal - level), fb, { xtol: 2e-6, rtol: 0, maxIterations: 60 });
       return { u: r.status === 'converged' || r.status === 'max-iterations' ? r.x : (prevU + cur) / 2, open: false };
     }
     if (atEnd) return { u: end, open: true };
@@ -876,12 +880,19 @@ export function estimateLayer(picks: readonly Pick[], options: EstimateOptions =
 
   // 1. Global search.
   const grid = globalGrid(P, progress);
-  const starts = gridMinima(grid, P.k === 1 ? 10 : 8);
+  const starts = gridMinima(grid, P.k === 1 ? 10 : 8).map((s) => gridPoint(P, grid, s));
+  // A narrow speed box can slip between the grid's speed ratios: then start from the box centre.
+  if (starts.length === 0) {
+    const centre = new Float64Array(P.k);
+    for (let j = 0; j < P.k; j++) centre[j] = 0.5 * (P.lower[j] + P.upper[j]);
+    projectSpeeds(P, centre);
+    starts.push(centre);
+  }
 
   // 2. Refine each grid minimum; merge those in one basin.
   const fits: Fit[] = [];
-  starts.forEach((s, i) => {
-    const fit = fitAll(P, gridPoint(P, grid, s));
+  starts.forEach((u0, i) => {
+    const fit = fitAll(P, u0);
     if (Number.isFinite(fit.chi2)) fits.push(fit);
     progress(0.5 + (0.15 * (i + 1)) / starts.length);
   });

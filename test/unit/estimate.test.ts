@@ -373,6 +373,13 @@ describe('defaults', () => {
     expect(DEFAULT_DENSITY_HALFSPACE).toBe(2100);
   });
 
+  it('a narrow half-space range that the speed-ratio grid straddles still recovers the model', () => {
+    const r = estimateLayer(exactPicks(TRUE, 20, 3, 40), { vs1Range: [100, 500], vs2Range: [495, 505] });
+    expectRecovered(r.thickness.best, 12, 1e-6, 'H');
+    expectRecovered(r.vs1.best, 200, 1e-6, 'β1');
+    expectRecovered(r.vs2.best, 500, 1e-6, 'β2');
+  });
+
   it('a given speed clips the other speed’s range to keep β2 > β1', () => {
     const r = estimateLayer(exactPicks(TRUE, 12, 3, 40), { vs1: 200, vs2Range: [100, 900] });
     expect(r.searchRange.vs2[0]).toBeCloseTo(200 * 1.001, 9);
