@@ -76,14 +76,17 @@ export interface PreviewServer {
   stop(): Promise<void>;
 }
 
-/** Serves dist/ with `vite preview` on a free port; resolves when it answers. */
-export async function startPreview(port?: number): Promise<PreviewServer> {
+/**
+ * Serves dist/ (or `outDir`, an absolute path to another build) with
+ * `vite preview` on `port` (default: a free one); resolves when it answers.
+ */
+export async function startPreview(port?: number, outDir?: string): Promise<PreviewServer> {
   checkPrerequisites();
   const p = port ?? (await freePort());
   const url = `http://127.0.0.1:${p}`;
   const child: ChildProcess = spawn(
     join(REPO_ROOT, 'node_modules', '.bin', 'vite'),
-    ['preview', '--host', '127.0.0.1', '--port', String(p), '--strictPort'],
+    ['preview', '--host', '127.0.0.1', '--port', String(p), '--strictPort', ...(outDir ? ['--outDir', outDir] : [])],
     { cwd: REPO_ROOT, detached: true, stdio: ['ignore', 'pipe', 'pipe'], env: { ...process.env, NO_COLOR: '1' } },
   );
   let output = '';

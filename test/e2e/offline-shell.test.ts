@@ -6,15 +6,19 @@
  *
  * Runs against dist/ (npm test builds it before vitest).
  */
-import { readdirSync } from 'node:fs';
+import { appendFileSync, cpSync, mkdtempSync, readdirSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  freePort,
+  launchBrowser,
   openApp,
   openTab,
   reload,
   REPO_ROOT,
   setOffline,
+  startPreview,
   waitForServiceWorkerControl,
   type AppSession,
 } from './harness';
@@ -136,5 +140,51 @@ describe('the installable app shell', () => {
     expect(await page.title()).toBe('Shearfield');
     expect(await page.locator('#app').count()).toBe(1);
     await page.close();
+  });
+});
+
+describe('updates wait for the user', () => {
+  it('a newer build installs and waits; it takes over only when the page sends SKIP_WAITING', async () => {
+    const port = await freePort();
+    const v1 = await startPreview(port);
+    const browser = await launchBrowser();
+    // The "newer build": the same app with a service worker that differs by one comment.
+    const newer = mkdtempSync(join(tmpdir(), 'shearfield-newer-'));
+    let v2: Awaited<ReturnType<typeof startPreview>> | undefined;
+    try {
+      const page = browser.context.pages()[0] ?? (await browser.context.newPage());
+      await page.goto(v1.url, { waitUntil: 'load' });
+      await waitForServiceWorkerControl(page);
+      await v1.stop();
+      cpSync(join(REPO_ROOT, 'dist'), newer, { recursive: true });
+      appendFileSync(join(newer, 'sw.js'), '\n// a newer build\n');
+      v2 = await startPreview(port, newer);
+
+      const waiting = await page.evaluate(async () => {
+        const reg = (await navigator.serviceWorker.getRegistration())!;
+        await reg.update();
+        for (let i = 0; i < 200 && !reg.waiting; i++) await new Promise((r) => setTimeout(r, 50));
+        return {
+          waiting: reg.waiting?.state ?? null,
+          controllerIsOld: navigator.serviceWorker.controller !== null && reg.active !== reg.waiting,
+        };
+      });
+      expect(waiting).toEqual({ waiting: 'installed', controllerIsOld: true });
+
+      const tookOver = await page.evaluate(async () => {
+        const reg = (await navigator.serviceWorker.getRegistration())!;
+        const changed = new Promise<boolean>((r) => navigator.serviceWorker.addEventListener('controllerchange', () => r(true), { once: true }));
+        reg.waiting!.postMessage({ type: 'SKIP_WAITING' });
+        await changed;
+        return { waiting: reg.waiting, active: reg.active?.state };
+      });
+      expect(tookOver.waiting).toBeNull();
+      expect(['activating', 'activated']).toContain(tookOver.active);
+    } finally {
+      await browser.close();
+      await v1.stop();
+      await v2?.stop();
+      rmSync(newer, { recursive: true, force: true });
+    }
   });
 });
