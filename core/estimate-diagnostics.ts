@@ -3,7 +3,7 @@
  *
  * What it checks at the best model, each as a sentence and as data:
  *  - χ²/dof against the χ² distribution's 5 % and 95 % points
- *    (Wilson–Hilferty approximation, estimate.ts);
+ *    (Wilson–Hilferty approximation, below);
  *  - picks that used the default standard deviation (common practice);
  *  - default densities (common practice);
  *  - picks with residuals over 3σ, named;
@@ -23,17 +23,25 @@ import { buildDimensionlessTable } from './love-dimensionless-table';
 import { loveCutoffHz, loveModeCount, type TwoLayer } from './love-layer';
 import { defaultSdNote } from './picks';
 import { surveyAdvice } from './survey';
-import {
-  chi2Lower05,
-  chi2Upper95,
-  DEFAULT_DENSITY_HALFSPACE,
-  DEFAULT_DENSITY_LAYER,
-  predictVelocity,
-  type EstimateMinimum,
-  type EstimateProblem,
-  type ParameterEstimate,
-  type PickFit,
-} from './estimate';
+import type { EstimateMinimum, EstimateProblem, ParameterEstimate, PickFit } from './estimate';
+import { predictVelocity } from './estimate-forward';
+
+/**
+ * Upper 95 % point of χ² with `dof` degrees of freedom, by the
+ * Wilson–Hilferty cube-root approximation (Wilson & Hilferty 1931, PNAS
+ * 17:684); relative error below 1 % for dof ≥ 3, adequate for a warning.
+ */
+export function chi2Upper95(dof: number): number {
+  const z = 1.6448536269514722;
+  const a = 2 / (9 * dof);
+  return dof * Math.pow(1 - a + z * Math.sqrt(a), 3);
+}
+/** Lower 5 % point of χ² (Wilson–Hilferty, as above). */
+export function chi2Lower05(dof: number): number {
+  const z = -1.6448536269514722;
+  const a = 2 / (9 * dof);
+  return dof * Math.pow(Math.max(0, 1 - a + z * Math.sqrt(a)), 3);
+}
 
 /** Residual beyond which a pick is named as an outlier, in standard deviations. */
 export const OUTLIER_SIGMA = 3;
@@ -134,8 +142,8 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   if (input.defaultedSdCount > 0) sentences.push(defaultSdNote(input.defaultedSdCount, P.n));
   if (input.density1Defaulted || input.density2Defaulted) {
     const parts: string[] = [];
-    if (input.density1Defaulted) parts.push(`${DEFAULT_DENSITY_LAYER} kg/m³ for the layer`);
-    if (input.density2Defaulted) parts.push(`${DEFAULT_DENSITY_HALFSPACE} kg/m³ for the half-space`);
+    if (input.density1Defaulted) parts.push(`${P.rho1} kg/m³ for the layer`);
+    if (input.density2Defaulted) parts.push(`${P.rho2} kg/m³ for the half-space`);
     sentences.push(
       `No density was given, so the estimate used ${parts.join(' and ')} (common practice for soils and stiffer ground); Love-wave dispersion depends on density only weakly.`,
     );

@@ -43,11 +43,12 @@ import { CAUTION } from './caution';
 import { InputError } from './errors';
 import { invertSmall, levenbergMarquardt } from './levenberg-marquardt';
 import { buildDimensionlessTable, type DimensionlessTable } from './love-dimensionless-table';
-import { loveGroupVelocityAt, lovePhaseVelocityNear, type TwoLayer } from './love-layer';
+import { loveGroupVelocityAt, type TwoLayer } from './love-layer';
 import { checkDensity, checkShearSpeed, checkThickness, MODEL_BOUNDS } from './model';
 import { checkPickSet, effectiveSd, validatePick, type Pick } from './picks';
 import { brent } from './roots';
-import { diagnoseFit, type EstimateDiagnostics } from './estimate-diagnostics';
+import { chi2Upper95, diagnoseFit, type EstimateDiagnostics } from './estimate-diagnostics';
+import { phaseVelocityFrom, predictVelocity } from './estimate-forward';
 import { siteFiguresForRanges, type SiteFigures } from './site';
 
 // ---------------------------------------------------------------- constants
@@ -425,23 +426,6 @@ export function modelAt(P: EstimateProblem, u: ArrayLike<number>): TwoLayer {
     rho1: P.rho1,
     rho2: P.rho2,
   };
-}
-
-/**
- * The model's velocity for pick-like (f, mode, kind), m/s; β2 below the
- * mode's cutoff. `guess` is a phase velocity to start from (NaN: none): the
- * period equation is then solved by safeguarded Newton (lovePhaseVelocityNear),
- * as exact as Brent but a few times faster inside a fit.
- */
-export function predictVelocity(m: TwoLayer, f: number, mode: number, phase: boolean, guess = NaN): number {
-  const c = phaseVelocityFrom(m, f, mode, guess);
-  if (Number.isNaN(c)) return m.vs2;
-  return phase ? c : loveGroupVelocityAt(m, f, c);
-}
-
-function phaseVelocityFrom(m: TwoLayer, f: number, mode: number, guess: number): number {
-  const r = lovePhaseVelocityNear(m, f, mode, guess);
-  return r.status === 'converged' ? r.x : NaN;
 }
 
 function residualsAt(P: EstimateProblem, u: ArrayLike<number>, out: Float64Array): void {
@@ -848,23 +832,6 @@ function threeEstimates(P: EstimateProblem, free: ParameterEstimate[]): [Paramet
   ];
 }
 
-/**
- * Upper 95 % point of χ² with `dof` degrees of freedom, by the
- * Wilson–Hilferty cube-root approximation (Wilson & Hilferty 1931, PNAS
- * 17:684); relative error below 1 % for dof ≥ 3, adequate for a warning.
- */
-export function chi2Upper95(dof: number): number {
-  const z = 1.6448536269514722;
-  const a = 2 / (9 * dof);
-  return dof * Math.pow(1 - a + z * Math.sqrt(a), 3);
-}
-/** Lower 5 % point of χ² (Wilson–Hilferty, as above). */
-export function chi2Lower05(dof: number): number {
-  const z = -1.6448536269514722;
-  const a = 2 / (9 * dof);
-  return dof * Math.pow(Math.max(0, 1 - a + z * Math.sqrt(a)), 3);
-}
-
 // ---------------------------------------------------------------- the estimate
 
 /**
@@ -1039,6 +1006,7 @@ function round(x: number): string {
 }
 
 function fitOfPicks(P: EstimateProblem, m: TwoLayer): PickFit {
+  // Fresh solves (no warm start) for the reported predictions.
   const predicted = new Float64Array(P.n);
   const residual = new Float64Array(P.n);
   const normalised = new Float64Array(P.n);

@@ -14,6 +14,7 @@ import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { invertSmall, levenbergMarquardt, solveSmall } from '../../core/levenberg-marquardt';
 import { buildDimensionlessTable, tableAt } from '../../core/love-dimensionless-table';
+import { chi2Lower05, chi2Upper95 } from '../../core/estimate-diagnostics';
 import { loveCutoffHz, loveVelocities } from '../../core/love-layer';
 
 describe('Levenberg–Marquardt', () => {
@@ -120,4 +121,20 @@ describe('dimensionless tables', () => {
     expect(tableAt(t, t.group, Math.log(xCut * 0.8))).toBe(r);
     expect(tableAt(t, t.phase, Math.log(xCut * 2))).toBeLessThan(r);
   });
+});
+
+describe('χ² goodness-of-fit points (Wilson–Hilferty, used only to word the fit warning)', () => {
+  // Table values from memory, verify: Abramowitz & Stegun 1964, Table 26.8 (percentage points of χ²).
+  const table: Array<[number, number, number]> = [
+    // dof, 5 % point, 95 % point
+    [10, 3.940, 18.307],
+    [20, 10.851, 31.410],
+    [30, 18.493, 43.773],
+  ];
+  for (const [dof, lo, hi] of table) {
+    it(`dof ${dof}: within 1 % of ${lo} and ${hi}`, () => {
+      expect(Math.abs(chi2Lower05(dof) - lo) / lo).toBeLessThan(0.01);
+      expect(Math.abs(chi2Upper95(dof) - hi) / hi).toBeLessThan(0.01);
+    });
+  }
 });
