@@ -14,6 +14,7 @@ import { SiteDetails } from './site-details';
 import { SitesView } from './sites-view';
 import type { AppState, ViewName } from './state';
 import { SurveyView } from './survey-view';
+import { SyncPanel } from './SyncPanel';
 import { WhatIfView } from './whatif-view';
 
 /** The state of a controller, re-rendered on every change. */
@@ -124,6 +125,7 @@ export function App({ controller: c }: AppProps) {
               onOpen={(id) => c.openSite(id)}
               onDemo={() => void c.loadDemo()}
             />
+            <SyncPanel />
           </>
         )}
       </main>

@@ -477,11 +477,11 @@ export class Controller {
     this.set({ drafts: { ...this.state.drafts, [rowKey]: { ...d, cells, error: undefined, errorColumn: undefined } } });
   }
 
-  /** Choosing group or phase commits the row at once. */
+  /** Choosing group or phase commits a stored row at once (the new row waits for its numbers). */
   async setKind(rowKey: string, kind: PickKind): Promise<void> {
     const d = this.state.drafts[rowKey] ?? { cells: {} };
     this.set({ drafts: { ...this.state.drafts, [rowKey]: { ...d, kind } } });
-    await this.commitRow(rowKey);
+    if (rowKey !== NEW_ROW) await this.commitRow(rowKey);
   }
 
   /** Clears a row's unsaved text (the stored pick shows again). */
@@ -535,7 +535,7 @@ export class Controller {
       const hasVel = (cells.velocity_m_s ?? '').trim() !== '';
       const anything = Object.values(typed).some((t) => t !== undefined && t.trim() !== '');
       if (!anything) {
-        this.discardDraft(rowKey);
+        if (!draft.kind) this.discardDraft(rowKey);
         return;
       }
       if (!force && !(hasAbs && hasVel)) return;

@@ -109,10 +109,12 @@ function ParamRow(props: { name: string; unit: string; p: ParameterEstimate }) {
 export function EstimateResultView(props: { r: EstimateResult; theme: string }) {
   const { r } = props;
   const alternatives = r.alternatives.filter((a) => a.rank > 1);
-  const mapSpeed = r.misfitMap.yName === 'vs1_m_s' ? r.vs1.best : r.vs2.best;
+  const mapParam = r.misfitMap.yName === 'vs1_m_s' ? r.vs1 : r.vs2;
+  const mapSpeed = mapParam.best;
+  const box: [number, number, number, number] = [r.thickness.low95, r.thickness.high95, mapParam.low95, mapParam.high95];
   return (
     <div class="result">
-      <p class="headline" data-testid="thickness">
+      <p class="headline" data-testid="thickness" data-value={String(r.thickness.best)}>
         Layer thickness H = <strong>{num(r.thickness.best)} m</strong>
         <span class="sub">
           {' '}
@@ -176,6 +178,7 @@ export function EstimateResultView(props: { r: EstimateResult; theme: string }) 
           bestSpeed={mapSpeed}
           scale={r.intervalScale}
           correlation={r.correlationThicknessVs1}
+          box={box}
           theme={props.theme}
         />
       </section>

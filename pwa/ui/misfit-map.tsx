@@ -1,17 +1,16 @@
 /**
  * The misfit map as a picture: χ² over layer thickness and a speed, from
- * the estimate (core/estimate.ts MisfitMap), drawn on a canvas. The shaded
- * regions are the joint 68 % and 95 % regions for two parameters,
- * Δχ² ≤ 2.30 and ≤ 6.18 (Press et al., Numerical Recipes, 3rd ed. 2007,
- * §15.6.5), scaled like the estimate's intervals when the fit is poor.
- * A long, tilted valley is the trade-off between H and the speed.
+ * the estimate (core/estimate.ts MisfitMap), drawn on a canvas, zoomed to
+ * the valley of low misfit. The shading is log(χ²/χ²min) over the map's own
+ * grid (coarse, so it shows the shape, not the intervals); the 95 %
+ * intervals from the profile likelihood are drawn as a box over it. A long,
+ * tilted valley is the trade-off between H and the speed.
  */
 import { useEffect, useRef } from 'preact/hooks';
 import type { MisfitMap } from '../../core/estimate';
 import { num } from './format';
 
-/** Δχ² of the joint 68.3 % and 95.4 % regions, two parameters (Numerical Recipes, 3rd ed., §15.6.5). */
-export const JOINT_DELTA_CHI2: readonly [number, number] = [2.3, 6.18];
+const SPAN_TEXT = 'six';
 
 export interface MisfitMapProps {
   map: MisfitMap;
@@ -20,6 +19,8 @@ export interface MisfitMapProps {
   /** The estimate's interval scale (1, or χ²/dof when the fit is poor). */
   scale: number;
   correlation: number;
+  /** 95 % intervals [H low, H high, speed low, speed high] drawn as a box. */
+  box?: [number, number, number, number];
   theme: string;
 }
 
@@ -31,23 +32,49 @@ export function MisfitMapView(props: MisfitMapProps) {
     const c = canvas.current;
     if (!c) return;
     draw(c, props);
-  }, [props.map, props.theme, props.bestThickness, props.bestSpeed]);
+  }, [props.map, props.theme, props.bestThickness, props.bestSpeed, props.box]);
 
   const corr = Number.isFinite(props.correlation)
     ? ` The H–β1 correlation at the best fit is ${num(props.correlation, 2)}${Math.abs(props.correlation) > 0.8 ? ': a strong trade-off, where a thicker layer with a faster β1 fits almost as well' : ''}.`
     : '';
   const label =
-    `Misfit map: thickness H in m across (log scale), ${speedName} up. Darkest: the joint 68 % region; ` +
-    `medium: the joint 95 % region; the cross marks the best fit at H = ${num(props.bestThickness)} m, ${num(props.bestSpeed)} m/s.${corr}`;
+    `Misfit map: thickness H in m across, ${speedName} up, both on log scales. Darker means a better fit; ` +
+    `the dashed box spans the 95 % intervals and the cross marks the best fit at H = ${num(props.bestThickness)} m, ${num(props.bestSpeed)} m/s.${corr}`;
   return (
     <figure class="misfit">
       <canvas ref={canvas} width={560} height={360} role="img" aria-label={label} />
       <figcaption>
-        Misfit over thickness H (m, across) and {speedName} (up). Dark: joint 68 % region (Δχ² ≤ 2.30); medium: joint 95 %
-        (Δχ² ≤ 6.18){props.scale > 1 ? `, both scaled by χ²/dof = ${num(props.scale, 2)}` : ''}. Cross: best fit.{corr}
+        Misfit χ² over thickness H (m, across) and {speedName} (up), on the estimate's search grid, zoomed to the valley:
+        darker is a better fit, white is {SPAN_TEXT} times the least misfit on the grid or worse. A long tilted valley is the
+        trade-off. Dashed box: the 95 % intervals{props.scale > 1 ? ` (widened by χ²/dof = ${num(props.scale, 2)})` : ''};
+        cross: the best fit.{corr}
       </figcaption>
     </figure>
   );
+}
+
+/** Fractional index of value v in an ascending positive grid (log interpolation; the grids are log-spaced). */
+function indexOf(grid: Float64Array, v: number): number {
+  const n = grid.length;
+  if (n < 2) return 0;
+  const lv = Math.log(v);
+  let i = 0;
+  while (i < n - 2 && grid[i + 1] < v) i++;
+  const a = Math.log(grid[i]);
+  const b = Math.log(grid[i + 1]);
+  return i + (lv - a) / (b - a || 1);
+}
+
+/** Colour of a misfit ratio level t in [0, 1] (0 = the grid's least misfit): dark to light. */
+function shade(t: number, dark: [number, number, number]): string {
+  const u = Math.min(1, Math.max(0, t));
+  const c = dark.map((d) => Math.round(d + (250 - d) * Math.pow(u, 0.7)));
+  return `rgb(${c[0]},${c[1]},${c[2]})`;
+}
+
+function rgbOf(css: string): [number, number, number] {
+  const m = /^#([0-9a-f]{2})([0-9a-f]{2})([0-9a-f]{2})$/i.exec(css.trim());
+  return m ? [parseInt(m[1], 16), parseInt(m[2], 16), parseInt(m[3], 16)] : [18, 60, 58];
 }
 
 function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
@@ -57,8 +84,7 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   const cs = getComputedStyle(c);
   const ink = cs.getPropertyValue('--ink').trim() || '#111';
   const bg = cs.getPropertyValue('--panel').trim() || '#fff';
-  const strong = cs.getPropertyValue('--map-68').trim() || '#0b3d91';
-  const mid = cs.getPropertyValue('--map-95').trim() || '#5b8fd6';
+  const dark = rgbOf(cs.getPropertyValue('--map-68').trim() || '#123c3a');
   const W = c.width;
   const H = c.height;
   const L = 64;
@@ -72,45 +98,74 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   if (map.rows === 0 || map.cols === 0) return;
   let min = Infinity;
   for (let i = 0; i < map.chi2.length; i++) if (map.chi2[i] < min) min = map.chi2[i];
-  const l68 = JOINT_DELTA_CHI2[0] * p.scale;
-  const l95 = JOINT_DELTA_CHI2[1] * p.scale;
-  const x0 = Math.log(map.x[0]);
-  const x1 = Math.log(map.x[map.cols - 1]);
-  const y0 = map.y[0];
-  const y1 = map.y[map.rows - 1];
-  const px = (h: number) => L + ((Math.log(h) - x0) / (x1 - x0 || 1)) * pw;
-  const py = (v: number) => T + ph - ((v - y0) / (y1 - y0 || 1)) * ph;
-  const cw = pw / map.cols + 1;
-  const ch = ph / Math.max(1, map.rows) + 1;
+  // Crop to the valley: cells within a factor SPAN of the least misfit, plus a margin.
+  const SPAN = 6;
+  let r0 = map.rows;
+  let r1 = -1;
+  let k0 = map.cols;
+  let k1 = -1;
   for (let r = 0; r < map.rows; r++) {
     for (let k = 0; k < map.cols; k++) {
-      const v = map.chi2[r * map.cols + k];
-      const d = v - min;
-      let fill: string;
-      if (!Number.isFinite(d)) fill = 'rgba(128,128,128,0.25)';
-      else if (d <= l68) fill = strong;
-      else if (d <= l95) fill = mid;
-      else {
-        // beyond the 95 % region: lighter with growing misfit
-        const t = Math.min(1, Math.log10(1 + d / l95) / 2);
-        const g = Math.round(200 + 55 * t);
-        fill = `rgb(${g},${g},${g})`;
+      if (map.chi2[r * map.cols + k] <= min * SPAN) {
+        r0 = Math.min(r0, r);
+        r1 = Math.max(r1, r);
+        k0 = Math.min(k0, k);
+        k1 = Math.max(k1, k);
       }
-      ctx.fillStyle = fill;
-      const xa = L + (k / map.cols) * pw;
-      const ya = T + ph - ((r + 1) / Math.max(1, map.rows)) * ph;
-      ctx.fillRect(xa, ya, cw, ch);
     }
   }
+  const margin = 4;
+  r0 = Math.max(0, r0 - margin);
+  r1 = Math.min(map.rows - 1, r1 + margin);
+  k0 = Math.max(0, k0 - margin);
+  k1 = Math.min(map.cols - 1, k1 + margin);
+  const nr = r1 - r0 + 1;
+  const nk = k1 - k0 + 1;
+  // index space → pixels (cell centres at integer indexes)
+  const px = (fk: number) => L + ((fk - k0 + 0.5) / nk) * pw;
+  const py = (fr: number) => T + ph - ((fr - r0 + 0.5) / nr) * ph;
+  const logSpan = Math.log(SPAN);
+  for (let r = r0; r <= r1; r++) {
+    for (let k = k0; k <= k1; k++) {
+      const v = map.chi2[r * map.cols + k];
+      ctx.fillStyle = Number.isFinite(v) ? shade(Math.log(v / min) / logSpan, dark) : 'rgb(170,170,170)';
+      const xa = L + ((k - k0) / nk) * pw;
+      const ya = T + ph - ((r - r0 + 1) / nr) * ph;
+      ctx.fillRect(xa, ya, pw / nk + 1, ph / nr + 1);
+    }
+  }
+  const hx = (h: number) => px(indexOf(map.x, h));
+  const vy = (v: number) => (map.rows > 1 ? py(indexOf(map.y, v)) : T + ph / 2);
+  ctx.save();
+  ctx.beginPath();
+  ctx.rect(L, T, pw, ph);
+  ctx.clip();
+  // the 95 % intervals of the two parameters shown, as a box
+  if (p.box) {
+    const [h0, h1, v0, v1] = p.box;
+    const xa = hx(h0);
+    const xb = Number.isFinite(h1) ? hx(h1) : L + pw;
+    const ya = map.rows > 1 ? vy(v1) : T;
+    const yb = map.rows > 1 ? vy(v0) : T + ph;
+    ctx.setLineDash([6, 4]);
+    ctx.strokeStyle = '#fff';
+    ctx.lineWidth = 4;
+    ctx.strokeRect(xa, ya, xb - xa, yb - ya);
+    ctx.strokeStyle = ink;
+    ctx.lineWidth = 2;
+    ctx.strokeRect(xa, ya, xb - xa, yb - ya);
+    ctx.setLineDash([]);
+  }
   // best fit cross
-  const bx = px(p.bestThickness);
-  const by = map.rows > 1 ? py(p.bestSpeed) : T + ph / 2;
+  const bx = hx(p.bestThickness);
+  const by = vy(p.bestSpeed);
   ctx.strokeStyle = '#fff';
   ctx.lineWidth = 5;
   cross(ctx, bx, by);
-  ctx.strokeStyle = ink;
+  ctx.strokeStyle = '#d40000';
   ctx.lineWidth = 2.5;
   cross(ctx, bx, by);
+  ctx.restore();
   // frame and ticks
   ctx.strokeStyle = ink;
   ctx.lineWidth = 1;
@@ -118,22 +173,18 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   ctx.fillStyle = ink;
   ctx.font = '13px system-ui, sans-serif';
   ctx.textAlign = 'center';
-  for (const f of [0, 0.25, 0.5, 0.75, 1]) {
-    const h = Math.exp(x0 + f * (x1 - x0));
-    const x = L + f * pw;
-    ctx.fillText(num(h, 2), x, T + ph + 16);
-  }
-  ctx.fillText('Layer thickness H (m)', L + pw / 2, H - 6);
+  const xt = [k0, Math.round((k0 + k1) / 2), k1];
+  for (const k of xt) ctx.fillText(num(map.x[k], 2), px(k), T + ph + 16);
+  ctx.fillText('Layer thickness H (m), log scale', L + pw / 2, H - 6);
   ctx.textAlign = 'right';
-  for (const f of [0, 0.5, 1]) {
-    const v = y0 + f * (y1 - y0);
-    ctx.fillText(num(v, 3), L - 6, T + ph - f * ph + 4);
+  if (map.rows > 1) {
+    for (const r of [r0, Math.round((r0 + r1) / 2), r1]) ctx.fillText(num(map.y[r], 3), L - 6, py(r) + 4);
   }
   ctx.save();
   ctx.translate(14, T + ph / 2);
   ctx.rotate(-Math.PI / 2);
   ctx.textAlign = 'center';
-  ctx.fillText(map.yName === 'vs1_m_s' ? 'β1 (m/s)' : 'β2 (m/s)', 0, 0);
+  ctx.fillText(map.yName === 'vs1_m_s' ? 'β1 (m/s), log scale' : 'β2 (m/s), log scale', 0, 0);
   ctx.restore();
 }
 

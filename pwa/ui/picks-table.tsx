@@ -3,6 +3,7 @@
  * row, every change saves at once, a refused change stays on screen with
  * its message. Below it, CSV paste or file import.
  */
+import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
 import type { PickKind } from '../../core/picks';
 import type { PickRecord } from '../../core/records';
@@ -93,11 +94,20 @@ export function PicksTable(props: PicksTableProps) {
               const selected = rec && rec.id === props.selectedId;
               const kind = d?.kind ?? rec?.kind ?? 'group';
               const errId = `err-${key}`;
-              return [
+              return (
+                <Fragment key={key}>
                 <tr
-                  key={key}
                   data-id={rec?.id}
                   class={`${selected ? 'selected' : ''} ${d?.error ? 'bad' : ''} ${rec ? '' : 'new-row'}`}
+                  onFocusOut={
+                    rec
+                      ? undefined
+                      : (e) => {
+                          // The new row is saved when focus leaves the whole row (or on Enter).
+                          const to = e.relatedTarget as Node | null;
+                          if (!to || !e.currentTarget.contains(to)) props.onCommit(key);
+                        }
+                  }
                 >
                   <th scope="row">
                     {rec ? (
@@ -120,8 +130,8 @@ export function PicksTable(props: PicksTableProps) {
                     return (
                       <td key={c}>
                         <input
-                          class="cell"
-                          inputMode={c === 'mode' ? 'numeric' : 'decimal'}
+                          class={c === 'sd_m_s' ? 'cell sd' : 'cell'}
+                          inputMode="decimal"
                           enterKeyHint="next"
                           autoComplete="off"
                           data-row={r}
@@ -132,7 +142,7 @@ export function PicksTable(props: PicksTableProps) {
                           value={value}
                           placeholder={!rec && c === 'mode' ? '0' : !rec && c === 'sd_m_s' ? '3 %' : undefined}
                           onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
-                          onChange={() => props.onCommit(key)}
+                          onChange={rec ? () => props.onCommit(key) : undefined}
                           onKeyDown={(e) => {
                             if (e.key === 'Enter') {
                               e.preventDefault();
@@ -175,7 +185,7 @@ export function PicksTable(props: PicksTableProps) {
                           value={value}
                           placeholder={!rec ? '0' : undefined}
                           onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
-                          onChange={() => props.onCommit(key)}
+                          onChange={rec ? () => props.onCommit(key) : undefined}
                           onKeyDown={(e) => {
                             if (e.key === 'Enter') {
                               e.preventDefault();
@@ -202,9 +212,9 @@ export function PicksTable(props: PicksTableProps) {
                       </button>
                     ) : null}
                   </td>
-                </tr>,
-                d?.error ? (
-                  <tr key={`${key}-err`} class="row-error">
+                </tr>
+                {d?.error ? (
+                  <tr class="row-error">
                     <td colSpan={7}>
                       <p id={errId} class="error" role="alert">
                         {d.error}
@@ -216,8 +226,9 @@ export function PicksTable(props: PicksTableProps) {
                       </p>
                     </td>
                   </tr>
-                ) : null,
-              ];
+                ) : null}
+                </Fragment>
+              );
             })}
           </tbody>
         </table>

@@ -167,8 +167,17 @@ export class DispersionPlot {
     const pal = this.pal;
     const xLabel = input.axis === 'frequency' ? 'Frequency (Hz)' : 'Period (s)';
     const font = '14px system-ui, sans-serif';
-    const axis = (label: string): uPlot.Axis => ({
+    // On log axes, label 1, 2 and 5 of each decade (uPlot puts ticks at 1–9 × 10^k).
+    const logValues = (_u: uPlot, splits: number[]) =>
+      splits.map((v) => {
+        const decade = 10 ** Math.floor(Math.log10(v) + 1e-9);
+        const lead = Math.round(v / decade);
+        const round = Math.abs(v - lead * decade) < 1e-6 * v;
+        return round && (lead === 1 || lead === 2 || lead === 5) ? String(Number(v.toPrecision(3))) : '';
+      });
+    const axis = (label: string, log: boolean): uPlot.Axis => ({
       label,
+      ...(log ? { values: logValues, filter: (_u: uPlot, splits: number[]) => splits } : {}),
       stroke: pal.text,
       font,
       labelFont: 'bold 14px system-ui, sans-serif',
@@ -196,7 +205,7 @@ export class DispersionPlot {
         x: { time: false, distr: input.xLog ? 3 : 1, range: () => this.xRange },
         y: { distr: input.yLog ? 3 : 1, range: () => this.yRange },
       },
-      axes: [axis(xLabel), axis('Velocity (m/s)')],
+      axes: [axis(xLabel, input.xLog), axis('Velocity (m/s)', input.yLog)],
       series,
       hooks: { draw: [(u) => this.drawOverlay(u)] },
     };
