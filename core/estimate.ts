@@ -28,12 +28,18 @@
  *     with Brent's method (roots.ts). An interval that reaches the search
  *     range is reported as open (one-sided) there, with a warning. When the
  *     fit is poor (χ² above its 95 % point for the degrees of freedom), the
- *     Δχ² levels are scaled by χ²/dof and the output says so.
+ *     Δχ² levels are scaled by χ²/dof and the output says so. With several
+ *     minima the headline interval spans the Δχ² region of all of them.
+ *  4. Diagnostics in plain words (estimate-diagnostics.ts) and site figures
+ *     over the box of 95 % intervals (site.ts).
+ *
+ * Densities are known (given, or DEFAULT_DENSITY_LAYER/HALFSPACE, common
+ * practice), so ρ2/ρ1 is fixed and each speed ratio needs one table.
  *
  * Units: SI (m, Hz, m/s, kg/m³). Accuracy: exact picks from the forward
- * model are recovered to ≤ 1e-6 relative (LM stops at relative step 1e-6 of
- * a quadratically converging fit, in practice ~1e-10); interval ends to
- * about 1e-5 relative.
+ * model are recovered to ≤ 1e-6 relative (in practice ~1e-14: LM converges
+ * quadratically on a zero-residual fit); interval ends to about 2e-6
+ * relative (Brent, 2e-6 in ln of the parameter).
  *
  * Failures: bad input throws InputError (one validation step, messages name
  * the field or the pick); the result is a plain, structured-clone-able
