@@ -11,6 +11,7 @@ import type { AnyRecord, ConflictVersion } from '../../core/records';
 import { resolveConflict } from '../../core/sync';
 import { openFieldStore, type FieldStore } from '../store';
 import { SyncClient, SyncError, type SyncStatus } from '../sync/client';
+import './sync-panel.css';
 
 let shared: Promise<{ store: FieldStore; client: SyncClient }> | undefined;
 

@@ -1,0 +1,457 @@
+/**
+ * The tablet's side of sync with the office server (protocol:
+ * core/sync-protocol.ts; merge rules: core/sync.ts).
+ *
+ * One sync = push, then pull:
+ * 1. Push: the current version of every record named in the outbox, in
+ *    batches (at most PUSH_BATCH_RECORDS records, about 8 MB). Outbox
+ *    entries are acknowledged (removed) only after the server answers 200,
+ *    which it does only once the batch is committed; an edit made during
+ *    the push keeps its own, newer entry. Records the server reports as
+ *    conflicts come back merged and are stored at once.
+ * 2. Pull: every change after the saved cursor, page by page; each page is
+ *    merged locally with the same rules and written in one transaction (a
+ *    record edited on the tablet meanwhile is left alone; the office merges
+ *    that edit when it is pushed). The cursor is saved after each page.
+ *
+ * When: on demand (`syncNow`), when the browser comes back online, and on a
+ * timer while online: every INTERVAL_MS after a success, and after a
+ * failure after 5 s, 10 s, 20 s … up to MAX_BACKOFF_MS.
+ *
+ * Nothing here touches the DOM; it runs in the page and in Node tests alike
+ * (given `fetch`, an IndexedDB and, optionally, online/offline events).
+ */
+import type { AnyRecord } from '../../core/records';
+import { hasConflicts, planMerge } from '../../core/sync';
+import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/sync-protocol';
+import type { FieldStore } from '../store';
+
+/** Settings keys in the field store. */
+export const SYNC_KEYS = {
+  serverUrl: 'sync.serverUrl',
+  token: 'sync.token',
+  cursor: 'sync.cursor',
+  lastSuccess: 'sync.lastSuccess',
+  lastError: 'sync.lastError',
+} as const;
+
+/** Most records in one push. */
+export const PUSH_BATCH_RECORDS = 5000;
+/** Rough byte budget of one push (the server's limit is 16 MiB). */
+export const PUSH_BATCH_BYTES = 8 * 1024 * 1024;
+/** Records per pull page asked for. */
+export const PULL_PAGE = 2000;
+
+export interface SyncClientOptions {
+  /** The fetch to use. @default globalThis.fetch */
+  fetch?: typeof fetch;
+  /** Where online/offline events come from. @default globalThis when it has addEventListener */
+  events?: Pick<EventTarget, 'addEventListener' | 'removeEventListener'>;
+  /** Whether the device thinks it is online. @default navigator.onLine, else true */
+  isOnline?: () => boolean;
+  /** Time between syncs while all is well, ms. @default 60000 */
+  intervalMs?: number;
+  /** First retry delay after a failure, ms; doubles each failure. @default 5000 */
+  firstBackoffMs?: number;
+  /** Longest retry delay, ms. @default 600000 */
+  maxBackoffMs?: number;
+  /** Time limit of one request, ms. @default 30000 */
+  requestTimeoutMs?: number;
+  /** Clock. @default () => new Date() */
+  now?: () => Date;
+}
+
+export type SyncState = 'not-set-up' | 'idle' | 'syncing' | 'offline' | 'error';
+
+export interface SyncStatus {
+  state: SyncState;
+  /** Records waiting to be sent to the office. */
+  pending: number;
+  /** Records carrying versions edited elsewhere, waiting for review. */
+  conflicts: number;
+  serverUrl?: string;
+  /** ISO time of the last complete sync. */
+  lastSuccess?: string;
+  /** The last failure, in plain words (cleared by a success). */
+  lastError?: string;
+  /** When the timer will try next, ISO time. */
+  nextAttempt?: string;
+}
+
+export interface SyncReport {
+  ok: boolean;
+  pushed: number;
+  pulled: number;
+  conflicts: number;
+  message: string;
+}
+
+/** A failure with a plain-words message for the crew. */
+export class SyncError extends Error {
+  constructor(
+    message: string,
+    readonly retry: boolean,
+  ) {
+    super(message);
+    this.name = 'SyncError';
+  }
+}
+
+/** Checks and normalises an office address typed by the crew; throws SyncError in plain words. */
+export function normaliseServerUrl(text: string): string {
+  const t = text.trim();
+  if (t === '') throw new SyncError('Enter the office server address, e.g. http://192.168.1.20:8750.', false);
+  let url: URL;
+  try {
+    url = new URL(/^https?:\/\//i.test(t) ? t : `http://${t}`);
+  } catch {
+    throw new SyncError(`"${t.slice(0, 60)}" is not a web address; enter it like http://192.168.1.20:8750.`, false);
+  }
+  if (url.protocol !== 'http:' && url.protocol !== 'https:') throw new SyncError('The office address must start with http:// or https://.', false);
+  return `${url.protocol}//${url.host}${url.pathname.replace(/\/+$/, '')}`;
+}
+
+function approxBytes(r: AnyRecord): number {
+  return JSON.stringify(r).length + 1;
+}
+
+function randomId(): string {
+  const c = globalThis.crypto;
+  if (c?.randomUUID) return c.randomUUID();
+  return `b${Date.now().toString(36)}${Math.random().toString(36).slice(2)}`;
+}
+
+export class SyncClient {
+  private readonly fetchFn: typeof fetch;
+  private readonly opts: Required<Pick<SyncClientOptions, 'intervalMs' | 'firstBackoffMs' | 'maxBackoffMs' | 'requestTimeoutMs'>>;
+  private readonly now: () => Date;
+  private readonly isOnline: () => boolean;
+  private readonly events?: Pick<EventTarget, 'addEventListener' | 'removeEventListener'>;
+  private running: Promise<SyncReport> | undefined;
+  private timer: ReturnType<typeof setTimeout> | undefined;
+  private failures = 0;
+  private started = false;
+  private status: SyncStatus = { state: 'idle', pending: 0, conflicts: 0 };
+  private readonly listeners = new Set<(s: SyncStatus) => void>();
+  private readonly onOnline = () => {
+    this.failures = 0;
+    void this.syncNow();
+  };
+  private readonly onOffline = () => {
+    void this.refresh();
+  };
+
+  constructor(
+    private readonly store: FieldStore,
+    options: SyncClientOptions = {},
+  ) {
+    this.fetchFn = options.fetch ?? ((...a: Parameters<typeof fetch>) => globalThis.fetch(...a));
+    this.opts = {
+      intervalMs: options.intervalMs ?? 60_000,
+      firstBackoffMs: options.firstBackoffMs ?? 5_000,
+      maxBackoffMs: options.maxBackoffMs ?? 600_000,
+      requestTimeoutMs: options.requestTimeoutMs ?? 30_000,
+    };
+    this.now = options.now ?? (() => new Date());
+    const nav = (globalThis as { navigator?: { onLine?: boolean } }).navigator;
+    this.isOnline = options.isOnline ?? (() => nav?.onLine ?? true);
+    const g = globalThis as unknown as Partial<EventTarget>;
+    this.events = options.events ?? (typeof g.addEventListener === 'function' ? (g as EventTarget) : undefined);
+  }
+
+  /** Starts the automatic syncs (online event + timer) and a first sync. */
+  start(): void {
+    if (this.started) return;
+    this.started = true;
+    this.events?.addEventListener('online', this.onOnline);
+    this.events?.addEventListener('offline', this.onOffline);
+    void this.refresh().then(() => this.syncNow());
+  }
+
+  /** Stops the automatic syncs; a sync already running finishes. */
+  stop(): void {
+    this.started = false;
+    this.events?.removeEventListener('online', this.onOnline);
+    this.events?.removeEventListener('offline', this.onOffline);
+    if (this.timer !== undefined) clearTimeout(this.timer);
+    this.timer = undefined;
+  }
+
+  /** Follows status changes; returns the unsubscribe function. The listener gets the current status at once. */
+  subscribe(listener: (s: SyncStatus) => void): () => void {
+    this.listeners.add(listener);
+    listener(this.status);
+    return () => this.listeners.delete(listener);
+  }
+
+  getStatus(): SyncStatus {
+    return this.status;
+  }
+
+  private emit(patch: Partial<SyncStatus>): void {
+    this.status = { ...this.status, ...patch };
+    for (const l of this.listeners) l(this.status);
+  }
+
+  /** Re-reads the counts and saved settings into the status. */
+  async refresh(): Promise<SyncStatus> {
+    const [outbox, records, serverUrl, token, lastSuccess, lastError] = await Promise.all([
+      this.store.outbox(),
+      this.store.allRecords(),
+      this.store.getSetting<string>(SYNC_KEYS.serverUrl),
+      this.store.getSetting<string>(SYNC_KEYS.token),
+      this.store.getSetting<string>(SYNC_KEYS.lastSuccess),
+      this.store.getSetting<string>(SYNC_KEYS.lastError),
+    ]);
+    const configured = Boolean(serverUrl && token);
+    let state: SyncState = this.status.state === 'syncing' ? 'syncing' : configured ? (lastError ? 'error' : 'idle') : 'not-set-up';
+    if (configured && state !== 'syncing' && !this.isOnline()) state = 'offline';
+    this.emit({
+      state,
+      pending: new Set(outbox.map((e) => e.recordId)).size,
+      conflicts: records.filter(hasConflicts).length,
+      serverUrl: serverUrl || undefined,
+      lastSuccess: lastSuccess || undefined,
+      lastError: lastError || undefined,
+    });
+    return this.status;
+  }
+
+  /**
+   * Saves the office address and device token (checking them against the
+   * server first when `verify` is set). A new server starts pulling from
+   * the beginning.
+   */
+  async configure(serverUrlText: string, token: string, verify = true): Promise<string> {
+    const serverUrl = normaliseServerUrl(serverUrlText);
+    const t = token.trim();
+    if (!/^[A-Za-z0-9_-]{16,200}$/.test(t)) {
+      throw new SyncError('The device token is the line of letters, digits, - and _ that "shearfield device add" printed; paste it whole.', false);
+    }
+    let device = '';
+    if (verify) {
+      const status = await this.request<StatusResponse>(serverUrl, t, 'GET', '/api/v1/status');
+      if (status.server !== 'shearfield-office') throw new SyncError(`${serverUrl} does not answer like a Shearfield office server.`, false);
+      device = status.device;
+    }
+    const previous = await this.store.getSetting<string>(SYNC_KEYS.serverUrl);
+    await this.store.putSetting(SYNC_KEYS.serverUrl, serverUrl);
+    await this.store.putSetting(SYNC_KEYS.token, t);
+    if (previous !== serverUrl) await this.store.putSetting(SYNC_KEYS.cursor, '0');
+    await this.store.putSetting(SYNC_KEYS.lastError, '');
+    await this.refresh();
+    return device;
+  }
+
+  /** Forgets the office address and token (queued changes stay queued). */
+  async forget(): Promise<void> {
+    await this.store.putSetting(SYNC_KEYS.serverUrl, '');
+    await this.store.putSetting(SYNC_KEYS.token, '');
+    await this.store.putSetting(SYNC_KEYS.cursor, '0');
+    await this.refresh();
+  }
+
+  /** Syncs now (or joins the sync already running). Never rejects: the report says what happened. */
+  syncNow(): Promise<SyncReport> {
+    if (!this.running) {
+      this.running = this.runOnce().finally(() => {
+        this.running = undefined;
+      });
+    }
+    return this.running;
+  }
+
+  private schedule(ok: boolean): void {
+    if (this.timer !== undefined) clearTimeout(this.timer);
+    this.timer = undefined;
+    if (!this.started) return;
+    const delay = ok ? this.opts.intervalMs : Math.min(this.opts.maxBackoffMs, this.opts.firstBackoffMs * 2 ** Math.max(0, this.failures - 1));
+    this.emit({ nextAttempt: new Date(this.now().getTime() + delay).toISOString() });
+    this.timer = setTimeout(() => {
+      this.timer = undefined;
+      if (this.isOnline()) void this.syncNow();
+      else this.schedule(false);
+    }, delay);
+  }
+
+  private async runOnce(): Promise<SyncReport> {
+    const serverUrl = await this.store.getSetting<string>(SYNC_KEYS.serverUrl);
+    const token = await this.store.getSetting<string>(SYNC_KEYS.token);
+    if (!serverUrl || !token) {
+      await this.refresh();
+      return { ok: false, pushed: 0, pulled: 0, conflicts: 0, message: 'Sync is not set up: enter the office address and this tablet\'s token.' };
+    }
+    this.emit({ state: 'syncing' });
+    let pushed = 0;
+    let pulled = 0;
+    let conflicts = 0;
+    try {
+      const push = await this.push(serverUrl, token);
+      pushed = push.pushed;
+      conflicts += push.conflicts;
+      const pull = await this.pull(serverUrl, token);
+      pulled = pull.pulled;
+      conflicts += pull.conflicts;
+      this.failures = 0;
+      await this.store.putSetting(SYNC_KEYS.lastSuccess, this.now().toISOString());
+      await this.store.putSetting(SYNC_KEYS.lastError, '');
+      this.emit({ state: 'idle' });
+      await this.refresh();
+      this.schedule(true);
+      const message = `Synced: ${pushed} sent, ${pulled} received${conflicts > 0 ? `, ${conflicts} conflict(s) kept for review` : ''}.`;
+      return { ok: true, pushed, pulled, conflicts, message };
+    } catch (e) {
+      const message = e instanceof SyncError ? e.message : `Sync failed: ${(e as Error)?.message ?? String(e)}`;
+      this.failures += 1;
+      try {
+        await this.store.putSetting(SYNC_KEYS.lastError, `${message} (${this.now().toISOString().slice(0, 16).replace('T', ' ')} UTC)`);
+      } catch {
+        /* the status below still shows it */
+      }
+      this.emit({ state: 'error' });
+      await this.refresh().catch(() => this.emit({ lastError: message }));
+      if (!this.isOnline()) this.emit({ state: 'offline' });
+      this.schedule(false);
+      return { ok: false, pushed, pulled, conflicts, message };
+    }
+  }
+
+  /** One HTTP call; turns every failure into a SyncError in plain words. */
+  private async request<T>(serverUrl: string, token: string, method: 'GET' | 'POST', path: string, body?: unknown): Promise<T> {
+    const controller = new AbortController();
+    const timer = setTimeout(() => controller.abort(), this.opts.requestTimeoutMs);
+    let res: Response;
+    try {
+      res = await this.fetchFn(serverUrl + path, {
+        method,
+        headers: body === undefined ? { Authorization: `Bearer ${token}` } : { Authorization: `Bearer ${token}`, 'Content-Type': 'application/json' },
+        body: body === undefined ? undefined : JSON.stringify(body),
+        signal: controller.signal,
+        cache: 'no-store',
+      });
+    } catch {
+      throw new SyncError(
+        controller.signal.aborted
+          ? `The office server at ${serverUrl} did not answer within ${Math.round(this.opts.requestTimeoutMs / 1000)} s. Changes stay queued on this tablet; sync will try again.`
+          : `The office server at ${serverUrl} could not be reached (no network, or the server is not running). Changes stay queued on this tablet; sync will try again.`,
+        true,
+      );
+    } finally {
+      clearTimeout(timer);
+    }
+    let data: unknown;
+    try {
+      data = await res.json();
+    } catch {
+      throw new SyncError(`${serverUrl} answered, but not like a Shearfield office server (HTTP ${res.status}). Check the address.`, res.status >= 500);
+    }
+    if (res.ok) return data as T;
+    const said = (data as ErrorResponse | null)?.error;
+    if (res.status === 401) {
+      throw new SyncError('The office did not accept this tablet\'s token (unknown or revoked). Ask the office for a new one (shearfield device add) and enter it in the sync settings.', false);
+    }
+    if (res.status >= 500) throw new SyncError(`The office server had a problem: ${said ?? `HTTP ${res.status}`} It will be tried again.`, true);
+    throw new SyncError(`The office refused the data: ${said ?? `HTTP ${res.status}`}`, false);
+  }
+
+  private async push(serverUrl: string, token: string): Promise<{ pushed: number; conflicts: number }> {
+    const entries = await this.store.outbox();
+    if (entries.length === 0) return { pushed: 0, conflicts: 0 };
+    const all = await this.store.allRecords();
+    const byId = new Map(all.map((r) => [r.id, r]));
+    // The current version of each queued record, in queue order.
+    const order: string[] = [];
+    const seqsOf = new Map<string, number[]>();
+    const orphanSeqs: number[] = [];
+    for (const e of entries) {
+      const rec = byId.get(e.recordId);
+      if (!rec || rec.rev < e.rev) {
+        // Only possible if the record vanished; nothing to send for this entry.
+        if (!rec) orphanSeqs.push(e.seq);
+        continue;
+      }
+      if (!seqsOf.has(e.recordId)) {
+        seqsOf.set(e.recordId, []);
+        order.push(e.recordId);
+      }
+      seqsOf.get(e.recordId)!.push(e.seq);
+    }
+    // Sites first so that a fresh office meets a site before its picks (not required, but tidy).
+    const rank = { site: 0, pick: 1, estimate: 2 } as const;
+    const records = order.map((id) => byId.get(id)!).sort((a, b) => rank[a.type] - rank[b.type]);
+    let pushed = 0;
+    let conflicts = 0;
+    let batch: AnyRecord[] = [];
+    let bytes = 0;
+    const flush = async () => {
+      if (batch.length === 0) return;
+      const reply = await this.request<PushResponse>(serverUrl, token, 'POST', '/api/v1/push', { batchId: randomId(), records: batch });
+      // The batch is committed at the office: acknowledge exactly the entries it covered.
+      const acked: number[] = [];
+      for (const r of batch) for (const seq of seqsOf.get(r.id) ?? []) acked.push(seq);
+      await this.store.ackOutbox(acked);
+      pushed += batch.length;
+      conflicts += reply.conflicts;
+      if (reply.conflicted.length > 0) await this.mergeIncoming(reply.conflicted);
+      batch = [];
+      bytes = 0;
+    };
+    for (const r of records) {
+      const size = approxBytes(r);
+      if (batch.length >= PUSH_BATCH_RECORDS || (batch.length > 0 && bytes + size > PUSH_BATCH_BYTES)) await flush();
+      batch.push(r);
+      bytes += size;
+    }
+    await flush();
+    if (orphanSeqs.length > 0) await this.store.ackOutbox(orphanSeqs);
+    return { pushed, conflicts };
+  }
+
+  /** Merges records from the office into the tablet store; returns how many ended in conflict. */
+  private async mergeIncoming(incoming: AnyRecord[]): Promise<number> {
+    const all = await this.store.allRecords();
+    const byId = new Map(all.map((r) => [r.id, r]));
+    const plan = planMerge(incoming, (id) => byId.get(id));
+    if (plan.writes.length === 0) return plan.conflicts;
+    const expectedRevs = new Map(plan.writes.map((w) => [w.id, byId.get(w.id)?.rev ?? 0]));
+    try {
+      await this.store.putIncoming(plan.writes, { expectedRevs });
+    } catch (e) {
+      // One record the tablet refuses must not block the rest: write them one by one, report the first refusal.
+      let first: string | undefined;
+      for (const w of plan.writes) {
+        try {
+          await this.store.putIncoming([w], { expectedRevs });
+        } catch (err) {
+          first ??= (err as Error).message;
+        }
+      }
+      throw new SyncError(`Some records from the office could not be stored on this tablet: ${first ?? (e as Error).message}`, false);
+    }
+    return plan.conflicts;
+  }
+
+  private async pull(serverUrl: string, token: string): Promise<{ pulled: number; conflicts: number }> {
+    let cursor = (await this.store.getSetting<string>(SYNC_KEYS.cursor)) || '0';
+    let pulled = 0;
+    let conflicts = 0;
+    for (let page = 0; page < 10_000; page++) {
+      const reply = await this.request<PullResponse>(serverUrl, token, 'GET', `/api/v1/pull?since=${encodeURIComponent(cursor)}&limit=${PULL_PAGE}`);
+      if (!Array.isArray(reply.records) || typeof reply.cursor !== 'string') {
+        throw new SyncError(`${serverUrl} answered the pull in an unknown form; check that it is a Shearfield office server.`, false);
+      }
+      let pageError: unknown;
+      try {
+        conflicts += await this.mergeIncoming(reply.records);
+      } catch (e) {
+        pageError = e;
+      }
+      pulled += reply.records.length;
+      cursor = reply.cursor;
+      await this.store.putSetting(SYNC_KEYS.cursor, cursor);
+      if (pageError) throw pageError;
+      if (!reply.more) break;
+    }
+    return { pulled, conflicts };
+  }
+}
