@@ -15,10 +15,15 @@
  * (mulberry32, common practice), so every run checks the same cases. A
  * case where two roots fall in one scan interval is settled by refining that
  * interval 64-fold (still the plain reference), so the reference itself
- * cannot hide a pair (88 of the 10,000 cases need it: close roots are
+ * cannot hide a pair. Group velocity (energy integrals) is checked too:
+ * 0 < U ≤ c in every case, and against a Richardson-extrapolated
+ * central-difference dω/dk (steps 1e-4 and 5e-5 relative; 1e-7 relative
+ * tolerance, near mode crossings the difference is the weaker of the two)
+ * in every 20th. (88 of the 10,000 cases need it: close roots are
  * common).
  */
 import { describe, expect, it } from 'vitest';
+import { loveStackGroupVelocity } from '../../core/group-velocity';
 import { LoveStackSolver, loveModesBelow, prepareLoveStack } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
 
@@ -97,6 +102,8 @@ describe('the Thomson–Haskell solver never misses or duplicates a mode', () =>
     const out = new Float64Array(200);
     let modesChecked = 0;
     let refinedCases = 0;
+    let gvChecked = 0;
+    const gvBad: string[] = [];
     for (let trial = 0; trial < 10_000; trial++) {
       const model = randomModel(rand);
       const f = 0.5 * Math.pow(80, rand());
@@ -123,8 +130,30 @@ describe('the Thomson–Haskell solver never misses or duplicates a mode', () =>
       }
       expect(loveModesBelow(stack, omega, stack.vsH)).toBe(found);
       modesChecked += found;
+      // Group velocity: 0 < U ≤ c always (energy integrals); every 20th case also against dω/dk.
+      for (let i = 0; i < found; i++) {
+        const u = loveStackGroupVelocity(stack, omega, out[i]);
+        expect(u > 0 && u <= out[i] * (1 + 1e-9), `U = ${u} for mode ${i}: ${ctx()}`).toBe(true);
+      }
+      if (trial % 20 === 0 && found > 0) {
+        const n = trial % 3 === 0 ? found - 1 : 0;
+        const c = out[n];
+        const kAt = (w: number) => {
+          const r = new Float64Array(n + 1);
+          solver.solve(w, n + 1, r);
+          return w / r[n];
+        };
+        // Central differences at d and d/2, Richardson-extrapolated (error O(d⁴)).
+        const central = (d: number) => (2 * d * omega) / (kAt(omega * (1 + d)) - kAt(omega * (1 - d)));
+        const num = (4 * central(5e-5) - central(1e-4)) / 3;
+        const u = loveStackGroupVelocity(stack, omega, c);
+        gvChecked++;
+        if (Math.abs(u / num - 1) > 1e-7) gvBad.push(`U ${u} vs dω/dk ${num}, mode ${n}: ${ctx()}`);
+      }
     }
     expect(modesChecked).toBeGreaterThan(20_000);
     expect(refinedCases).toBeLessThan(500);
+    expect(gvChecked).toBeGreaterThan(400);
+    expect(gvBad.slice(0, 3)).toEqual([]);
   });
 });
