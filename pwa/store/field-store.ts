@@ -131,37 +131,40 @@ export function newPick(siteId: string, fields: NewPickFields, order: number, no
   return pick;
 }
 
-/** What the crew is told about a failed write; `what` names the thing, e.g. "the site". */
-function storeErrorFrom(error: unknown, what: string): StoreError {
+/**
+ * What the crew is told about a failed write (or read); `what` names the
+ * thing, e.g. "the site" or "the 4 picks".
+ */
+function storeErrorFrom(error: unknown, what: string, action: 'write' | 'read' = 'write'): StoreError {
   if (error instanceof StoreError) return error;
-  const was = /^the \d+ /.test(what) && !what.startsWith('the 1 ') ? 'were' : 'was';
   if (error instanceof InputError) {
     return new StoreError(error.message, { field: error.field, cause: error });
   }
+  const plural = /^the \d+ /.test(what) && !what.startsWith('the 1 ');
+  const failed = action === 'write' ? `${what} ${plural ? 'were' : 'was'} not saved` : `${what} could not be read`;
+  const after = action === 'write' ? ' Nothing was changed;' : '';
   const name = (error as { name?: string } | null)?.name ?? '';
   if (name === 'QuotaExceededError') {
     return new StoreError(
-      `The device's storage is full, so ${what} ${was} not saved. Nothing was changed; ` +
-        'free some space (for example delete old sites after exporting them) and try again.',
+      `The device's storage is full, so ${failed}.${after} free some space (for example delete old sites after exporting them) and try again.`,
       { cause: error },
     );
   }
   if (name === 'AbortError') {
-    return new StoreError(`The database stopped the write, so ${what} ${was} not saved. Nothing was changed; try again.`, {
-      cause: error,
-    });
+    return new StoreError(`The database stopped the ${action}, so ${failed}.${after} try again.`, { cause: error });
   }
   if (name === 'InvalidStateError') {
     return new StoreError(
-      `The database is closed (the app may have been updated in another tab), so ${what} ${was} not saved. ` +
-        'Reload the page to keep working.',
+      `The database is closed (the app may have been updated in another tab), so ${failed}. Reload the page to keep working.`,
       { cause: error },
     );
   }
   const detail = error instanceof Error ? `${error.name}: ${error.message}` : String(error);
-  return new StoreError(`${what.charAt(0).toUpperCase()}${what.slice(1)} could not be saved (${detail}). Nothing was changed; try again.`, {
-    cause: error,
-  });
+  const lead = `${what.charAt(0).toUpperCase()}${what.slice(1)}`;
+  return new StoreError(
+    `${lead} could not be ${action === 'write' ? 'saved' : 'read'} (${detail}).${after} try again.`,
+    { cause: error },
+  );
 }
 
 /** Runs a validation step; an InputError becomes a StoreError (`prefix` is cut from the field name). */
@@ -257,9 +260,7 @@ class IdbFieldStore implements FieldStore {
     try {
       return await fn();
     } catch (e) {
-      const err = storeErrorFrom(e, what);
-      err.message = err.message.replace(' was not saved', ' could not be read').replace(' could not be saved', ' could not be read');
-      throw err;
+      throw storeErrorFrom(e, what, 'read');
     }
   }
 

@@ -377,12 +377,16 @@ describe('failed writes', () => {
     expect(await store.outbox()).toHaveLength(1);
   });
 
-  it('a closed database refuses the write with advice to reload', async () => {
+  it('a closed database refuses writes and reads with advice to reload', async () => {
     const { store } = await freshStore();
     store.close();
     const e = await rejection(store.saveSite(newSite(invented)));
     expect(e.message).toBe(
       'The database is closed (the app may have been updated in another tab), so the site was not saved. Reload the page to keep working.',
+    );
+    const r = await rejection(store.listSites());
+    expect(r.message).toBe(
+      'The database is closed (the app may have been updated in another tab), so the site list could not be read. Reload the page to keep working.',
     );
   });
 });
