@@ -10,9 +10,10 @@
  *
  *   U = I2 / (c I1).
  *
- * The eigenfunction is propagated from the surface with the Thomson–Haskell
- * SH matrices (scaled as in love-stack.ts) and ∫ l² dz is closed-form in
- * each layer. With A = l and b = τ/μ at the top of a layer of thickness d,
+ * The eigenfunction is propagated with the Thomson–Haskell SH matrices
+ * (scaled as in love-stack.ts), down from the surface and up from the
+ * half-space, joined at one interface (see loveStackGroupVelocity), and
+ * ∫ l² dz is closed-form in each layer. With A = l and b = τ/μ at the top of a layer of thickness d,
  * x = νd (or γd), y = 2x:
  *
  *   oscillatory: ∫l² = A²d(½ + sin y/(2y)) + 2b²d³·(y − sin y)/y³ + A b d²(sin x/x)²
