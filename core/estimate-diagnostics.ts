@@ -270,7 +270,7 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     }
     sentences.push(
       `The best thickness, ${fmt(h)} m, is deeper than half the longest picked wavelength (${fmt(longestWavelength)} m, so about ${fmt(resolvedDepth)} m is seen; ` +
-        `depth of investigation ≈ λ/2, common practice): the picks do not resolve it.${advice}`,
+        `depth of investigation ≈ λ/2, common practice): the picks do not resolve it, and as they sample the layer alone they say little about the half-space.${advice}`,
     );
   }
 

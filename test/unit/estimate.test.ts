@@ -216,6 +216,7 @@ describe('ambiguity and unconstrained cases', () => {
     const text = r.warnings.join('\n');
     expect(text).toMatch(/do not constrain the thickness: the 95 % interval is open, fitting up to the high end of the search range \(100 m\)/);
     expect(text).toMatch(/deeper than half the longest picked wavelength/);
+    expect(text).toMatch(/as they sample the layer alone they say little about the half-space/);
     expect(text).toMatch(/To resolve it, pick wavelengths of at least/);
     expect(text).toMatch(/with a spread of at least/);
     expect(text).toMatch(/common-practice rules of thumb/);
