@@ -14,7 +14,7 @@ import { InputError } from '../../core/errors';
 import { checkPickSet, pickFromCells, type Pick, type PickCells, type PickKind, parsePicksCsv } from '../../core/picks';
 import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
 import { newPick, newSite, type FieldStore } from '../store';
-import { runEstimate } from './compute';
+import { runEstimate, type EstimateOutcome } from './compute';
 import {
   initialState,
   NEW_ROW,
@@ -116,7 +116,12 @@ export function pickOfRecord(r: PickRecord): Pick {
   return p;
 }
 
+/** How the controller runs the estimate (the worker bridge in the app; tests may pass their own). */
+export type EstimateRunner = (picks: readonly Pick[], settings: EstimateSettings, signal: AbortSignal) => Promise<EstimateOutcome>;
+
 export class Controller {
+  constructor(private readonly estimate: EstimateRunner = runEstimate) {}
+
   private state: AppState = initialState;
   private listeners = new Set<Listener>();
   private store?: FieldStore;
@@ -760,7 +765,7 @@ export class Controller {
     const picks = this.state.picks.map(pickOfRecord);
     this.set({ estimate: { ...this.state.estimate, status: 'running', error: undefined } });
     try {
-      const result = await runEstimate(picks, site.settings, abort.signal);
+      const result = await this.estimate(picks, site.settings, abort.signal);
       if (abort.signal.aborted) return;
       this.set({ estimate: { status: 'done', result } });
     } catch (e) {

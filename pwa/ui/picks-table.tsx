@@ -121,7 +121,10 @@ export function PicksTable(props: PicksTableProps) {
                         {r + 1}
                       </button>
                     ) : (
-                      <span aria-hidden="true">+</span>
+                      <>
+                        <span aria-hidden="true">+</span>
+                        <span class="sr-only">New</span>
+                      </>
                     )}
                   </th>
                   {cols.slice(0, 3).map((c, ci) => {
