@@ -1,3 +1,4 @@
+/// <reference types="vite/client" />
 /**
  * Registers the service worker (production builds only) and tells the page
  * when a new version is ready.
@@ -13,6 +14,12 @@ import { Workbox } from 'workbox-window';
 /** Called when an update is waiting; call `apply` to switch to it (reloads the page). */
 export type UpdateReadyListener = (apply: () => void) => void;
 
+/** The part of workbox-window's Workbox this module uses (a fake in tests). */
+export interface UpdateSource {
+  addEventListener(type: 'waiting' | 'controlling', listener: () => void): void;
+  messageSkipWaiting(): void;
+}
+
 const listeners = new Set<UpdateReadyListener>();
 let waitingApply: (() => void) | undefined;
 
@@ -26,16 +33,23 @@ export function onUpdateReady(cb: UpdateReadyListener): () => void {
   return () => listeners.delete(cb);
 }
 
-function announce(wb: Workbox): void {
-  let applied = false;
-  waitingApply = () => {
-    if (applied) return;
-    applied = true;
-    // Reload only once the new worker controls the page, so the reload is served by it.
-    wb.addEventListener('controlling', () => window.location.reload());
-    wb.messageSkipWaiting();
-  };
-  for (const cb of listeners) cb(waitingApply);
+/**
+ * Wires an update source: on `waiting`, every listener gets `apply`.
+ * `apply` (once, however often called) asks the waiting worker to take
+ * over and calls `reload` when it controls the page, so the reload is
+ * served by the new version.
+ */
+export function watchForUpdates(source: UpdateSource, reload: () => void = () => window.location.reload()): void {
+  source.addEventListener('waiting', () => {
+    let applied = false;
+    waitingApply = () => {
+      if (applied) return;
+      applied = true;
+      source.addEventListener('controlling', reload);
+      source.messageSkipWaiting();
+    };
+    for (const cb of listeners) cb(waitingApply);
+  });
 }
 
 /** The registration promise (undefined in development or where service workers are unavailable). */
@@ -44,7 +58,7 @@ export let registration: Promise<ServiceWorkerRegistration | undefined> | undefi
 if (import.meta.env.PROD && typeof navigator !== 'undefined' && 'serviceWorker' in navigator) {
   const wb = new Workbox(`${import.meta.env.BASE_URL}sw.js`, { scope: import.meta.env.BASE_URL });
   // `waiting` fires both for a fresh update and for one left waiting by an earlier visit.
-  wb.addEventListener('waiting', () => announce(wb));
+  watchForUpdates(wb);
   registration = wb.register();
   // Look for a new version whenever the app comes back to the foreground.
   document.addEventListener('visibilitychange', () => {
