@@ -66,6 +66,12 @@ export interface MergeOptions {
    * @default none
    */
   seen?: (key: string, id: string) => boolean;
+  /**
+   * Where a stored version came from, when the store keeps that (the office
+   * does), so that a stored version set aside as a conflict names its source.
+   * @default none
+   */
+  sourceOf?: (key: string, id: string) => string | undefined;
 }
 
 interface Candidate {
@@ -130,12 +136,16 @@ export function mergeRecord<T extends AnyRecord>(stored: T | undefined, incoming
 
   const storedKey = revisionKey(stored);
   const incomingKey = revisionKey(incoming);
-  const storedCandidates = candidatesOf(stored, undefined);
+  const storedCandidates = candidatesOf(stored, options.sourceOf?.(storedKey, stored.id));
   const incomingCandidates = candidatesOf(incoming, options.from).filter((c) => !(c.key === incomingKey && options.seen?.(c.key, incoming.id) && c.key !== storedKey));
 
-  // Every version involved, once each (the stored copy wins a tie, so its `from` stays).
+  // Every version involved, once each (the stored copy wins a tie; a known `from` fills an unknown one).
   const all = new Map<string, Candidate>();
-  for (const c of [...storedCandidates, ...incomingCandidates]) if (!all.has(c.key)) all.set(c.key, c);
+  for (const c of [...storedCandidates, ...incomingCandidates]) {
+    const had = all.get(c.key);
+    if (!had) all.set(c.key, c);
+    else if (had.from === undefined && c.from !== undefined) all.set(c.key, { ...had, from: c.from });
+  }
   const versions = [...all.values()];
   const live = versions.filter((v) => !versions.some((w) => supersedes(w, v)));
   live.sort(shownFirst);

@@ -95,36 +95,32 @@ function sendJson(res: ServerResponse, status: number, body: unknown, extra: Rec
   res.end(text);
 }
 
-/** Reads the body up to `limit` bytes; a larger one is a 413 (the rest is discarded unread). */
+/**
+ * Reads the body up to `limit` bytes. A larger one is a 413: the rest is
+ * read and thrown away (so the client can read the answer), up to 4 × the
+ * limit, beyond which the connection is cut.
+ */
 function readBody(req: IncomingMessage, limit: number): Promise<Buffer> {
   return new Promise((resolveBody, reject) => {
-    const declared = Number(req.headers['content-length']);
     const tooBig = () =>
       new HttpError(413, `The request body is larger than the ${limit}-byte limit (${Math.round(limit / 1048576)} MiB); send the changes in smaller batches. Nothing was saved.`);
-    if (Number.isFinite(declared) && declared > limit) {
-      req.resume();
-      reject(tooBig());
-      return;
-    }
     const chunks: Buffer[] = [];
     let size = 0;
-    let failed = false;
+    let over = Number(req.headers['content-length']) > limit;
     req.on('data', (chunk: Buffer) => {
-      if (failed) return;
       size += chunk.length;
-      if (size > limit) {
-        failed = true;
+      if (size > limit) over = true;
+      if (over) {
         chunks.length = 0;
-        reject(tooBig());
+        if (size > 4 * limit) req.destroy();
         return;
       }
       chunks.push(chunk);
     });
-    req.on('end', () => {
-      if (!failed) resolveBody(Buffer.concat(chunks));
-    });
-    req.on('error', (e) => {
-      if (!failed) reject(e);
+    req.on('end', () => (over ? reject(tooBig()) : resolveBody(Buffer.concat(chunks))));
+    req.on('error', reject);
+    req.on('close', () => {
+      if (!req.complete) reject(over ? tooBig() : new HttpError(400, 'The request body was cut off; nothing was saved.'));
     });
   });
 }
@@ -278,7 +274,7 @@ export async function startOfficeServer(options: OfficeServerOptions = {}): Prom
     }
     handleApi(req, res, url, store).catch((e: unknown) => {
       if (e instanceof HttpError) {
-        sendJson(res, e.status, { error: e.message }, e.status === 413 ? { Connection: 'close' } : {});
+        if (!res.headersSent && !res.destroyed) sendJson(res, e.status, { error: e.message });
       } else if (e instanceof InputError) {
         sendJson(res, 400, { error: `${e.message} Nothing was saved.`, field: e.field });
       } else {

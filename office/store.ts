@@ -227,6 +227,7 @@ export class OfficeStore {
   applyBatch(records: readonly AnyRecord[], meta: { batchId: string; source: string; deviceId?: number }, now = new Date()): BatchResult {
     const getBody = this.db.prepare('SELECT body FROM records WHERE id = ?');
     const seen = this.db.prepare('SELECT 1 FROM versions WHERE record_id = ? AND rev_key = ?');
+    const sourceOf = this.db.prepare('SELECT source FROM versions WHERE record_id = ? AND rev_key = ?');
     const upsert = this.db.prepare(
       `INSERT INTO records (id, type, site_id, rev, rev_key, updated_at, deleted, conflicts, seq, body)
        VALUES (@id, @type, @siteId, @rev, @key, @updatedAt, @deleted, @conflicts, @seq, @body)
@@ -250,7 +251,11 @@ export class OfficeStore {
         const row = getBody.get(id) as { body: string } | undefined;
         return row ? (JSON.parse(row.body) as AnyRecord) : undefined;
       };
-      const seenPlan = planMerge(records, lookup, { from: meta.source, seen: (key, id) => seen.get(id, key) !== undefined });
+      const seenPlan = planMerge(records, lookup, {
+        from: meta.source,
+        seen: (key, id) => seen.get(id, key) !== undefined,
+        sourceOf: (key, id) => (sourceOf.get(id, key) as { source: string } | undefined)?.source,
+      });
       let seq = this.cursor();
       for (const rec of seenPlan.writes) {
         seq += 1;

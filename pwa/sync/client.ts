@@ -59,6 +59,8 @@ export interface SyncClientOptions {
   requestTimeoutMs?: number;
   /** Clock. @default () => new Date() */
   now?: () => Date;
+  /** Most records per push. @default PUSH_BATCH_RECORDS */
+  batchRecords?: number;
 }
 
 export type SyncState = 'not-set-up' | 'idle' | 'syncing' | 'offline' | 'error';
@@ -123,7 +125,7 @@ function randomId(): string {
 
 export class SyncClient {
   private readonly fetchFn: typeof fetch;
-  private readonly opts: Required<Pick<SyncClientOptions, 'intervalMs' | 'firstBackoffMs' | 'maxBackoffMs' | 'requestTimeoutMs'>>;
+  private readonly opts: Required<Pick<SyncClientOptions, 'intervalMs' | 'firstBackoffMs' | 'maxBackoffMs' | 'requestTimeoutMs' | 'batchRecords'>>;
   private readonly now: () => Date;
   private readonly isOnline: () => boolean;
   private readonly events?: Pick<EventTarget, 'addEventListener' | 'removeEventListener'>;
@@ -151,6 +153,7 @@ export class SyncClient {
       firstBackoffMs: options.firstBackoffMs ?? 5_000,
       maxBackoffMs: options.maxBackoffMs ?? 600_000,
       requestTimeoutMs: options.requestTimeoutMs ?? 30_000,
+      batchRecords: options.batchRecords ?? PUSH_BATCH_RECORDS,
     };
     this.now = options.now ?? (() => new Date());
     const nav = (globalThis as { navigator?: { onLine?: boolean } }).navigator;
@@ -398,7 +401,7 @@ export class SyncClient {
     };
     for (const r of records) {
       const size = approxBytes(r);
-      if (batch.length >= PUSH_BATCH_RECORDS || (batch.length > 0 && bytes + size > PUSH_BATCH_BYTES)) await flush();
+      if (batch.length >= this.opts.batchRecords || (batch.length > 0 && bytes + size > PUSH_BATCH_BYTES)) await flush();
       batch.push(r);
       bytes += size;
     }
