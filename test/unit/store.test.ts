@@ -234,6 +234,28 @@ describe('the outbox', () => {
   });
 });
 
+describe('putIncoming options (used by pwa/sync)', () => {
+  it('skips a record edited since the merge looked (expectedRevs) and returns its id; queue puts the rest in the outbox', async () => {
+    const { store } = await freshStore();
+    const site = newSite(invented);
+    await store.saveSite(site);
+    await store.saveSite(nextRevision(site, { notes: 'edited on the tablet meanwhile' }));
+    const fresh = newSite({ ...invented, name: 'Invented site from the office' });
+    const incomingSite = nextRevision(site, { notes: 'from the office' });
+    const skipped = await store.putIncoming([incomingSite, fresh], {
+      expectedRevs: new Map([
+        [site.id, 1], // the merge saw rev 1, but rev 2 is stored now
+        [fresh.id, 0], // absent when the merge looked, still absent
+      ]),
+      queue: true,
+    });
+    expect(skipped).toEqual([site.id]);
+    expect((await store.getSite(site.id))?.notes).toBe('edited on the tablet meanwhile');
+    expect(await store.getSite(fresh.id)).toEqual(fresh);
+    expect((await store.outbox()).map((e) => e.recordId)).toEqual([site.id, site.id, fresh.id]);
+  });
+});
+
 describe('deleting', () => {
   it('deleteSite leaves tombstones for the site, its picks and its estimates, and queues each', async () => {
     const { store } = await freshStore();
