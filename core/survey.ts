@@ -21,6 +21,7 @@
  */
 import { InputError } from './errors';
 import { lovePhaseVelocity, type TwoLayer } from './love-layer';
+import type { PickKind } from './picks';
 import { brent } from './roots';
 
 /** Depth of investigation as a fraction of the longest wavelength (common practice). */
@@ -83,6 +84,34 @@ export function frequencyForWavelength(model: TwoLayer, wavelength: number): num
   const hi = model.vs2 / wavelength;
   const r = brent(g, lo * (1 + 1e-12), hi * (1 - 1e-12), undefined, undefined, { rtol: 1e-10 });
   return r.status === 'converged' ? r.x : NaN;
+}
+
+/** The fields of a pick that fix its wavelength. */
+export interface WavelengthPick {
+  frequency: number;
+  velocity: number;
+  kind: PickKind;
+  mode: number;
+}
+
+/**
+ * Each pick's wavelength λ = c/f, m, with c the phase velocity: the pick's
+ * own for a phase pick; for a group pick, the model's phase velocity of the
+ * pick's mode at its frequency (the way the estimate's depth check counts
+ * it), or, without a model or below the mode's cutoff, the group velocity
+ * itself as an approximation.
+ */
+export function pickWavelengths(picks: readonly WavelengthPick[], model?: TwoLayer): Float64Array {
+  const out = new Float64Array(picks.length);
+  picks.forEach((p, i) => {
+    let c = p.velocity;
+    if (p.kind === 'group' && model) {
+      const phase = lovePhaseVelocity(model, p.frequency, p.mode);
+      if (Number.isFinite(phase)) c = phase;
+    }
+    out[i] = c / p.frequency;
+  });
+  return out;
 }
 
 function round(x: number, digits: number): string {

@@ -5,7 +5,7 @@
  */
 import type { EstimateResult } from '../../core/estimate';
 import type { PickRecord } from '../../core/records';
-import { surveyAdvice, type SurveyAdvice } from '../../core/survey';
+import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../core/survey';
 import { num, span } from './format';
 
 export interface SurveyViewProps {
@@ -22,12 +22,9 @@ export function adviceOf(props: SurveyViewProps): { advice?: SurveyAdvice; error
     return { error: `The target depth must be a number of metres greater than 0, but it is "${t}".` };
   }
   const r = props.result;
+  const model = r ? { h: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, rho1: r.density1, rho2: r.density2 } : undefined;
   try {
-    const advice = surveyAdvice({
-      targetDepth: depth,
-      model: r ? { h: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, rho1: r.density1, rho2: r.density2 } : undefined,
-      pickedWavelengths: props.picks.map((p) => p.velocity / p.frequency),
-    });
+    const advice = surveyAdvice({ targetDepth: depth, model, pickedWavelengths: pickWavelengths(props.picks, model) });
     return { advice };
   } catch (e) {
     return { error: e instanceof Error ? e.message : String(e) };
@@ -41,7 +38,7 @@ export function SurveyView(props: SurveyViewProps) {
   return (
     <section class="panel" aria-labelledby="survey-h">
       <h2 id="survey-h">Survey plan</h2>
-      <label class="field">
+      <label class="field short">
         <span>Target depth (m)</span>
         <input
           inputMode="decimal"
@@ -128,7 +125,8 @@ export function SurveyView(props: SurveyViewProps) {
             </table>
           </div>
           <p id="survey-note" class="hint">
-            {advice.note} Picked wavelengths are velocity ÷ frequency of each pick.
+            {advice.note} A pick's wavelength is its phase velocity ÷ frequency (for group picks, the phase velocity of the
+            current estimate{props.result ? '' : ', or the group velocity itself until there is one'}).
           </p>
         </>
       ) : null}

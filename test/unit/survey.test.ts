@@ -8,7 +8,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../core/errors';
 import { loveBranchOmega, type TwoLayer } from '../../core/love-layer';
-import { frequencyForWavelength, surveyAdvice, SURVEY_PRACTICE_NOTE } from '../../core/survey';
+import { frequencyForWavelength, pickWavelengths, surveyAdvice, SURVEY_PRACTICE_NOTE } from '../../core/survey';
 
 const model: TwoLayer = { h: 8, vs1: 180, vs2: 520, rho1: 1800, rho2: 2100 };
 
@@ -72,5 +72,28 @@ describe('surveyAdvice', () => {
     }
     expect(() => surveyAdvice({ targetDepth: 5000 })).toThrow(InputError);
     expect(() => surveyAdvice({ targetDepth: 5000 })).toThrow(/at most 1000 m/);
+  });
+});
+
+describe('pickWavelengths', () => {
+  it('takes c/f with the phase velocity: the pick\'s own, or the model\'s for a group pick', () => {
+    const c = 300;
+    const f = loveBranchOmega(model, c, 0) / (2 * Math.PI); // closed form: mode 0 has phase velocity c at f
+    const w = pickWavelengths(
+      [
+        { frequency: 10, velocity: 250, kind: 'phase', mode: 0 },
+        { frequency: f, velocity: 170, kind: 'group', mode: 0 },
+      ],
+      model,
+    );
+    expect(w[0]).toBe(25);
+    expect(Math.abs(w[1] - c / f)).toBeLessThanOrEqual(1e-9 * (c / f));
+  });
+
+  it('falls back to the picked velocity without a model or below the mode\'s cutoff', () => {
+    const w0 = pickWavelengths([{ frequency: 10, velocity: 200, kind: 'group', mode: 0 }]);
+    expect(w0[0]).toBe(20);
+    const w1 = pickWavelengths([{ frequency: 1, velocity: 400, kind: 'group', mode: 3 }], model); // far below mode 3's cutoff
+    expect(w1[0]).toBe(400);
   });
 });
