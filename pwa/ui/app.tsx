@@ -6,16 +6,36 @@
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { LayeredModel } from '../../core/model';
 import type { Controller } from './controller';
-import { EstimateView } from './estimate-view';
-import { FiguresView } from './figures-view';
 import { ImportPanel, PicksTable } from './picks-table';
 import { PlotPanel } from './plot';
 import { SiteDetails } from './site-details';
 import { SitesView } from './sites-view';
 import type { AppState, ViewName } from './state';
-import { SurveyView } from './survey-view';
 import { SyncPanel } from './SyncPanel';
-import { WhatIfView } from './whatif-view';
+
+type WorkViews = typeof import('./work-views');
+let workViews: Promise<WorkViews> | undefined;
+/** Loads the later site views once (they are a chunk of their own). */
+function loadWorkViews(): Promise<WorkViews> {
+  workViews ??= import('./work-views');
+  return workViews;
+}
+
+/** The later site views, once loaded; undefined until then (or with the load error). */
+function useWorkViews(): { views?: WorkViews; error?: string } {
+  const [state, setState] = useState<{ views?: WorkViews; error?: string }>({});
+  useEffect(() => {
+    let live = true;
+    loadWorkViews().then(
+      (views) => live && setState({ views }),
+      (e) => live && setState({ error: `This view could not load: ${e instanceof Error ? e.message : String(e)}` }),
+    );
+    return () => {
+      live = false;
+    };
+  }, []);
+  return state;
+}
 
 /** The state of a controller, re-rendered on every change. */
 function useAppState(c: Controller): AppState {
@@ -145,6 +165,17 @@ function fittedModel(s: AppState): LayeredModel | undefined {
 function SiteWork({ s, c }: { s: AppState; c: Controller }) {
   const site = s.sites.find((x) => x.id === s.openSiteId)!;
   const fitted = useMemo(() => fittedModel(s), [s.estimate.result]);
+  const { views, error: viewsError } = useWorkViews();
+  const waiting =
+    viewsError ? (
+      <p class="error" role="alert">
+        {viewsError}
+      </p>
+    ) : (
+      <p class="status" role="status">
+        Loading the view…
+      </p>
+    );
   const estimateCaption =
     s.estimate.status === 'running'
       ? 'Best-fit curves: computing…'
@@ -209,8 +240,10 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
             onSettings={(p) => c.setPlot(p)}
           />
         </div>
-      ) : s.view === 'estimate' ? (
-        <EstimateView
+      ) : s.view !== 'details' && !views ? (
+        waiting
+      ) : s.view === 'estimate' && views ? (
+        <views.EstimateView
           site={site}
           drafts={s.siteDraft}
           error={s.siteError}
@@ -222,10 +255,10 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
           onKnown={(w, known, sug) => void c.setKnown(w, known, sug)}
           onRun={() => void c.estimateNow()}
         />
-      ) : s.view === 'figures' ? (
-        <FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />
-      ) : s.view === 'whatif' ? (
-        <WhatIfView
+      ) : s.view === 'figures' && views ? (
+        <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />
+      ) : s.view === 'whatif' && views ? (
+        <views.WhatIfView
           model={s.whatif}
           result={s.estimate.result}
           picks={s.picks}
@@ -236,8 +269,8 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
           onSelect={(id) => c.selectPick(id)}
           onPlot={(p) => c.setPlot(p)}
         />
-      ) : s.view === 'survey' ? (
-        <SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.setSurveyDepth(t)} />
+      ) : s.view === 'survey' && views ? (
+        <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.setSurveyDepth(t)} />
       ) : (
         <SiteDetails
           site={site}

@@ -1,0 +1,10 @@
+/**
+ * The site views that are not the first screen (estimate, site figures,
+ * what-if, survey plan), in one chunk loaded when a site opens, so that the
+ * first screen's JavaScript stays small. The service worker precaches it
+ * with the rest of the build, so it loads offline too.
+ */
+export { EstimateView } from './estimate-view';
+export { FiguresView } from './figures-view';
+export { SurveyView } from './survey-view';
+export { WhatIfView } from './whatif-view';
