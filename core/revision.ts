@@ -34,18 +34,29 @@ const BOOKKEEPING = new Set(['history', 'conflicts']);
 /**
  * Canonical JSON: object keys sorted by UTF-16 code unit, `undefined`
  * members left out, arrays kept in order. Equal data gives equal text.
+ * `skipTopLevel` leaves those members of the outermost object out.
  */
-export function canonicalJson(value: unknown): string {
+export function canonicalJson(value: unknown, skipTopLevel?: ReadonlySet<string>): string {
   if (value === null || typeof value !== 'object') {
     const text = JSON.stringify(value);
     return text === undefined ? 'null' : text;
   }
-  if (Array.isArray(value)) return `[${value.map((v) => (v === undefined ? 'null' : canonicalJson(v))).join(',')}]`;
+  if (Array.isArray(value)) {
+    let out = '[';
+    for (let i = 0; i < value.length; i++) out += (i > 0 ? ',' : '') + (value[i] === undefined ? 'null' : canonicalJson(value[i]));
+    return out + ']';
+  }
   const obj = value as Record<string, unknown>;
-  const keys = Object.keys(obj)
-    .filter((k) => obj[k] !== undefined)
-    .sort();
-  return `{${keys.map((k) => `${JSON.stringify(k)}:${canonicalJson(obj[k])}`).join(',')}}`;
+  const keys = Object.keys(obj).sort();
+  let out = '{';
+  let first = true;
+  for (const k of keys) {
+    const v = obj[k];
+    if (v === undefined || skipTopLevel?.has(k)) continue;
+    out += (first ? '' : ',') + JSON.stringify(k) + ':' + canonicalJson(v);
+    first = false;
+  }
+  return out + '}';
 }
 
 /**
@@ -105,9 +116,7 @@ export interface Revisioned {
 
 /** Content hash of a record: FNV-1a 64 of its canonical JSON without `history` and `conflicts`. */
 export function contentHash<T extends Revisioned>(record: T): string {
-  const content: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(record)) if (!BOOKKEEPING.has(k)) content[k] = v;
-  return fnv1a64(canonicalJson(content));
+  return fnv1a64(canonicalJson(record, BOOKKEEPING));
 }
 
 /** The revision key `"<rev>-<hash>"` that names this exact version of a record. */

@@ -103,8 +103,8 @@ function shownFirst(a: Candidate, b: Candidate): number {
   return a.key < b.key ? 1 : a.key > b.key ? -1 : 0;
 }
 
-function candidatesOf(record: AnyRecord, from: string | undefined): Candidate[] {
-  const out: Candidate[] = [{ key: revisionKey(record), record: withoutConflicts(record), from }];
+function candidatesOf(record: AnyRecord, key: string, from: string | undefined): Candidate[] {
+  const out: Candidate[] = [{ key, record: withoutConflicts(record), from }];
   for (const c of record.conflicts ?? []) out.push({ key: c.key, record: c.record, from: c.from });
   return out;
 }
@@ -121,6 +121,10 @@ function sameKeys(a: readonly string[], b: readonly string[]): boolean {
  * one record (different id or type).
  */
 export function mergeRecord<T extends AnyRecord>(stored: T | undefined, incoming: T, options: MergeOptions = {}): MergeResult<T> {
+  return mergeKeyed(stored, incoming, revisionKey(incoming), options);
+}
+
+function mergeKeyed<T extends AnyRecord>(stored: T | undefined, incoming: T, incomingKey: string, options: MergeOptions): MergeResult<T> {
   if (stored === undefined) {
     return { action: 'accept', reason: 'new record', record: incoming, changed: true };
   }
@@ -135,9 +139,8 @@ export function mergeRecord<T extends AnyRecord>(stored: T | undefined, incoming
   }
 
   const storedKey = revisionKey(stored);
-  const incomingKey = revisionKey(incoming);
-  const storedCandidates = candidatesOf(stored, options.sourceOf?.(storedKey, stored.id));
-  const incomingCandidates = candidatesOf(incoming, options.from).filter((c) => !(c.key === incomingKey && options.seen?.(c.key, incoming.id) && c.key !== storedKey));
+  const storedCandidates = candidatesOf(stored, storedKey, options.sourceOf?.(storedKey, stored.id));
+  const incomingCandidates = candidatesOf(incoming, incomingKey, options.from).filter((c) => !(c.key === incomingKey && options.seen?.(c.key, incoming.id) && c.key !== storedKey));
 
   // Every version involved, once each (the stored copy wins a tie; a known `from` fills an unknown one).
   const all = new Map<string, Candidate>();
@@ -223,9 +226,10 @@ export function planMerge(
   let conflicts = 0;
   incoming.forEach((rec, i) => {
     const current = overlay.has(rec.id) ? overlay.get(rec.id) : lookup(rec.id);
+    const key = revisionKey(rec);
     let result: MergeResult<AnyRecord>;
     try {
-      result = mergeRecord(current, rec, options);
+      result = mergeKeyed(current, rec, key, options);
     } catch (e) {
       if (e instanceof InputError) throw new InputError(`records[${i}].${e.field}`, `Record ${i + 1}: ${e.message}`);
       throw e;
@@ -234,7 +238,7 @@ export function planMerge(
     if (result.action === 'accept') accepted++;
     else if (result.action === 'ignore') ignored++;
     else conflicts++;
-    outcomes.push({ id: rec.id, type: rec.type, key: revisionKey(rec), action: result.action, reason: result.reason });
+    outcomes.push({ id: rec.id, type: rec.type, key, action: result.action, reason: result.reason });
   });
   return { writes: [...overlay.values()], outcomes, accepted, ignored, conflicts };
 }

@@ -219,12 +219,14 @@ export class OfficeStore {
     return (this.db.prepare('SELECT COALESCE(MAX(seq), 0) AS c FROM records').get() as { c: number }).c;
   }
 
-  /**
-   * Merges a batch of checked records with the core rules and writes the
-   * outcome in one transaction. `source` names where it came from (a device
-   * name or a bundle) for kept conflicts and the review trail.
-   */
-  applyBatch(records: readonly AnyRecord[], meta: { batchId: string; source: string; deviceId?: number }, now = new Date()): BatchResult {
+  private cached?: ReturnType<OfficeStore['prepareStatements']>;
+
+  private statements(): ReturnType<OfficeStore['prepareStatements']> {
+    this.cached ??= this.prepareStatements();
+    return this.cached;
+  }
+
+  private prepareStatements() {
     const getBody = this.db.prepare('SELECT body FROM records WHERE id = ?');
     const seen = this.db.prepare('SELECT 1 FROM versions WHERE record_id = ? AND rev_key = ?');
     const sourceOf = this.db.prepare('SELECT source FROM versions WHERE record_id = ? AND rev_key = ?');
@@ -243,6 +245,16 @@ export class OfficeStore {
        VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
     );
     const batchKnown = this.db.prepare('SELECT 1 FROM batches WHERE batch_id = ?');
+    return { getBody, seen, sourceOf, upsert, keepVersion, logBatch, batchKnown };
+  }
+
+  /**
+   * Merges a batch of checked records with the core rules and writes the
+   * outcome in one transaction. `source` names where it came from (a device
+   * name or a bundle) for kept conflicts and the review trail.
+   */
+  applyBatch(records: readonly AnyRecord[], meta: { batchId: string; source: string; deviceId?: number }, now = new Date()): BatchResult {
+    const { getBody, seen, sourceOf, upsert, keepVersion, logBatch, batchKnown } = this.statements();
     const at = now.toISOString();
 
     return this.db.transaction((): BatchResult => {
