@@ -106,9 +106,10 @@ function carry(d: number, bj: number, u: number, rho: number, k: number, c: numb
     const g = (k * Math.sqrt((bj - c) * (bj + c))) / bj;
     const x = g * d;
     const y = 2 * x;
-    const e = Math.exp(-y); // scale² for this layer
-    const ch = 0.5 * (1 + e); // cosh x · e^(−x)
-    const sh = -0.5 * Math.expm1(-y); // sinh x · e^(−x)
+    const em = Math.expm1(-y);
+    const e = 1 + em; // scale² for this layer, e^(−2x)
+    const ch = 1 + 0.5 * em; // cosh x · e^(−x)
+    const sh = -0.5 * em; // sinh x · e^(−x)
     // A²d(½ + sinh y/(2y))·e^(−y)
     const first = y === 0 ? d : d * (0.5 * e - (0.25 * Math.expm1(-2 * y)) / y);
     const shx = x === 0 ? 1 : sh / x; // (sinh x / x)·e^(−x)

@@ -184,10 +184,9 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
       }
     } else {
       const g = (k * Math.sqrt((b - c) * (b + c))) / b;
-      const x = g * d;
-      const e2 = Math.exp(-2 * x);
-      const ch = 0.5 * (1 + e2);
-      const sh = -0.5 * Math.expm1(-2 * x);
+      const em = Math.expm1(-2 * g * d); // e^(−2γd) − 1, exact for small γd
+      const ch = 1 + 0.5 * em; // cosh γd · e^(−γd)
+      const sh = -0.5 * em; // sinh γd · e^(−γd)
       l1 = ch * l + (g === 0 ? d / u : sh / (u * g)) * t;
       t1 = ch * t + u * g * sh * l;
       // At most one node in an evanescent layer.
@@ -278,6 +277,7 @@ export class LoveStackSolver {
   private omega = 0;
   private out: Float64Array = new Float64Array(0);
   private wanted = 0;
+  private lastF = 0;
   private readonly f = (c: number): number => {
     this.outcome.evaluations++;
     return propagate(this.stack, this.omega, c, false);
@@ -306,25 +306,31 @@ export class LoveStackSolver {
     const a = s.vsMin;
     const b = s.vsH;
     const na = this.count(a);
+    const fa = this.lastF;
     const nb = this.count(b);
+    const fb = this.lastF;
     o.present = nb - na;
     this.wanted = Math.min(modes, nb - na);
     if (this.wanted <= 0) return 0;
-    this.isolate(a, na, b, nb, na);
+    this.isolate(a, na, fa, b, nb, fb, na);
     return this.wanted;
   }
 
+  /** Sturm count N(c); leaves F(c) in lastF for the bracket. */
   private count(c: number): number {
     this.outcome.evaluations++;
-    return loveModesBelow(this.stack, this.omega, c);
+    const f = propagate(this.stack, this.omega, c, true);
+    const m = scratch.nodes;
+    this.lastF = f;
+    return m + ((m & 1 ? -f : f) < 0 ? 1 : 0);
   }
 
-  /** Recursively isolates the roots numbered base… in (a, b]; na, nb are N(a), N(b). */
-  private isolate(a: number, na: number, b: number, nb: number, base: number): void {
+  /** Recursively isolates the roots numbered base… in (a, b]; na, nb are N(a), N(b), fa, fb are F there. */
+  private isolate(a: number, na: number, fa: number, b: number, nb: number, fb: number, base: number): void {
     const first = na - base;
     if (nb <= na || first >= this.wanted) return;
     if (nb - na === 1) {
-      this.refine(a, b, first);
+      this.refine(a, fa, b, fb, first);
       return;
     }
     const mid = 0.5 * (a + b);
@@ -335,13 +341,12 @@ export class LoveStackSolver {
       return;
     }
     const nm = this.count(mid);
-    this.isolate(a, na, mid, nm, base);
-    this.isolate(mid, nm, b, nb, base);
+    const fm = this.lastF;
+    this.isolate(a, na, fa, mid, nm, fm, base);
+    this.isolate(mid, nm, fm, b, nb, fb, base);
   }
 
-  private refine(a: number, b: number, index: number): void {
-    const fa = this.f(a);
-    const fb = this.f(b);
+  private refine(a: number, fa: number, b: number, fb: number, index: number): void {
     const r = brent(this.f, a, b, fa, fb);
     const o = this.outcome;
     if (r.status === 'converged') {
