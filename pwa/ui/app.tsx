@@ -121,14 +121,19 @@ export function App({ controller: c }: AppProps) {
       </div>
 
       <main id="main">
-        {!s.ready ? (
-          <p class="status" role="status">
-            Opening the on-device store…
-          </p>
-        ) : s.fatal ? (
-          <p class="error" role="alert">
-            {s.fatal}
-          </p>
+        {!s.ready || s.fatal ? (
+          <>
+            <h1 class="page-title">Field sites</h1>
+            {s.fatal ? (
+              <p class="error" role="alert">
+                {s.fatal}
+              </p>
+            ) : (
+              <p class="status" role="status">
+                Opening the on-device store…
+              </p>
+            )}
+          </>
         ) : site ? (
           <SiteWork s={s} c={c} />
         ) : (
@@ -225,6 +230,7 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
               onText={(t) => c.setImportText(t)}
               onReplace={(r) => c.setImportReplace(r)}
               onImport={(t, src) => void c.importCsv(t, src)}
+              onFile={(f) => void c.importFile(f)}
             />
           </div>
           <PlotPanel

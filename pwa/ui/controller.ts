@@ -679,6 +679,20 @@ export class Controller {
     this.set({ importState: { ...this.state.importState, replace } });
   }
 
+  /** Reads a chosen CSV file and imports it (all or nothing). */
+  async importFile(file: File): Promise<void> {
+    let text: string;
+    try {
+      text = await file.text();
+    } catch (e) {
+      this.set({
+        importState: { ...this.state.importState, info: undefined, error: `The file ${file.name} could not be read: ${messageOf(e)}` },
+      });
+      return;
+    }
+    await this.importCsv(text, `the file ${file.name}`);
+  }
+
   /**
    * Imports picks from CSV text through the core parser. All or nothing: a
    * bad row names itself and nothing is written; a good file is written in

@@ -245,18 +245,17 @@ export interface ImportPanelProps {
   onText: (text: string) => void;
   onReplace: (replace: boolean) => void;
   onImport: (text: string, source?: string) => void;
+  onFile: (file: File) => void;
 }
 
 /** Paste or pick a CSV file; the core parser checks every row before anything is written. */
 export function ImportPanel(props: ImportPanelProps) {
   const s = props.state;
-  const onFile = async (e: Event) => {
+  const onFile = (e: Event) => {
     const input = e.currentTarget as HTMLInputElement;
     const file = input.files?.[0];
-    if (!file) return;
-    const text = await file.text();
     input.value = '';
-    props.onImport(text, `the file ${file.name}`);
+    if (file) props.onFile(file);
   };
   return (
     <section class="panel" aria-labelledby="import-h">

@@ -199,6 +199,17 @@ describe('the field app in Chromium', () => {
     expect(await pickCount()).toBe(before);
     const after = await Promise.all(Array.from({ length: before }, (_, i) => cellValue(i + 1, 'velocity (m/s)')));
     expect(after).toEqual(velocities);
+    // the same through the file picker: a file whose header is not a header
+    await page.locator('input[type="file"]').setInputFiles({
+      name: 'bad-picks.csv',
+      mimeType: 'text/csv',
+      buffer: Buffer.from('12,190\n14,200\n'),
+    });
+    await expect.poll(() => error.textContent(), { timeout: 10_000 }).toContain('Nothing was imported from the file bad-picks.csv.');
+    expect(await error.textContent()).toContain(
+      'Line 1: the first row must be a header naming the columns (e.g. frequency_hz,velocity_m_s), but it holds numbers.',
+    );
+    expect(await pickCount()).toBe(before);
     // still nothing after a reload: the store was not touched
     await reload(page);
     await openSite(SITE);
