@@ -117,9 +117,22 @@ export function SyncPanel({ onRecordsChanged }: SyncPanelProps) {
     setBusy(true);
     setFormError('');
     try {
-      const device = await client.configure(url, token);
+      let reached = true;
+      let device = '';
+      try {
+        device = await client.configure(url, token);
+      } catch (err) {
+        // No network here (a field setup): keep the settings, sync tries again when it can.
+        if (!(err instanceof SyncError) || !err.retry) throw err;
+        await client.configure(url, token, false);
+        reached = false;
+      }
       setEditing(false);
       setToken('');
+      if (!reached) {
+        setMessage({ tone: 'ok', text: 'Saved. The office cannot be reached just now; sync will try again when it can.' });
+        return;
+      }
       setMessage({ tone: 'ok', text: `Connected to the office as “${device}”. Syncing now.` });
       const report = await client.syncNow();
       setMessage({ tone: report.ok ? 'ok' : 'error', text: report.message });

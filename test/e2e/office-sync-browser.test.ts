@@ -1,0 +1,264 @@
+/**
+ * Office sync in real Chromium (issue 5 §4 items 1, 3 and 6 with the real
+ * app): the office server process serves the built app and the sync API on
+ * a free port of 127.0.0.1 with a real SQLite file; tablets are separate
+ * Chromium profiles that install the app from the office.
+ *
+ *  1. Tablet A installs the app and saves the office settings, then works
+ *     OFFLINE with the office down: creates a site and types picks; a reload
+ *     keeps them queued. The office starts again, connectivity returns, the
+ *     tablet syncs by itself: the rows are in SQLite and in the CSV export.
+ *  3. Tablets A and B edit the site's notes from the same revision: both
+ *     versions are kept, the office flags the conflict, and both tablets
+ *     show it.
+ *  6. A bundle exported on tablet A (a download) imports into a fresh
+ *     tablet and into a fresh office store as identical records; a truncated
+ *     or hostile bundle changes nothing and the tablet says why.
+ *
+ * Items 2, 4, 5 and 7 are protocol-level and run without a browser
+ * (office-sync.test.ts, importer-fuzz.test.ts).
+ */
+import { readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { parsePicksCsv } from '../../core/picks';
+import type { AnyRecord } from '../../core/records';
+import { canonicalJson } from '../../core/revision';
+import { launchBrowser, reload, setOffline, VIEWPORTS, waitForServiceWorkerControl, type BrowserSession } from './harness';
+import { addDevice, cli, query, REPO_ROOT, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
+
+const DIST = process.env.SHEARFIELD_E2E_DIST ?? join(REPO_ROOT, 'dist');
+const SITE = 'Office sync terrace (invented)';
+const PICKS = [
+  { f: 5, v: 262.4 },
+  { f: 8, v: 228.1 },
+  { f: 12, v: 214.9 },
+];
+
+let data: string;
+let office: OfficeProcess;
+let port: number;
+let tokenA: string;
+let tokenB: string;
+const browsers: BrowserSession[] = [];
+const pageErrors: string[] = [];
+
+async function tabletPage(): Promise<Page> {
+  const b = await launchBrowser(VIEWPORTS.tabletLandscape);
+  browsers.push(b);
+  const page = b.context.pages()[0] ?? (await b.context.newPage());
+  page.on('pageerror', (e) => pageErrors.push(e.message));
+  await page.goto(office.url, { waitUntil: 'load' });
+  await page.getByRole('heading', { name: 'Field sites' }).waitFor();
+  await waitForServiceWorkerControl(page);
+  return page;
+}
+
+async function configure(page: Page, token: string): Promise<void> {
+  await page.getByLabel('Office server address').fill(office.url);
+  await page.getByLabel('Device token (from “shearfield device add”)').fill(token);
+  await page.getByRole('button', { name: 'Save and connect' }).click();
+}
+
+async function waitText(page: Page, testId: string, want: string | RegExp, timeout = 20_000): Promise<void> {
+  await page.waitForFunction(
+    ([id, src, flags]) => {
+      const t = document.querySelector(`[data-testid="${id}"]`)?.textContent ?? '';
+      return flags === null ? t === src : new RegExp(src, flags).test(t);
+    },
+    [testId, typeof want === 'string' ? want : want.source, typeof want === 'string' ? null : want.flags] as const,
+    { timeout },
+  );
+}
+
+/** Every record in the tablet's IndexedDB, read with the raw IndexedDB API. */
+async function tabletRecords(page: Page): Promise<AnyRecord[]> {
+  return page.evaluate(async () => {
+    const db = await new Promise<IDBDatabase>((ok, fail) => {
+      const r = indexedDB.open('shearfield');
+      r.onsuccess = () => ok(r.result);
+      r.onerror = () => fail(r.error);
+    });
+    const out: unknown[] = [];
+    for (const name of ['sites', 'picks', 'estimates']) {
+      out.push(
+        ...(await new Promise<unknown[]>((ok, fail) => {
+          const q = db.transaction(name).objectStore(name).getAll();
+          q.onsuccess = () => ok(q.result);
+          q.onerror = () => fail(q.error);
+        })),
+      );
+    }
+    db.close();
+    return out as AnyRecord[];
+  });
+}
+
+function byId(records: AnyRecord[]): Map<string, string> {
+  return new Map(records.map((r) => [r.id, canonicalJson(r)]));
+}
+
+async function allSites(page: Page): Promise<void> {
+  const back = page.getByRole('button', { name: '← All sites' });
+  if (await back.count()) await back.click();
+  await page.getByRole('heading', { name: 'Field sites' }).waitFor();
+}
+
+beforeAll(async () => {
+  data = tempDataDir();
+  tokenA = await addDevice(data, 'tablet-a');
+  tokenB = await addDevice(data, 'tablet-b');
+  office = await startOffice(data, 0, DIST);
+  port = office.port;
+});
+
+afterAll(async () => {
+  for (const b of browsers) await b.close();
+  await office?.kill();
+});
+
+describe('office sync in Chromium', () => {
+  let a: Page;
+  let b: Page;
+
+  it('1. a tablet works offline with the office down, then syncs by itself when both are back: rows in SQLite and in the CSV export', async () => {
+    a = await tabletPage();
+    await configure(a, tokenA);
+    await waitText(a, 'sync-message', /Synced: 0 sent, 0 received/);
+
+    await setOffline(a.context(), true);
+    await office.kill();
+    await a.getByLabel('Site name').fill(SITE);
+    await a.getByRole('button', { name: 'Create site' }).click();
+    await a.getByRole('heading', { name: SITE }).waitFor();
+    await a.getByRole('button', { name: 'Picks & plot' }).click();
+    for (const p of PICKS) {
+      await a.getByLabel('New pick, frequency (Hz)').fill(String(p.f));
+      await a.getByLabel('New pick, velocity (m/s)').fill(String(p.v));
+      await a.getByLabel('New pick, velocity (m/s)').press('Enter');
+    }
+    await a.getByRole('heading', { name: `Picks (${PICKS.length})`, exact: true }).waitFor();
+    await allSites(a);
+    await waitText(a, 'sync-pending', String(1 + PICKS.length));
+
+    // Offline reload: served by the service worker, and the queue is intact.
+    const res = await reload(a);
+    expect(res.fromServiceWorker()).toBe(true);
+    await waitText(a, 'sync-pending', String(1 + PICKS.length));
+    await a.getByRole('button', { name: 'Sync now' }).click();
+    await waitText(a, 'sync-message', /could not be reached/);
+    await waitText(a, 'sync-last-error', /could not be reached/);
+
+    // The office starts; connectivity returns; the tablet syncs without being asked.
+    office = await startOffice(data, port, DIST);
+    await setOffline(a.context(), false);
+    await waitText(a, 'sync-pending', '0', 30_000);
+    await a.waitForFunction(() => document.querySelector('[data-testid="sync-last-error"]') === null);
+
+    const sites = query<{ id: string; body: string }>(data, "SELECT id, body FROM records WHERE type = 'site'");
+    expect(sites.map((s) => JSON.parse(s.body).name)).toEqual([SITE]);
+    const picks = query<{ body: string }>(data, "SELECT body FROM records WHERE type = 'pick' ORDER BY json_extract(body, '$.order')");
+    expect(picks.map((p) => JSON.parse(p.body).velocity)).toEqual(PICKS.map((p) => p.v));
+    const local = byId(await tabletRecords(a));
+    for (const r of query<{ id: string; body: string }>(data, 'SELECT id, body FROM records')) expect(canonicalJson(JSON.parse(r.body))).toBe(local.get(r.id));
+
+    const out = join(data, 'export-1');
+    expect((await cli(['sites-export', out, '--data', data, '--no-estimate'])).code).toBe(0);
+    expect(readFileSync(join(out, 'sites.csv'), 'utf8')).toContain(`,${SITE},`);
+    const csv = readFileSync(join(out, 'picks', `${sites[0].id}.csv`), 'utf8');
+    expect(parsePicksCsv(csv).picks.map((p) => [p.frequency, p.velocity])).toEqual(PICKS.map((p) => [p.f, p.v]));
+  }, 120_000);
+
+  it('3. two tablets edit the site from the same revision: both versions kept, flagged in the office, shown on both tablets', async () => {
+    b = await tabletPage();
+    await configure(b, tokenB);
+    await waitText(b, 'sync-message', /Synced: 0 sent, 4 received/);
+    // The app re-reads its list on a reload.
+    await b.reload({ waitUntil: 'load' });
+
+    for (const [page, notes] of [
+      [a, 'Tablet A: water table at 2 m (invented)'],
+      [b, 'Tablet B: <b>dry</b> to 4 m (invented)'],
+    ] as const) {
+      await page.getByRole('button', { name: new RegExp(`^${SITE.replace(/[()]/g, '\\$&')}`) }).click();
+      await page.getByRole('button', { name: 'Site details' }).click();
+      await page.getByLabel('Notes (kept as plain text)').fill(notes);
+      await page.getByLabel('Crew').click();
+      await page.waitForTimeout(300);
+      await allSites(page);
+      await waitText(page, 'sync-pending', '1');
+    }
+    for (const page of [a, b, a]) {
+      await page.getByRole('button', { name: 'Sync now' }).click();
+      await waitText(page, 'sync-message', /^Synced:/);
+    }
+    for (const page of [a, b]) {
+      await waitText(page, 'sync-conflicts', '1');
+      const item = page.getByTestId('sync-conflict');
+      await item.waitFor();
+      const text = (await item.textContent()) ?? '';
+      expect(text).toContain('Tablet A: water table at 2 m (invented)');
+      expect(text).toContain('Tablet B: <b>dry</b> to 4 m (invented)');
+      expect(await item.locator('b').count()).toBe(0);
+    }
+    const [row] = query<{ conflicts: number }>(data, "SELECT conflicts FROM records WHERE type = 'site'");
+    expect(row.conflicts).toBe(1);
+    const listed = await cli(['conflicts', '--data', data]);
+    expect(listed.out).toContain(`site "${SITE}"`);
+    expect(listed.out).toMatch(/from tablet-(a|b); differs in notes/);
+
+    // Tablet A keeps the shown version; after syncs everyone agrees and nothing is flagged.
+    await a.getByRole('button', { name: 'Keep the shown version' }).click();
+    await waitText(a, 'sync-conflicts', '0');
+    for (const page of [a, b]) {
+      await page.getByRole('button', { name: 'Sync now' }).click();
+      await waitText(page, 'sync-message', /^Synced:/);
+      await waitText(page, 'sync-conflicts', '0');
+    }
+    expect(query(data, 'SELECT COUNT(*) AS n FROM records WHERE conflicts > 0')).toEqual([{ n: 0 }]);
+  }, 120_000);
+
+  it('6. a bundle exported on a tablet imports into a fresh tablet and a fresh office store as identical records; bad bundles change nothing', async () => {
+    await allSites(a);
+    const [download] = await Promise.all([a.waitForEvent('download'), a.getByRole('button', { name: 'Export all sites as a bundle file' }).click()]);
+    const name = download.suggestedFilename();
+    expect(name).toMatch(/^shearfield-office-sync-terrace-invented-\d{4}-\d{2}-\d{2}\.json$/);
+    const text = readFileSync((await download.path())!, 'utf8');
+    const sourceRecords = await tabletRecords(a);
+
+    const c = await tabletPage();
+    const input = c.getByLabel('Import a bundle file');
+    await input.setInputFiles({ name, mimeType: 'application/json', buffer: Buffer.from(text) });
+    await waitText(c, 'sync-message', `${name}: Read 1 site, 3 picks and 0 estimates: 4 new or newer, 0 already here or older.`);
+    expect(byId(await tabletRecords(c))).toEqual(byId(sourceRecords));
+
+    const officeData = tempDataDir();
+    const file = join(officeData, name);
+    writeFileSync(file, text);
+    expect((await cli(['bundle-import', file, '--data', officeData])).code).toBe(0);
+    expect(byId(query<{ body: string }>(officeData, 'SELECT body FROM records').map((r) => JSON.parse(r.body)))).toEqual(byId(sourceRecords));
+
+    const hostile = JSON.parse(text);
+    hostile.sites[0].notes = '<img src=x onerror="document.title=\'pwned\'">';
+    hostile.picks[0].mode = '<script>1</script>';
+    const cases: [string, string][] = [
+      ['cut.json', text.slice(0, 400)],
+      ['hostile.json', JSON.stringify(hostile)],
+      ['future.json', JSON.stringify({ ...JSON.parse(text), version: 3 })],
+    ];
+    const expected = [
+      'cut.json: Nothing was imported. The bundle file ends too early: it looks cut short (truncated). Export it again and copy the whole file.',
+      'hostile.json: Nothing was imported. The bundle is not valid: picks[0].mode must be a whole number.',
+      'future.json: Nothing was imported. The bundle uses format version 3, newer than version 1 that this copy of Shearfield reads; update Shearfield to import it.',
+    ];
+    const before = canonicalJson(await tabletRecords(c));
+    for (const [i, [fileName, body]] of cases.entries()) {
+      await input.setInputFiles({ name: fileName, mimeType: 'application/json', buffer: Buffer.from(body) });
+      await waitText(c, 'sync-message', expected[i]);
+    }
+    expect(canonicalJson(await tabletRecords(c))).toBe(before);
+    expect(await c.title()).not.toBe('pwned');
+    expect(pageErrors).toEqual([]);
+  }, 120_000);
+});
