@@ -150,7 +150,7 @@ export function App({ controller: c }: AppProps) {
               onOpen={(id) => c.openSite(id)}
               onDemo={() => void c.loadDemo()}
             />
-            <SyncPanel />
+            <SyncPanel onRecordsChanged={() => void c.reloadFromStore()} />
           </>
         )}
       </main>

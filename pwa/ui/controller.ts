@@ -165,6 +165,18 @@ export class Controller {
     }
   }
 
+  /**
+   * Re-reads the site list (and the open site's picks) after records arrived
+   * from outside the controller: an office sync or a bundle import
+   * (pwa/ui/SyncPanel.tsx).
+   */
+  async reloadFromStore(): Promise<void> {
+    if (!this.store) return;
+    const sites = await this.store.listSites();
+    this.set({ sites });
+    await this.reloadPicks();
+  }
+
   notify(tone: 'error' | 'info', text: string): void {
     const id = ++this.noticeSeq;
     this.set({ notices: [...this.state.notices, { id, tone, text }].slice(-4) });

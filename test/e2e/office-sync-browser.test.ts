@@ -174,8 +174,8 @@ describe('office sync in Chromium', () => {
     b = await tabletPage();
     await configure(b, tokenB);
     await waitText(b, 'sync-message', /Synced: 0 sent, 4 received/);
-    // The app re-reads its list on a reload.
-    await b.reload({ waitUntil: 'load' });
+    // The pulled site shows in the list at once.
+    await b.getByRole('button', { name: new RegExp(`^${SITE.replace(/[()]/g, '\\$&')}`) }).waitFor();
 
     for (const [page, notes] of [
       [a, 'Tablet A: water table at 2 m (invented)'],
