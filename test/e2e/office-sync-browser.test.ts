@@ -61,7 +61,7 @@ async function configure(page: Page, token: string): Promise<void> {
   await page.getByRole('button', { name: 'Save and connect' }).click();
 }
 
-async function waitText(page: Page, testId: string, want: string | RegExp, timeout = 20_000): Promise<void> {
+async function waitText(page: Page, testId: string, want: string | RegExp, timeout = 30_000): Promise<void> {
   await page.waitForFunction(
     ([id, src, flags]) => {
       const t = document.querySelector(`[data-testid="${id}"]`)?.textContent ?? '';
