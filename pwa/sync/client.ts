@@ -103,6 +103,9 @@ export class SyncError extends Error {
 export function normaliseServerUrl(text: string): string {
   const t = text.trim();
   if (t === '') throw new SyncError('Enter the office server address, e.g. http://192.168.1.20:8750.', false);
+  if (/^[a-z][a-z0-9+.-]*:\/\//i.test(t) && !/^https?:\/\//i.test(t)) {
+    throw new SyncError('The office address must start with http:// or https://.', false);
+  }
   let url: URL;
   try {
     url = new URL(/^https?:\/\//i.test(t) ? t : `http://${t}`);

@@ -93,7 +93,15 @@ export function SyncPanel({ onRecordsChanged }: SyncPanelProps) {
             void reloadConflicts(p.store);
           }
         });
-        void p.client.refresh();
+        void p.client.refresh().then((s) => {
+          // Installed from the office server itself? Then its address is this page's origin.
+          if (s.serverUrl || typeof location === 'undefined') return;
+          fetch(`${location.origin}/api/v1/status`, { cache: 'no-store' })
+            .then((res) => {
+              if (res.status === 401 && (res.headers.get('www-authenticate') ?? '').includes('shearfield-office')) setUrl((u) => u || location.origin);
+            })
+            .catch(() => undefined);
+        });
       })
       .catch((e: unknown) => setMessage({ tone: 'error', text: `Sync is unavailable: ${(e as Error).message}` }));
     return () => unsubscribe?.();

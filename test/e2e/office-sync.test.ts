@@ -185,6 +185,16 @@ describe('office sync, one tablet', () => {
     expect(leak.status).toBe(400);
     expect(JSON.stringify(leak.json)).not.toMatch(/at .*\.ts:\d+|node_modules|Error:/);
 
+    // The app's client says the same in plain words, and keeps nothing it was not sure of.
+    const other = await tablet();
+    const c = clientFor(other);
+    await expect(c.configure(srv.url, 'Q'.repeat(43))).rejects.toThrow(
+      "The office did not accept this tablet's token (unknown or revoked). Ask the office for a new one (shearfield device add) and enter it in the sync settings.",
+    );
+    await expect(c.configure('ftp://office', token)).rejects.toThrow('The office address must start with http:// or https://.');
+    await expect(c.configure(srv.url, 'short')).rejects.toThrow('The device token is the line of letters, digits, - and _ that "shearfield device add" printed; paste it whole.');
+    expect((await c.refresh()).state).toBe('not-set-up');
+
     expect(snapshot(data)).toBe(before);
   });
 
