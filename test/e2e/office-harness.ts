@@ -6,7 +6,7 @@
  */
 import Database from 'better-sqlite3';
 import { spawn, type ChildProcess } from 'node:child_process';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve, dirname } from 'node:path';
 import { fileURLToPath } from 'node:url';
@@ -27,9 +27,18 @@ export interface OfficeProcess {
   stop(): Promise<void>;
 }
 
-/** A fresh temporary data folder. */
+const madeDirs: string[] = [];
+
+/** A fresh temporary data folder (removed by removeTempDataDirs). */
 export function tempDataDir(): string {
-  return mkdtempSync(join(tmpdir(), 'shearfield-office-'));
+  const d = mkdtempSync(join(tmpdir(), 'shearfield-office-'));
+  madeDirs.push(d);
+  return d;
+}
+
+/** Removes every folder tempDataDir made (call after the servers are stopped). */
+export function removeTempDataDirs(): void {
+  for (const d of madeDirs.splice(0)) rmSync(d, { recursive: true, force: true });
 }
 
 /** Starts `office/server.ts` on `port` (0 = a free one) with `dataDir`; resolves when it listens. */

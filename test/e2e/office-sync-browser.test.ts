@@ -26,7 +26,7 @@ import { parsePicksCsv } from '../../core/picks';
 import type { AnyRecord } from '../../core/records';
 import { canonicalJson } from '../../core/revision';
 import { launchBrowser, reload, setOffline, VIEWPORTS, waitForServiceWorkerControl, type BrowserSession } from './harness';
-import { addDevice, cli, query, REPO_ROOT, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
+import { addDevice, cli, query, removeTempDataDirs, REPO_ROOT, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
 
 const DIST = process.env.SHEARFIELD_E2E_DIST ?? join(REPO_ROOT, 'dist');
 const SITE = 'Office sync terrace (invented)';
@@ -116,6 +116,7 @@ beforeAll(async () => {
 afterAll(async () => {
   for (const b of browsers) await b.close();
   await office?.kill();
+  removeTempDataDirs();
 });
 
 describe('office sync in Chromium', () => {

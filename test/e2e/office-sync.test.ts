@@ -19,7 +19,7 @@ import { MAX_PUSH_BYTES } from '../../core/sync-protocol';
 import { newPick, newSite, openFieldStore, type FieldStore } from '../../pwa/store';
 import { exportBundle, importBundleText } from '../../pwa/sync/bundle-io';
 import { SyncClient, type SyncClientOptions } from '../../pwa/sync/client';
-import { addDevice, cli, query, snapshot, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
+import { addDevice, cli, query, removeTempDataDirs, snapshot, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
 
 const stores: FieldStore[] = [];
 const offices: OfficeProcess[] = [];
@@ -69,6 +69,7 @@ async function post(url: string, token: string, body: string): Promise<{ status:
 afterAll(async () => {
   for (const o of offices) await o.kill();
   for (const s of stores) s.close();
+  removeTempDataDirs();
 });
 
 describe('office sync, one tablet', () => {
