@@ -313,7 +313,7 @@ export function SyncPanel({ onRecordsChanged }: SyncPanelProps) {
       ) : null}
 
       {conflicted.length > 0 ? (
-        <div class="conflicts" aria-labelledby="conflicts-h">
+        <section class="conflicts" aria-labelledby="conflicts-h">
           <h3 id="conflicts-h">Edited in two places: choose the version to keep</h3>
           <ul>
             {conflicted.map((r) => (
@@ -355,7 +355,7 @@ export function SyncPanel({ onRecordsChanged }: SyncPanelProps) {
               </li>
             ))}
           </ul>
-        </div>
+        </section>
       ) : null}
 
       <div class="row-form bundles">
