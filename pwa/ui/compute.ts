@@ -6,7 +6,8 @@
 import type { EstimateResult } from '../../core/estimate';
 import type { Pick } from '../../core/picks';
 import type { EstimateSettings } from '../../core/records';
-import { computeEstimate, type WorkerEstimateOptions } from '../worker/bridge';
+import type { MisfitSlice } from '../../core/misfit-slice';
+import { computeEstimate, computeMisfitSlice, type WorkerEstimateOptions } from '../worker/bridge';
 
 /** What the estimate view shows: the core's result as it comes back from the worker. */
 export type EstimateOutcome = EstimateResult;
@@ -42,4 +43,15 @@ export function estimateOptions(settings: EstimateSettings, pickCount: number): 
 /** Runs the estimate in the worker; rejects with an AbortError when `signal` aborts. */
 export function runEstimate(picks: readonly Pick[], settings: EstimateSettings, signal: AbortSignal): Promise<EstimateOutcome> {
   return computeEstimate(picks, estimateOptions(settings, picks.length), signal);
+}
+
+/** The fine misfit slice around a result's best fit, in the worker (same picks and settings as the estimate). */
+export function runMisfitSlice(
+  picks: readonly Pick[],
+  settings: EstimateSettings,
+  result: EstimateOutcome,
+  signal: AbortSignal,
+): Promise<MisfitSlice> {
+  const centre = { thickness: result.thickness, vs1: result.vs1, vs2: result.vs2, searchRange: result.searchRange };
+  return computeMisfitSlice(picks, estimateOptions(settings, picks.length), centre, {}, signal);
 }

@@ -14,7 +14,8 @@ import { InputError } from '../../core/errors';
 import { checkPickSet, pickFromCells, type Pick, type PickCells, type PickKind, parsePicksCsv } from '../../core/picks';
 import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
 import { newPick, newSite, type FieldStore } from '../store';
-import { runEstimate, type EstimateOutcome } from './compute';
+import type { MisfitSlice } from '../../core/misfit-slice';
+import { runEstimate, runMisfitSlice, type EstimateOutcome } from './compute';
 import {
   initialState,
   NEW_ROW,
@@ -118,9 +119,19 @@ export function pickOfRecord(r: PickRecord): Pick {
 
 /** How the controller runs the estimate (the worker bridge in the app; tests may pass their own). */
 export type EstimateRunner = (picks: readonly Pick[], settings: EstimateSettings, signal: AbortSignal) => Promise<EstimateOutcome>;
+/** How the controller asks for the fine misfit picture after an estimate. */
+export type SliceRunner = (
+  picks: readonly Pick[],
+  settings: EstimateSettings,
+  result: EstimateOutcome,
+  signal: AbortSignal,
+) => Promise<MisfitSlice>;
 
 export class Controller {
-  constructor(private readonly estimate: EstimateRunner = runEstimate) {}
+  constructor(
+    private readonly estimate: EstimateRunner = runEstimate,
+    private readonly slice: SliceRunner = runMisfitSlice,
+  ) {}
 
   private state: AppState = initialState;
   private listeners = new Set<Listener>();
@@ -778,6 +789,8 @@ export class Controller {
   scheduleEstimate(): void {
     clearTimeout(this.estimateTimer);
     this.estimateAbort?.abort();
+    // The shown result no longer matches the input: say so at once.
+    if (this.state.openSiteId) this.set({ estimate: { ...this.state.estimate, status: 'running', error: undefined } });
     this.estimateTimer = setTimeout(() => void this.estimateNow(), ESTIMATE_DELAY_MS);
   }
 
@@ -794,6 +807,13 @@ export class Controller {
       const result = await this.estimate(picks, site.settings, abort.signal);
       if (abort.signal.aborted) return;
       this.set({ estimate: { status: 'done', result } });
+      // Then the close-up picture of the misfit; the same signal drops it when the input changes.
+      try {
+        const slice = await this.slice(picks, site.settings, result, abort.signal);
+        if (!abort.signal.aborted) this.set({ estimate: { ...this.state.estimate, slice } });
+      } catch {
+        // The coarse map of the result still shows; nothing to tell the crew.
+      }
     } catch (e) {
       if (abort.signal.aborted || (e as { name?: string })?.name === 'AbortError') return;
       this.set({ estimate: { status: 'error', error: messageOf(e) } });

@@ -5,6 +5,7 @@
  */
 import { CAUTION } from '../../core/caution';
 import type { EstimateResult, ParameterEstimate } from '../../core/estimate';
+import type { MisfitSlice } from '../../core/misfit-slice';
 import type { SiteRecord } from '../../core/records';
 import { settingText, SETTING_FIELDS, type SettingKey } from './controller';
 import { num } from './format';
@@ -106,10 +107,11 @@ function ParamRow(props: { name: string; unit: string; p: ParameterEstimate }) {
   );
 }
 
-export function EstimateResultView(props: { r: EstimateResult; theme: string }) {
+export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSlice; theme: string }) {
   const { r } = props;
+  const map = props.slice ?? r.misfitMap;
   const alternatives = r.alternatives.filter((a) => a.rank > 1);
-  const mapParam = r.misfitMap.yName === 'vs1_m_s' ? r.vs1 : r.vs2;
+  const mapParam = map.yName === 'vs1_m_s' ? r.vs1 : r.vs2;
   const mapSpeed = mapParam.best;
   const box: [number, number, number, number] = [r.thickness.low95, r.thickness.high95, mapParam.low95, mapParam.high95];
   return (
@@ -173,7 +175,9 @@ export function EstimateResultView(props: { r: EstimateResult; theme: string }) 
       <section aria-labelledby="map-h">
         <h3 id="map-h">Misfit map: the thickness–speed trade-off</h3>
         <MisfitMapView
-          map={r.misfitMap}
+          map={map}
+          slice={props.slice}
+          bestChi2={r.chi2}
           bestThickness={r.thickness.best}
           bestSpeed={mapSpeed}
           scale={r.intervalScale}
@@ -246,7 +250,7 @@ export function EstimateView(props: EstimateViewProps) {
             {e.error}
           </p>
         ) : null}
-        {e.result ? <EstimateResultView r={e.result} theme={props.theme} /> : <Caution />}
+        {e.result ? <EstimateResultView r={e.result} slice={e.slice} theme={props.theme} /> : <Caution />}
       </section>
     </div>
   );

@@ -1,19 +1,34 @@
 /**
- * The misfit map as a picture: χ² over layer thickness and a speed, from
- * the estimate (core/estimate.ts MisfitMap), drawn on a canvas, zoomed to
- * the valley of low misfit. The shading is log(χ²/χ²min) over the map's own
- * grid (coarse, so it shows the shape, not the intervals); the 95 %
- * intervals from the profile likelihood are drawn as a box over it. A long,
- * tilted valley is the trade-off between H and the speed.
+ * The misfit map as a picture, on a canvas: χ² over layer thickness and a
+ * speed. A long, tilted valley is the trade-off between H and the speed.
+ *
+ * - With the close-up slice (core/misfit-slice.ts, computed in the worker
+ *   after each estimate), the shading is Δχ² above the best fit: darkest
+ *   where Δχ² ≤ 2.30, medium where Δχ² ≤ 6.18 (the joint 68.3 % and 95.4 %
+ *   levels for two parameters: Press et al., *Numerical Recipes*, 3rd ed.
+ *   2007, §15.6.5), scaled like the estimate's intervals when the fit is
+ *   poor; lighter beyond. The other free speed is held at its best value.
+ * - Until then, the estimate's coarse map over the whole search box
+ *   (core/estimate.ts MisfitMap), zoomed to its valley and shaded by
+ *   log(χ²/χ²min): it shows the shape only.
+ * The 95 % intervals from the profile likelihood are drawn as a dashed box.
  */
 import { useEffect, useRef } from 'preact/hooks';
 import type { MisfitMap } from '../../core/estimate';
+import type { MisfitSlice } from '../../core/misfit-slice';
 import { num } from './format';
 
 const SPAN_TEXT = 'six';
 
+/** Δχ² of the joint 68.3 % and 95.4 % regions for two parameters (Numerical Recipes, 3rd ed. 2007, §15.6.5). */
+export const JOINT_DELTA_CHI2: readonly [number, number] = [2.3, 6.18];
+
 export interface MisfitMapProps {
   map: MisfitMap;
+  /** The close-up slice, when the worker has computed it (then `map` is the slice). */
+  slice?: MisfitSlice;
+  /** χ² of the best fit (the Δχ² levels of the slice are above it). */
+  bestChi2: number;
   bestThickness: number;
   bestSpeed: number;
   /** The estimate's interval scale (1, or χ²/dof when the fit is poor). */
@@ -32,23 +47,35 @@ export function MisfitMapView(props: MisfitMapProps) {
     const c = canvas.current;
     if (!c) return;
     draw(c, props);
-  }, [props.map, props.theme, props.bestThickness, props.bestSpeed, props.box]);
+  }, [props.map, props.slice, props.theme, props.bestThickness, props.bestSpeed, props.box]);
 
   const corr = Number.isFinite(props.correlation)
     ? ` The H–β1 correlation at the best fit is ${num(props.correlation, 2)}${Math.abs(props.correlation) > 0.8 ? ': a strong trade-off, where a thicker layer with a faster β1 fits almost as well' : ''}.`
     : '';
+  const held = props.slice?.held
+    ? ` ${props.slice.held.name === 'vs2_m_s' ? 'β2' : 'β1'} is held at its best value, ${num(props.slice.held.value)} m/s.`
+    : '';
   const label =
-    `Misfit map: thickness H in m across, ${speedName} up, both on log scales. Darker means a better fit; ` +
-    `the dashed box spans the 95 % intervals and the cross marks the best fit at H = ${num(props.bestThickness)} m, ${num(props.bestSpeed)} m/s.${corr}`;
+    `Misfit map: thickness H in m across, ${speedName} up, both on log scales. Darker means a better fit` +
+    (props.slice ? ': darkest inside the joint 68 % region, medium inside the joint 95 % region' : '') +
+    `; the dashed box spans the 95 % intervals and the cross marks the best fit at H = ${num(props.bestThickness)} m, ${num(props.bestSpeed)} m/s.${held}${corr}`;
   return (
     <figure class="misfit">
       <canvas ref={canvas} width={560} height={360} role="img" aria-label={label} />
-      <figcaption>
-        Misfit χ² over thickness H (m, across) and {speedName} (up), on the estimate's search grid, zoomed to the valley:
-        darker is a better fit, white is {SPAN_TEXT} times the least misfit on the grid or worse. A long tilted valley is the
-        trade-off. Dashed box: the 95 % intervals{props.scale > 1 ? ` (widened by χ²/dof = ${num(props.scale, 2)})` : ''};
-        cross: the best fit.{corr}
-      </figcaption>
+      {props.slice ? (
+        <figcaption>
+          Misfit χ² around the best fit, thickness H (m, across) and {speedName} (up).{held} Darkest: Δχ² ≤ 2.30, the joint
+          68 % region; medium: Δχ² ≤ 6.18, the joint 95 % region{props.scale > 1 ? ` (both × χ²/dof = ${num(props.scale, 2)})` : ''};
+          lighter beyond. A long tilted valley is the trade-off. Dashed box: the 95 % interval of each parameter on its own;
+          cross: the best fit.{corr}
+        </figcaption>
+      ) : (
+        <figcaption>
+          Misfit χ² over thickness H (m, across) and {speedName} (up), on the estimate's coarse search grid, zoomed to the
+          valley: darker is a better fit, white is {SPAN_TEXT} times the least misfit on the grid or worse (the close-up is
+          being computed). Dashed box: the 95 % intervals; cross: the best fit.{corr}
+        </figcaption>
+      )}
     </figure>
   );
 }
@@ -119,6 +146,16 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   r1 = Math.min(map.rows - 1, r1 + margin);
   k0 = Math.max(0, k0 - margin);
   k1 = Math.min(map.cols - 1, k1 + margin);
+  if (p.slice) {
+    // the close-up is already framed around the best fit
+    r0 = 0;
+    r1 = map.rows - 1;
+    k0 = 0;
+    k1 = map.cols - 1;
+  }
+  const l68 = JOINT_DELTA_CHI2[0] * p.scale;
+  const l95 = JOINT_DELTA_CHI2[1] * p.scale;
+  const mid = rgbOf(cs.getPropertyValue('--map-95').trim() || '#6fa59d');
   const nr = r1 - r0 + 1;
   const nk = k1 - k0 + 1;
   // index space → pixels (cell centres at integer indexes)
@@ -128,7 +165,18 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   for (let r = r0; r <= r1; r++) {
     for (let k = k0; k <= k1; k++) {
       const v = map.chi2[r * map.cols + k];
-      ctx.fillStyle = Number.isFinite(v) ? shade(Math.log(v / min) / logSpan, dark) : 'rgb(170,170,170)';
+      let fill: string;
+      if (!Number.isFinite(v)) fill = 'rgb(170,170,170)';
+      else if (p.slice) {
+        const d = v - p.bestChi2;
+        fill =
+          d <= l68
+            ? `rgb(${dark.join(',')})`
+            : d <= l95
+              ? `rgb(${mid.join(',')})`
+              : shade(0.35 + 0.65 * Math.min(1, Math.log10(1 + (d - l95) / l95) / 1.5), dark);
+      } else fill = shade(Math.log(v / min) / logSpan, dark);
+      ctx.fillStyle = fill;
       const xa = L + ((k - k0) / nk) * pw;
       const ya = T + ph - ((r - r0 + 1) / nr) * ph;
       ctx.fillRect(xa, ya, pw / nk + 1, ph / nr + 1);

@@ -6,6 +6,7 @@
 import type { PickCells, PickKind } from '../../core/picks';
 import type { PickRecord, SiteRecord } from '../../core/records';
 import type { AxisQuantity } from './chart-data';
+import type { MisfitSlice } from '../../core/misfit-slice';
 import type { EstimateOutcome } from './compute';
 
 export type ViewName = 'picks' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
@@ -97,6 +98,8 @@ export interface AppState {
 export interface EstimateState {
   status: 'idle' | 'running' | 'done' | 'error';
   result?: EstimateOutcome;
+  /** The fine misfit picture around the best fit, once the worker has drawn it up. */
+  slice?: MisfitSlice;
   /** Plain-words failure (too few picks, a bad setting, a worker failure). */
   error?: string;
 }

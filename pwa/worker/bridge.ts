@@ -16,6 +16,7 @@ import { wrap, type Endpoint, type Remote } from 'comlink';
 import type { CurveOptions } from '../../core/curve';
 import { InputError } from '../../core/errors';
 import type { EstimateResult } from '../../core/estimate';
+import type { MisfitSlice, MisfitSliceOptions, SliceCentre } from '../../core/misfit-slice';
 import type { LayeredModel } from '../../core/model';
 import type { Pick } from '../../core/picks';
 import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site';
@@ -229,6 +230,20 @@ export function computeEstimate(
   signal?: AbortSignal,
 ): Promise<EstimateResult> {
   return computeBridge().call('estimate', [picks, options], signal);
+}
+
+/**
+ * A fine χ² slice around an estimate's best fit (core/misfit-slice.ts), for
+ * the trade-off picture; same picks and options as the estimate.
+ */
+export function computeMisfitSlice(
+  picks: readonly Pick[],
+  options: WorkerEstimateOptions,
+  centre: SliceCentre,
+  sliceOptions: MisfitSliceOptions = {},
+  signal?: AbortSignal,
+): Promise<MisfitSlice> {
+  return computeBridge().call('misfitSlice', [picks, options, centre, sliceOptions], signal);
 }
 
 /** Site figures of a layered model (core/site.ts siteFigures). */

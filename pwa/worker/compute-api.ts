@@ -11,6 +11,7 @@
 import { loveCurves, loveCutoffFrequencies, type CurveOptions, type DispersionCurves } from '../../core/curve';
 import { InputError } from '../../core/errors';
 import { estimateLayer, type EstimateOptions, type EstimateResult } from '../../core/estimate';
+import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentre } from '../../core/misfit-slice';
 import type { LayeredModel } from '../../core/model';
 import type { Pick } from '../../core/picks';
 import {
@@ -109,6 +110,22 @@ export const computeApi = {
         r.pickFit.normalised.buffer,
         r.pickFit.sd.buffer,
       ],
+    );
+  },
+
+  /** A fine χ² slice around an estimate's best fit, for the trade-off picture (core/misfit-slice.ts). */
+  misfitSlice(
+    picks: readonly Pick[],
+    options: WorkerEstimateOptions,
+    centre: SliceCentre,
+    sliceOptions: MisfitSliceOptions = {},
+  ): Computed<MisfitSlice> {
+    const { pickLabels, ...rest } = options;
+    const core: EstimateOptions = { ...rest };
+    if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+    return run(
+      () => misfitSlice(picks, core, centre, sliceOptions),
+      (r) => [r.x.buffer, r.y.buffer, r.chi2.buffer],
     );
   },
 
