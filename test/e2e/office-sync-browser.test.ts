@@ -14,16 +14,21 @@
  *  6. A bundle exported on tablet A (a download) imports into a fresh
  *     tablet and into a fresh office store as identical records; a truncated
  *     or hostile bundle changes nothing and the tablet says why.
+ *  4. A tablet holding 6,012 records (two push batches) syncs; the office
+ *     commits the first batch and is SIGKILLed before its answer reaches
+ *     the tablet. After the restart the tablet syncs again: the committed
+ *     batch is recognised (no duplicates), the rest arrives, nothing is lost.
  *
- * Items 2, 4, 5 and 7 are protocol-level and run without a browser
+ * Items 2, 5 and 7 are protocol-level and run without a browser
  * (office-sync.test.ts, importer-fuzz.test.ts).
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { bundleToJson, makeBundle } from '../../core/bundle';
 import { parsePicksCsv } from '../../core/picks';
-import type { AnyRecord } from '../../core/records';
+import type { AnyRecord, PickRecord, SiteRecord } from '../../core/records';
 import { canonicalJson } from '../../core/revision';
 import { launchBrowser, reload, setOffline, VIEWPORTS, waitForServiceWorkerControl, type BrowserSession } from './harness';
 import { addDevice, cli, query, removeTempDataDirs, REPO_ROOT, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
@@ -41,6 +46,7 @@ let office: OfficeProcess;
 let port: number;
 let tokenA: string;
 let tokenB: string;
+let tokenD: string;
 const browsers: BrowserSession[] = [];
 const pageErrors: string[] = [];
 
@@ -109,6 +115,7 @@ beforeAll(async () => {
   data = tempDataDir();
   tokenA = await addDevice(data, 'tablet-a');
   tokenB = await addDevice(data, 'tablet-b');
+  tokenD = await addDevice(data, 'tablet-d');
   office = await startOffice(data, 0, DIST);
   port = office.port;
 });
@@ -262,4 +269,52 @@ describe('office sync in Chromium', () => {
     expect(await c.title()).not.toBe('pwned');
     expect(pageErrors).toEqual([]);
   }, 120_000);
+
+  it('4. the office is SIGKILLed after committing a batch but before answering: the tablet retries after the restart and everything converges, nothing lost or duplicated', async () => {
+    const T = '2026-05-06T08:00:00.000Z';
+    const records: (SiteRecord | PickRecord)[] = [];
+    for (let i = 0; i < 12; i++) {
+      const id = `crash-site-${i}`;
+      records.push({ type: 'site', id, rev: 1, updatedAt: T, name: `Invented crash site ${i + 1}`, date: '2026-05-06', crew: '', notes: '', axisUnit: 'hz', settings: {} });
+      for (let k = 0; k < 500; k++) {
+        records.push({ type: 'pick', id: `${id}-p${k}`, rev: 1, updatedAt: T, siteId: id, order: k, frequency: 1 + k * 0.1, velocity: 200 + (k % 50), sd: 5, kind: 'group', mode: 0 });
+      }
+    }
+    const before = query<{ n: number }>(data, 'SELECT COUNT(*) AS n FROM records')[0].n;
+    const d = await tabletPage();
+    await d.getByLabel('Import a bundle file').setInputFiles({ name: 'crash.json', mimeType: 'application/json', buffer: Buffer.from(bundleToJson(makeBundle(records))) });
+    await waitText(d, 'sync-message', /^crash\.json: Read 12 sites, 6000 picks/, 60_000);
+    await waitText(d, 'sync-pending', '6012');
+
+    let pushes = 0;
+    let crashed: Promise<void> | undefined;
+    await d.route('**/api/v1/push', async (route) => {
+      pushes++;
+      if (pushes === 1) {
+        const answer = await route.fetch(); // the office commits this batch and answers …
+        expect(answer.status()).toBe(200);
+        crashed = office.kill(); // … but dies before the answer reaches the tablet.
+        await crashed;
+        await route.abort('connectionreset');
+        return;
+      }
+      await route.continue();
+    });
+    await configure(d, tokenD);
+    await waitText(d, 'sync-last-error', /could not be reached|did not answer/, 60_000);
+    await crashed;
+    const committed = query<{ n: number }>(data, 'SELECT COUNT(*) AS n FROM records')[0].n;
+    expect(committed - before).toBe(5000);
+    await waitText(d, 'sync-pending', '6012');
+
+    office = await startOffice(data, port, DIST);
+    await d.getByRole('button', { name: 'Sync now' }).click();
+    await waitText(d, 'sync-message', /^Synced: 6012 sent/, 60_000);
+    await waitText(d, 'sync-pending', '0');
+    expect(query<{ n: number }>(data, 'SELECT COUNT(*) AS n FROM records')[0].n - before).toBe(6012);
+    const ids = query<{ id: string }>(data, "SELECT id FROM records WHERE id LIKE 'crash-site-%'").map((r) => r.id);
+    expect(new Set(ids)).toEqual(new Set(records.map((r) => r.id)));
+    const [batches] = query<{ accepted: number; ignored: number }>(data, "SELECT SUM(accepted) AS accepted, SUM(ignored) AS ignored FROM batches WHERE device_id = (SELECT id FROM devices WHERE name = 'tablet-d')");
+    expect(batches).toEqual({ accepted: 6012, ignored: 5000 });
+  }, 180_000);
 });
