@@ -7,7 +7,7 @@
  * partial write). Seeds are fixed, so a failure names a reproducible case.
  */
 import 'fake-indexeddb/auto';
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -133,13 +133,17 @@ function mutateBundle(base: string, rnd: () => number): string {
 }
 
 const toClose: { close(): void }[] = [];
+const dirs: string[] = [];
 afterAll(() => {
   for (const c of toClose) c.close();
+  for (const d of dirs) rmSync(d, { recursive: true, force: true });
 });
 
 describe('importer fuzz (seeded)', () => {
   it('10,000 mutated bundles into a real office SQLite store: success or InputError, never a partial write', () => {
-    const store = OfficeStore.open(mkdtempSync(join(tmpdir(), 'shearfield-fuzz-')), { create: true });
+    const folder = mkdtempSync(join(tmpdir(), 'shearfield-fuzz-'));
+    dirs.push(folder);
+    const store = OfficeStore.open(folder, { create: true });
     toClose.push(store);
     // Every write to records takes a new, higher seq; every version and batch adds a row: these four numbers see any write.
     const counts = store.db.prepare(

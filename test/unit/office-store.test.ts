@@ -4,7 +4,7 @@
  * of 127.0.0.1 (in this process).
  */
 import Database from 'better-sqlite3';
-import { mkdirSync, mkdtempSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
@@ -18,12 +18,16 @@ import { DB_FILE_NAME, OfficeStore, STORE_SCHEMA_VERSION, tokenHash } from '../.
 
 const T = '2026-05-04T08:00:00.000Z';
 const running: RunningOffice[] = [];
+const dirs: string[] = [];
 afterAll(async () => {
   for (const r of running) await r.close();
+  for (const d of dirs) rmSync(d, { recursive: true, force: true });
 });
 
 function dir(): string {
-  return mkdtempSync(join(tmpdir(), 'shearfield-office-unit-'));
+  const d = mkdtempSync(join(tmpdir(), 'shearfield-office-unit-'));
+  dirs.push(d);
+  return d;
 }
 
 async function cli(args: string[]) {
