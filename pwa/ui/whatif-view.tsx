@@ -2,7 +2,7 @@
  * What-if: sliders for H, β1, β2 and the densities move the model curves
  * against the picks, redrawn once per animation frame (plot-engine.ts).
  */
-import type { EstimateResult } from '../../core/estimate';
+import { chi2At, prepareEstimate, type EstimateResult } from '../../core/estimate';
 import type { LayeredModel } from '../../core/model';
 import type { PickRecord } from '../../core/records';
 import { num } from './format';
@@ -54,9 +54,28 @@ export function layeredOf(m: WhatIfModel): { model?: LayeredModel; problem?: str
   };
 }
 
+/**
+ * χ² of a what-if model against the picks: the estimate's own misfit
+ * (core/estimate.ts prepareEstimate + chi2At with both speeds given).
+ * Undefined without picks or for a model that cannot trap Love waves.
+ */
+export function whatIfMisfit(picks: readonly PickRecord[], m: WhatIfModel): { chi2: number; n: number } | undefined {
+  if (picks.length === 0 || !(m.vs2 > m.vs1)) return undefined;
+  try {
+    const P = prepareEstimate(
+      picks.map((p) => ({ frequency: p.frequency, velocity: p.velocity, kind: p.kind, mode: p.mode, sd: p.sd })),
+      { vs1: m.vs1, vs2: m.vs2, density1: m.rho1, density2: m.rho2 },
+    );
+    return { chi2: chi2At(P, [Math.log(m.h)]), n: P.n };
+  } catch {
+    return undefined;
+  }
+}
+
 export function WhatIfView(props: WhatIfViewProps) {
   const m = props.model ?? startingModel(props.result, props.picks);
   const { model, problem } = layeredOf(m);
+  const misfit = whatIfMisfit(props.picks, m);
   const set = (key: keyof WhatIfModel, value: number) => props.onModel({ ...m, [key]: value });
   return (
     <div class="split">
@@ -91,6 +110,12 @@ export function WhatIfView(props: WhatIfViewProps) {
         {problem ? (
           <p class="error" role="alert">
             {problem}
+          </p>
+        ) : null}
+        {misfit ? (
+          <p class="readout">
+            Misfit of this model: χ² = {num(misfit.chi2)} over {misfit.n} picks (χ² per pick {num(misfit.chi2 / misfit.n, 2)})
+            {props.result ? `; the best fit has χ² = ${num(props.result.chi2)}` : ''}.
           </p>
         ) : null}
       </section>

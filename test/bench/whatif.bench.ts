@@ -10,6 +10,7 @@
 import { demoPicks, DEMO_MODEL } from '../../core/demo';
 import type { LayeredModel } from '../../core/model';
 import type { Pick } from '../../core/picks';
+import { chi2At, prepareEstimate } from '../../core/estimate';
 import { curveColumns, curveKeysOf, pickColumns, plotBand } from '../../pwa/ui/chart-data';
 import { bench, type BenchResult } from './harness';
 
@@ -32,6 +33,16 @@ function step(picks: Pick[]) {
   };
 }
 
+/** The what-if misfit readout per step: the estimate's χ² of the slider model (as pwa/ui/whatif-view.tsx does). */
+function misfitStep(picks: Pick[]) {
+  let k = 0;
+  return () => {
+    const h = DEMO_MODEL.h * (0.8 + 0.4 * ((k++ % 97) / 96));
+    const P = prepareEstimate(picks, { vs1: DEMO_MODEL.vs1, vs2: DEMO_MODEL.vs2, density1: DEMO_MODEL.rho1, density2: DEMO_MODEL.rho2 });
+    return chi2At(P, [Math.log(h)]);
+  };
+}
+
 export default async function (): Promise<BenchResult[]> {
   const demo = demoPicks();
   // A heavier table: the demo picks copied into modes 0–3 as group and phase picks (8 curves).
@@ -46,6 +57,11 @@ export default async function (): Promise<BenchResult[]> {
       samples: 101,
       target_ms: 16,
       note: 'curves + columns per slider step, Node, no DOM',
+    }),
+    await bench('what-if step: misfit readout, demo site (23 picks)', misfitStep(demo), {
+      samples: 101,
+      target_ms: 16,
+      note: 'χ² of the slider model, Node',
     }),
     await bench('what-if step: 8 curves (modes 0–3, group and phase), 184 picks', step(heavy), {
       samples: 51,

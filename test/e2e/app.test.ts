@@ -25,7 +25,7 @@
 import { copyFileSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { estimateLayer } from '../../core/estimate';
 import { loveVelocities } from '../../core/love-layer';
 import type { Pick } from '../../core/picks';
@@ -56,14 +56,23 @@ const TYPED: Pick[] = FREQS.map((f) => ({
 let app: AppSession;
 let page: Page;
 const pageErrors: string[] = [];
+const consoleLines: string[] = [];
 
 beforeAll(async () => {
   app = await openApp(VIEWPORTS.tabletLandscape);
   page = app.page;
   page.on('pageerror', (e) => pageErrors.push(e.message));
+  page.on('console', (m) => consoleLines.push(`${m.type()}: ${m.text()}`));
 });
 afterAll(async () => {
   await app?.close();
+});
+// A failed step leaves a picture of the screen for the reader.
+afterEach(async (ctx) => {
+  if (ctx.task.result?.state === 'fail' && page) {
+    await screenshot(page, `failed-${ctx.task.name.slice(0, 2).replace(/\W/g, '')}`).catch(() => undefined);
+    console.log(`page console before the failure:\n${consoleLines.slice(-30).join('\n')}`);
+  }
 });
 
 const picksHeading = () => page.getByRole('heading', { name: /^Picks \(\d+\)$/ });
