@@ -82,6 +82,9 @@ export function settingText(site: SiteRecord, drafts: Readonly<Record<string, st
   return v === undefined ? '' : String(v);
 }
 
+/** How long the store may take to open before the crew is told, ms. */
+const STORE_OPEN_PATIENCE_MS = 8000;
+
 /** Delay before an estimate starts after the last change, ms (lets a burst of edits settle). */
 const ESTIMATE_DELAY_MS = 250;
 
@@ -167,12 +170,23 @@ export class Controller {
       window.addEventListener('online', () => this.set({ online: true }));
       window.addEventListener('offline', () => this.set({ online: false }));
     }
+    // If the database does not answer (another tab holding an old version open), say so while waiting.
+    const slow = setTimeout(
+      () =>
+        this.notify(
+          'error',
+          'The on-device store is taking long to open. If Shearfield is open in another tab or window, close it; otherwise reload the page.',
+        ),
+      STORE_OPEN_PATIENCE_MS,
+    );
     try {
       this.store = await openStore();
       const [sites, theme] = await Promise.all([this.store.listSites(), this.store.getSetting<Theme>('theme')]);
       this.set({ ready: true, online, sites, theme: theme === 'sun' ? 'sun' : 'standard' });
     } catch (e) {
       this.set({ ready: true, online, fatal: messageOf(e) });
+    } finally {
+      clearTimeout(slow);
     }
   }
 

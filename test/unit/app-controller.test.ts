@@ -10,7 +10,8 @@ import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import type { EstimateResult } from '../../core/estimate';
 import { openFieldStore, StoreError, type FieldStore } from '../../pwa/store';
-import { Controller, type EstimateRunner } from '../../pwa/ui/controller';
+import { Controller, type EstimateRunner, type SliceRunner } from '../../pwa/ui/controller';
+import type { MisfitSlice } from '../../core/misfit-slice';
 import { NEW_ROW } from '../../pwa/ui/state';
 
 let dbCount = 0;
@@ -24,8 +25,8 @@ const pendingRunner: EstimateRunner = (_picks, _settings, signal) => {
   return new Promise<EstimateResult>((_ok, fail) => signal.addEventListener('abort', () => fail(new DOMException('aborted', 'AbortError'))));
 };
 
-async function started(): Promise<Controller> {
-  const c = new Controller(pendingRunner);
+async function started(estimate: EstimateRunner = pendingRunner, slice?: SliceRunner): Promise<Controller> {
+  const c = new Controller(estimate, slice);
   await c.start(async () => {
     const real = await openFieldStore(`controller-test-${++dbCount}`);
     store = real;
@@ -226,5 +227,27 @@ describe('sites, demo, update and estimate', () => {
     expect(signals.at(-2)!.aborted).toBe(true);
     expect(signals.at(-1)!.aborted).toBe(false);
     expect(c.current.estimate.status).toBe('running');
+  });
+
+  it('marks the shown estimate stale as soon as the picks change, then asks for the close-up misfit picture', async () => {
+    const fake = { thickness: { best: 7 } } as unknown as EstimateResult;
+    const picture = { rows: 1, cols: 1 } as unknown as MisfitSlice;
+    const asked: unknown[] = [];
+    const c = await started(
+      async () => fake,
+      async (_picks, _settings, result, signal) => {
+        asked.push(result, signal.aborted);
+        return picture;
+      },
+    );
+    await typeRow(c, '12', '180');
+    expect(c.current.estimate.status).toBe('running');
+    await c.estimateNow();
+    expect(c.current.estimate).toEqual({ status: 'done', result: fake, slice: picture });
+    expect(asked).toEqual([fake, false]);
+    c.editCell(c.current.picks[0].id, 'velocity_m_s', '190');
+    await c.commitRow(c.current.picks[0].id);
+    expect(c.current.estimate.status).toBe('running');
+    expect(c.current.estimate.result).toBe(fake);
   });
 });
