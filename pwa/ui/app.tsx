@@ -97,7 +97,7 @@ export function App({ controller: c }: AppProps) {
       </header>
 
       {s.updateReady ? (
-        <div class="update" role="alertdialog" aria-labelledby="upd-h" aria-describedby="upd-p">
+        <section class="update" aria-labelledby="upd-h" aria-describedby="upd-p" aria-live="polite">
           <h2 id="upd-h">A new version of the app is ready</h2>
           <p id="upd-p">Everything you typed is saved first; rows with unsaved corrections hold the update back.</p>
           <button type="button" class="primary" onClick={() => void c.applyUpdate()}>
@@ -106,7 +106,7 @@ export function App({ controller: c }: AppProps) {
           <button type="button" onClick={() => c.dismissUpdate()}>
             Later
           </button>
-        </div>
+        </section>
       ) : null}
 
       <div class="notices" aria-live="polite">
