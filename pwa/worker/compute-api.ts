@@ -81,6 +81,14 @@ function unique(buffers: ArrayBufferLike[]): ArrayBuffer[] {
   return [...new Set(buffers)].filter((b): b is ArrayBuffer => b instanceof ArrayBuffer && b.byteLength > 0);
 }
 
+/** The core's estimate options from the worker's (pick labels become `whereOf`). */
+function coreOptions(options: WorkerEstimateOptions): EstimateOptions {
+  const { pickLabels, ...rest } = options;
+  const core: EstimateOptions = { ...rest };
+  if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+  return core;
+}
+
 /** Every computation the worker offers, on plain (structured-clone) inputs. */
 export const computeApi = {
   /** Love-wave curves of `model` at `frequencies` (Hz), plus the modes' cutoffs (core/curve.ts). */
@@ -96,9 +104,7 @@ export const computeApi = {
 
   /** The layer-thickness estimate from picks (core/estimate.ts estimateLayer). */
   estimate(picks: readonly Pick[], options: WorkerEstimateOptions = {}): Computed<EstimateResult> {
-    const { pickLabels, ...rest } = options;
-    const core: EstimateOptions = { ...rest };
-    if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+    const core = coreOptions(options);
     return run(
       () => estimateLayer(picks, core),
       (r) => [
@@ -120,9 +126,7 @@ export const computeApi = {
     centre: SliceCentre,
     sliceOptions: MisfitSliceOptions = {},
   ): Computed<MisfitSlice> {
-    const { pickLabels, ...rest } = options;
-    const core: EstimateOptions = { ...rest };
-    if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+    const core = coreOptions(options);
     return run(
       () => misfitSlice(picks, core, centre, sliceOptions),
       (r) => [r.x.buffer, r.y.buffer, r.chi2.buffer],
