@@ -12,7 +12,8 @@
  *  6. edit offline, reload again: nothing lost;
  *  7. import a malformed CSV: a clear error naming the row and column, and
  *     nothing changes;
- *  8. a note holding markup shows as text;
+ *  8. a note holding markup shows as text (and the location comes from the
+ *     device on request);
  *  9. screenshots at tablet (both ways) and phone size in test-results/e2e/,
  *     and the tablet one with the demo site copied to docs/screenshot-tablet.png
  *     for the README.
@@ -231,7 +232,11 @@ describe('the field app in Chromium', () => {
     const notes = page.getByLabel('Notes (kept as plain text)');
     await notes.fill(hostile);
     await page.getByLabel('Crew').click(); // leave the field: it saves
-    await page.waitForTimeout(300);
+    // the location from the device, on request (an invented position)
+    await app.browser.context.grantPermissions(['geolocation'], { origin: app.server.url });
+    await app.browser.context.setGeolocation({ latitude: 47.123456, longitude: 8.654321, accuracy: 12 });
+    await page.getByRole('button', { name: "Use this device's position" }).click();
+    await page.getByText('Stored: 47.123456°, 8.654321° (from the device, ±12 m).').waitFor();
     await reload(page);
     const card = page.locator('.site-card', { hasText: SITE });
     await card.waitFor();
