@@ -271,7 +271,9 @@ export class Controller {
 
   openSite(id: string, view: ViewName = 'picks'): void {
     this.estimateAbort?.abort();
+    const site = this.state.sites.find((s) => s.id === id);
     this.set({
+      plot: { ...this.state.plot, axis: site?.axisUnit === 's' ? 'period' : 'frequency' },
       openSiteId: id,
       view,
       picks: [],

@@ -135,6 +135,12 @@ describe('typed picks', () => {
     expect(c.current.picks[0].period).toBe(0.25);
     expect(c.current.picks[0].frequency).toBe(4);
     expect(c.current.plot.axis).toBe('period');
+    // the site keeps its choice: reopened, the plot shows periods again
+    const id = c.current.openSiteId!;
+    c.closeSite();
+    c.setPlot({ axis: 'frequency' });
+    c.openSite(id);
+    expect(c.current.plot.axis).toBe('period');
   });
 });
 
