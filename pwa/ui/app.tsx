@@ -3,6 +3,7 @@
  * list or the open site's work (picks and plot, estimate, site figures,
  * what-if, survey plan, details).
  */
+import { CAUTION } from '../../core/caution';
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { LayeredModel } from '../../core/model';
 import type { Controller } from './controller';
@@ -185,7 +186,7 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
     s.estimate.status === 'running'
       ? 'Best-fit curves: computing…'
       : s.estimate.result
-        ? `Best fit: H = ${Number(s.estimate.result.thickness.best.toPrecision(3))} m.`
+        ? `Best fit: H = ${Number(s.estimate.result.thickness.best.toPrecision(3))} m. ${CAUTION}`
         : 'Best-fit curves appear once the estimate is ready.';
   return (
     <>

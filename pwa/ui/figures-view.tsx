@@ -34,7 +34,8 @@ export function figuresOf(r: EstimateResult): { figures?: SiteFigures; error?: s
 
 function rangeText(f: FigureRange, unit: string, digits = 3): string {
   const same = f.low === f.best && f.high === f.best;
-  return same ? `${num(f.best, digits)} ${unit}` : `${num(f.best, digits)} ${unit} (95 %: ${num(f.low, digits)} to ${num(f.high, digits)} ${unit})`;
+  const u = unit ? ` ${unit}` : '';
+  return same ? `${num(f.best, digits)}${u}` : `${num(f.best, digits)}${u} (95 %: ${num(f.low, digits)} to ${num(f.high, digits)}${u})`;
 }
 
 function classText(codes: string[]): string {
