@@ -23,7 +23,8 @@
  * are in PICK_LIMITS.
  *
  * Every bad row is an InputError naming the data row (1-based, header not
- * counted), its line number in the file, and the column.
+ * counted), its line number in the file, and the column. parsePicksCsv
+ * throws the first; checkPicksCsv lists them all (up to a cap).
  */
 import { InputError, describeValue } from './errors';
 import { MODEL_BOUNDS } from './model';
@@ -137,9 +138,14 @@ function fieldName(where: string, column: string): string {
   return `${where}, ${column}`;
 }
 
-function fail(where: string, column: string, reason: string): never {
+/** The InputError for one pick's column: "Row 3 (line 4), column velocity_m_s: reason". */
+function problem(where: string, column: string, reason: string): InputError {
   const lead = where.charAt(0).toUpperCase() + where.slice(1);
-  throw new InputError(fieldName(where, column), `${lead}, column ${column}: ${reason}`);
+  return new InputError(fieldName(where, column), `${lead}, column ${column}: ${reason}`);
+}
+
+function fail(where: string, column: string, reason: string): never {
+  throw problem(where, column, reason);
 }
 
 // C0 control characters other than tab, line feed and carriage return.
@@ -281,9 +287,22 @@ export function validatePick(pick: Pick, where: string): Pick {
 
 /**
  * Checks a list of picks together: no two share a frequency with the same
- * kind and mode, and no two share an id. `whereOf(i)` names pick i.
+ * kind and mode, and no two share an id. `whereOf(i)` names pick i. Throws
+ * the first problem found (in list order) as an InputError.
  */
 export function checkPickSet(picks: readonly Pick[], whereOf: (index: number) => string): void {
+  for (const found of pickSetProblems(picks, whereOf)) throw found.error;
+}
+
+/**
+ * The problems of a list of picks taken together, in list order, at most one
+ * per pick (a repeated frequency of the same kind and mode first, else a
+ * repeated id). Each repeat names the first pick that had the value.
+ */
+function* pickSetProblems(
+  picks: readonly Pick[],
+  whereOf: (index: number) => string,
+): Generator<{ index: number; error: InputError }> {
   const seen = new Map<string, number>();
   const ids = new Map<string, number>();
   for (let i = 0; i < picks.length; i++) {
@@ -293,19 +312,27 @@ export function checkPickSet(picks: readonly Pick[], whereOf: (index: number) =>
     if (prior !== undefined) {
       const column = p.period !== undefined ? 'period_s' : 'frequency_hz';
       const value = p.period !== undefined ? `${p.period} s` : `${p.frequency} Hz`;
-      fail(
-        whereOf(i),
-        column,
-        `repeats ${value} for a ${p.kind} pick of mode ${p.mode}, already given in ${whereOf(prior)}; keep one pick per frequency, kind and mode.`,
-      );
+      yield {
+        index: i,
+        error: problem(
+          whereOf(i),
+          column,
+          `repeats ${value} for a ${p.kind} pick of mode ${p.mode}, already given in ${whereOf(prior)}; keep one pick per frequency, kind and mode.`,
+        ),
+      };
+    } else {
+      seen.set(key, i);
     }
-    seen.set(key, i);
     if (p.id !== undefined && p.id !== '') {
       const priorId = ids.get(p.id);
-      if (priorId !== undefined) {
-        fail(whereOf(i), 'id', `repeats the id ${describeValue(p.id)} of ${whereOf(priorId)}; ids must be unique.`);
+      if (priorId === undefined) {
+        ids.set(p.id, i);
+      } else if (prior === undefined) {
+        yield {
+          index: i,
+          error: problem(whereOf(i), 'id', `repeats the id ${describeValue(p.id)} of ${whereOf(priorId)}; ids must be unique.`),
+        };
       }
-      ids.set(p.id, i);
     }
   }
 }
@@ -549,14 +576,21 @@ const HEADER_HINTS: Record<string, string> = {
   sd_km_s: 'standard deviations must be in m/s: sd_m_s',
 };
 
+/** The file's layout, read from its text and header before any row. */
+interface PicksFileLayout {
+  separator: ',' | ';';
+  columns: PickColumn[];
+  hasPeriod: boolean;
+  dataRecords: CsvRecord[];
+}
+
 /**
- * Reads a picks CSV file (see the file header for the format). Throws an
- * InputError for the first bad row, naming the data row (1-based, header
- * not counted), its line in the file and the column; nothing is returned in
- * part. Picks with no sd_m_s take DEFAULT_SD_FRACTION of their velocity
- * (common practice); the result counts them and carries a note saying so.
+ * Reads the parts of a picks file that concern the whole file: its size,
+ * the CSV records, the separator and the header. Throws an InputError for
+ * a problem of the whole file (empty, no header, an unknown, doubled or
+ * missing column, too many rows, a broken quote, no picks).
  */
-export function parsePicksCsv(text: string): PicksParseResult {
+function readPicksLayout(text: string): PicksFileLayout {
   if (typeof text !== 'string') throw new InputError('file', 'The picks file must be text.');
   if (text.length > PICK_LIMITS.maxChars) {
     throw new InputError(
@@ -639,50 +673,200 @@ export function parsePicksCsv(text: string): PicksParseResult {
   if (dataRecords.length === 0) {
     throw new InputError('rows', 'The picks file has a header but no picks; add at least one row.');
   }
+  return { separator, columns, hasPeriod: hasT, dataRecords };
+}
 
-  // Rows.
-  const picks: Pick[] = [];
-  const wheres: string[] = [];
-  let defaultedSd = 0;
-  let decimalComma = false;
-  dataRecords.forEach((rec, r) => {
+/** The good rows of a picks file, with where each came from. */
+interface PicksRows {
+  picks: Pick[];
+  /** "row 3 (line 4)" for each pick. */
+  wheres: string[];
+  /** The data row (1-based) and the line of each pick. */
+  rows: number[];
+  lines: number[];
+  defaultedSd: number;
+  decimalComma: boolean;
+}
+
+/**
+ * Reads every data row through pickFromCells's rules (validatePick). A bad
+ * row is handed to onProblem with its InputError, its 1-based row number,
+ * its line and its `where` text, and left out; onProblem may throw to stop.
+ */
+function readPicksRows(
+  layout: PicksFileLayout,
+  onProblem: (error: InputError, row: number, line: number, where: string) => void,
+): PicksRows {
+  const { separator, columns } = layout;
+  const out: PicksRows = { picks: [], wheres: [], rows: [], lines: [], defaultedSd: 0, decimalComma: false };
+  layout.dataRecords.forEach((rec, r) => {
     const where = `row ${r + 1} (line ${rec.line})`;
-    if (rec.fields.length < columns.length) {
-      fail(where, columns[rec.fields.length], `is missing: the row has ${rec.fields.length} fields but the header names ${columns.length} columns.`);
+    let read: { pick: Pick; usedComma: boolean };
+    try {
+      read = pickFromRecord(rec, columns, separator, where);
+    } catch (e) {
+      if (!(e instanceof InputError)) throw e;
+      onProblem(e, r + 1, rec.line, where);
+      return;
     }
-    if (rec.fields.length > columns.length) {
-      const hint =
-        separator === ',' ? ' If a number uses a decimal comma, separate the columns with semicolons instead.' : '';
-      fail(
-        where,
-        columns[columns.length - 1],
-        `is followed by ${rec.fields.length - columns.length} extra field(s); the header names ${columns.length} columns.${hint}`,
-      );
-    }
-    const cells: PickCells = {};
-    columns.forEach((c, k) => {
-      const value = rec.fields[k];
-      const limit = c === 'note' ? PICK_LIMITS.maxNoteLength : PICK_LIMITS.maxFieldLength;
-      if (value.length > limit) fail(where, c, `is ${value.length} characters long; the limit is ${limit}.`);
-      // Unquoted text is trimmed; quoted text is kept exactly.
-      cells[c] = rec.quoted[k] ? value : value.trim();
-    });
-    const { pick, usedComma } = pickFromCellsInner(cells, where, separator === ';');
-    decimalComma ||= usedComma;
-    if (pick.sd === undefined) defaultedSd++;
-    picks.push(pick);
-    wheres.push(where);
+    out.decimalComma ||= read.usedComma;
+    if (read.pick.sd === undefined) out.defaultedSd++;
+    out.picks.push(read.pick);
+    out.wheres.push(where);
+    out.rows.push(r + 1);
+    out.lines.push(rec.line);
   });
-  checkPickSet(picks, (i) => wheres[i]);
+  return out;
+}
 
+/** Reads one data record as a pick: its field count, field lengths, then pickFromCells's rules. */
+function pickFromRecord(
+  rec: CsvRecord,
+  columns: readonly PickColumn[],
+  separator: ',' | ';',
+  where: string,
+): { pick: Pick; usedComma: boolean } {
+  if (rec.fields.length < columns.length) {
+    fail(where, columns[rec.fields.length], `is missing: the row has ${rec.fields.length} fields but the header names ${columns.length} columns.`);
+  }
+  if (rec.fields.length > columns.length) {
+    const hint =
+      separator === ',' ? ' If a number uses a decimal comma, separate the columns with semicolons instead.' : '';
+    fail(
+      where,
+      columns[columns.length - 1],
+      `is followed by ${rec.fields.length - columns.length} extra field(s); the header names ${columns.length} columns.${hint}`,
+    );
+  }
+  const cells: PickCells = {};
+  columns.forEach((c, k) => {
+    const value = rec.fields[k];
+    const limit = c === 'note' ? PICK_LIMITS.maxNoteLength : PICK_LIMITS.maxFieldLength;
+    if (value.length > limit) fail(where, c, `is ${value.length} characters long; the limit is ${limit}.`);
+    // Unquoted text is trimmed; quoted text is kept exactly.
+    cells[c] = rec.quoted[k] ? value : value.trim();
+  });
+  return pickFromCellsInner(cells, where, separator === ';');
+}
+
+function parseResult(layout: PicksFileLayout, rows: PicksRows): PicksParseResult {
   return {
-    picks,
-    defaultedSd,
-    sdNote: defaultedSd > 0 ? defaultSdNote(defaultedSd, picks.length) : '',
-    separator,
-    decimalComma,
-    unit: hasT ? 'period' : 'frequency',
+    picks: rows.picks,
+    defaultedSd: rows.defaultedSd,
+    sdNote: rows.defaultedSd > 0 ? defaultSdNote(rows.defaultedSd, rows.picks.length) : '',
+    separator: layout.separator,
+    decimalComma: rows.decimalComma,
+    unit: layout.hasPeriod ? 'period' : 'frequency',
   };
+}
+
+/**
+ * Reads a picks CSV file (see the file header for the format). Throws an
+ * InputError for the first bad row, naming the data row (1-based, header
+ * not counted), its line in the file and the column; nothing is returned in
+ * part. Picks with no sd_m_s take DEFAULT_SD_FRACTION of their velocity
+ * (common practice); the result counts them and carries a note saying so.
+ * checkPicksCsv reads the same way and lists every bad row instead.
+ */
+export function parsePicksCsv(text: string): PicksParseResult {
+  const layout = readPicksLayout(text);
+  const rows = readPicksRows(layout, (error) => {
+    throw error;
+  });
+  checkPickSet(rows.picks, (i) => rows.wheres[i]);
+  return parseResult(layout, rows);
+}
+
+/**
+ * How many problems checkPicksCsv lists one by one; the rest are counted.
+ * Common practice (enough to fix a file in one pass without a wall of text).
+ */
+export const PICK_PROBLEMS_LISTED = 50;
+
+/** One problem found in a picks file. */
+export interface PickProblem {
+  /** The data row, 1-based (header not counted); 0 for a problem of the whole file or its header. */
+  row: number;
+  /** The line of the file the row starts on; for a whole-file problem the line it names, else 0. */
+  line: number;
+  /** The column at fault, e.g. "velocity_m_s"; '' for a problem of the whole file or its header. */
+  column: string;
+  /** The field as parsePicksCsv's InputError names it, e.g. "row 2 (line 3), velocity_m_s". */
+  field: string;
+  /** A full sentence naming the row, its line and the column: parsePicksCsv's message for it. */
+  message: string;
+}
+
+/** Options of checkPicksCsv. */
+export interface PicksCheckOptions {
+  /** The most problems to list; further ones are only counted (moreProblems). A whole number ≥ 1. @default PICK_PROBLEMS_LISTED (50) */
+  maxProblems?: number;
+}
+
+/** What checkPicksCsv found. */
+export interface PicksCheck {
+  /** The file read in full when it has no problem, exactly as parsePicksCsv reads it; null when it has any (nothing in part). */
+  parsed: PicksParseResult | null;
+  /**
+   * The problems in row order, at most maxProblems, one per bad row: the
+   * first rule the row breaks, or the earlier row whose frequency (same kind
+   * and mode) or id it repeats. A problem of the whole file comes alone.
+   */
+  problems: PickProblem[];
+  /** How many further bad rows were found beyond those listed (0 when all are listed). */
+  moreProblems: number;
+}
+
+/**
+ * Reads a picks CSV file like parsePicksCsv, but checks every row and
+ * reports every bad one instead of stopping at the first: the same rules
+ * (pickFromCells, validatePick, the repeated-frequency and id checks) run
+ * for each row, and the first problem listed is the one parsePicksCsv
+ * throws when no problem comes from repeats. A problem of the whole file
+ * (empty, no header, a bad header, a broken quote, too many rows) stops the
+ * reading and is the only one listed. Never throws for bad file text.
+ */
+export function checkPicksCsv(text: string, options: PicksCheckOptions = {}): PicksCheck {
+  const max = options.maxProblems ?? PICK_PROBLEMS_LISTED;
+  if (!Number.isInteger(max) || max < 1) {
+    throw new InputError('maxProblems', `maxProblems must be a whole number 1 or more, but it is ${describeValue(max)}.`);
+  }
+  let layout: PicksFileLayout;
+  try {
+    layout = readPicksLayout(text);
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    const line = /^Line (\d+):/.exec(e.message);
+    return {
+      parsed: null,
+      problems: [{ row: 0, line: line ? Number(line[1]) : 0, column: '', field: e.field, message: e.message }],
+      moreProblems: 0,
+    };
+  }
+  const problemOf = (error: InputError, row: number, line: number, where: string): PickProblem => {
+    const column = error.field.startsWith(`${where}, `) ? error.field.slice(where.length + 2) : '';
+    return { row, line, column, field: error.field, message: error.message };
+  };
+  let count = 0;
+  const rowProblems: PickProblem[] = [];
+  const rows = readPicksRows(layout, (error, row, line, where) => {
+    count++;
+    if (rowProblems.length < max) rowProblems.push(problemOf(error, row, line, where));
+  });
+  const setProblems: PickProblem[] = [];
+  for (const { index, error } of pickSetProblems(rows.picks, (i) => rows.wheres[i])) {
+    count++;
+    if (setProblems.length < max) setProblems.push(problemOf(error, rows.rows[index], rows.lines[index], rows.wheres[index]));
+  }
+  if (count === 0) return { parsed: parseResult(layout, rows), problems: [], moreProblems: 0 };
+  // Both lists are in row order and each holds its first `max`, so the first `max` of the merge are the first overall.
+  const problems = [...rowProblems, ...setProblems].sort((a, b) => a.row - b.row).slice(0, max);
+  return { parsed: null, problems, moreProblems: count - problems.length };
+}
+
+/** The sentence that ends a capped problem list: "…and 12 more rows have problems." */
+export function morePickProblemsNote(count: number): string {
+  return count === 1 ? '…and 1 more row has a problem.' : `…and ${count} more rows have problems.`;
 }
 
 /** How picksToCsv writes a file. */
