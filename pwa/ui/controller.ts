@@ -11,7 +11,7 @@
  */
 import { DEMO_SITE, demoPicks } from '../../core/demo';
 import { InputError } from '../../core/errors';
-import { checkPickSet, pickFromCells, type Pick, type PickCells, type PickKind, parsePicksCsv } from '../../core/picks';
+import { checkPickSet, checkPicksCsv, pickFromCells, type Pick, type PickCells, type PickKind } from '../../core/picks';
 import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
 import { newPick, newSite, type FieldStore } from '../store';
 import type { MisfitSlice } from '../../core/misfit-slice';
@@ -711,7 +711,7 @@ export class Controller {
   // ---- CSV import -------------------------------------------------------
 
   setImportText(text: string): void {
-    this.set({ importState: { ...this.state.importState, text, error: undefined, info: undefined } });
+    this.set({ importState: { ...this.state.importState, text, error: undefined, problems: undefined, moreProblems: undefined, info: undefined } });
   }
 
   setImportReplace(replace: boolean): void {
@@ -725,7 +725,13 @@ export class Controller {
       text = await file.text();
     } catch (e) {
       this.set({
-        importState: { ...this.state.importState, info: undefined, error: `The file ${file.name} could not be read: ${messageOf(e)}` },
+        importState: {
+          ...this.state.importState,
+          info: undefined,
+          problems: undefined,
+          moreProblems: undefined,
+          error: `The file ${file.name} could not be read: ${messageOf(e)}`,
+        },
       });
       return;
     }
@@ -733,19 +739,31 @@ export class Controller {
   }
 
   /**
-   * Imports picks from CSV text through the core parser. All or nothing: a
-   * bad row names itself and nothing is written; a good file is written in
-   * one transaction (replacing the table's picks when asked).
+   * Imports picks from CSV text through the core reader. All or nothing: the
+   * whole file is checked first, every bad row is listed (row, line, column
+   * and reason; checkPicksCsv caps the list) and nothing is written, the
+   * text staying on screen to be fixed; a good file is written in one
+   * transaction (replacing the table's picks when asked).
    */
   async importCsv(text: string, source = 'the pasted text'): Promise<void> {
     const site = this.site();
     if (!site || !this.store) return;
-    let parsed;
-    try {
-      parsed = parsePicksCsv(text);
-    } catch (e) {
+    const check = checkPicksCsv(text);
+    const parsed = check.parsed;
+    if (!parsed) {
+      const single = check.problems.length === 1 && check.moreProblems === 0;
+      const rows = check.problems.length + check.moreProblems;
       this.set({
-        importState: { ...this.state.importState, text, info: undefined, error: `Nothing was imported from ${source}. ${messageOf(e)}` },
+        importState: {
+          ...this.state.importState,
+          text,
+          info: undefined,
+          error: single
+            ? `Nothing was imported from ${source}. ${check.problems[0].message}`
+            : `Nothing was imported from ${source}. ${rows} rows have problems; fix them and import again.`,
+          problems: single ? undefined : check.problems,
+          moreProblems: single ? undefined : check.moreProblems,
+        },
       });
       return;
     }
@@ -761,7 +779,14 @@ export class Controller {
       await this.store.savePicks([...tombs, ...incoming]);
     } catch (e) {
       this.set({
-        importState: { ...this.state.importState, text, info: undefined, error: `Nothing was imported from ${source}. ${messageOf(e)}` },
+        importState: {
+          ...this.state.importState,
+          text,
+          info: undefined,
+          problems: undefined,
+          moreProblems: undefined,
+          error: `Nothing was imported from ${source}. ${messageOf(e)}`,
+        },
       });
       return;
     }

@@ -5,7 +5,7 @@
  */
 import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
-import type { PickKind } from '../../core/picks';
+import { morePickProblemsNote, type PickKind } from '../../core/picks';
 import type { PickRecord } from '../../core/records';
 import { cellText, type PickTextColumn } from './controller';
 import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from './state';
@@ -248,7 +248,7 @@ export interface ImportPanelProps {
   onFile: (file: File) => void;
 }
 
-/** Paste or pick a CSV file; the core parser checks every row before anything is written. */
+/** Paste or pick a CSV file; the core reader checks every row before anything is written, and every bad row is listed. */
 export function ImportPanel(props: ImportPanelProps) {
   const s = props.state;
   const onFile = (e: Event) => {
@@ -289,7 +289,17 @@ export function ImportPanel(props: ImportPanelProps) {
           <input type="file" accept=".csv,text/csv,text/plain" class="sr-only" onChange={onFile} />
         </label>
       </div>
-      {s.error ? (
+      {s.error && s.problems ? (
+        <div id="import-err" class="error" role="alert">
+          <p>{s.error}</p>
+          <ul class="problem-list">
+            {s.problems.map((p) => (
+              <li key={p.row}>{p.message}</li>
+            ))}
+            {s.moreProblems ? <li>{morePickProblemsNote(s.moreProblems)}</li> : null}
+          </ul>
+        </div>
+      ) : s.error ? (
         <p id="import-err" class="error" role="alert">
           {s.error}
         </p>

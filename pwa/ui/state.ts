@@ -3,7 +3,7 @@
  * change. Pure helpers here; the async work that changes it lives in
  * controller.ts.
  */
-import type { PickCells, PickKind } from '../../core/picks';
+import type { PickCells, PickKind, PickProblem } from '../../core/picks';
 import type { PickRecord, SiteRecord } from '../../core/records';
 import type { AxisQuantity } from './chart-data';
 import type { MisfitSlice } from '../../core/misfit-slice';
@@ -55,6 +55,10 @@ export interface ImportState {
   text: string;
   replace: boolean;
   error?: string;
+  /** Every bad row of the last refused file when it had more than one (capped by checkPicksCsv); error then leads the list. */
+  problems?: readonly PickProblem[];
+  /** How many further bad rows the capped list leaves out. */
+  moreProblems?: number;
   info?: string;
 }
 

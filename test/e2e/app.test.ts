@@ -198,14 +198,21 @@ describe('the field app in Chromium', () => {
   it('7. refuses a malformed CSV with a message naming the row and column, and changes nothing', async () => {
     const before = await pickCount();
     const velocities = await Promise.all(Array.from({ length: before }, (_, i) => cellValue(i + 1, 'velocity (m/s)')));
-    await page.getByLabel('CSV text').fill('frequency_hz,velocity_m_s\n12,190\n14,abc\n');
+    const pasted = 'frequency_hz,velocity_m_s\n12,190\n14,abc\n16,-5\n';
+    await page.getByLabel('CSV text').fill(pasted);
     await page.getByLabel('Replace the current picks').check();
     await page.getByRole('button', { name: 'Import pasted text' }).click();
     const error = page.locator('#import-err');
     await error.waitFor();
+    expect(await error.getAttribute('role')).toBe('alert');
     const text = (await error.textContent()) ?? '';
-    expect(text).toContain('Nothing was imported from the pasted text.');
-    expect(text).toContain('Row 2 (line 3), column velocity_m_s: must be a number, but it is "abc".');
+    expect(text).toContain('Nothing was imported from the pasted text. 2 rows have problems; fix them and import again.');
+    // both bad rows are named, each in its own list item, and the text stays on screen to be fixed
+    expect(await error.locator('li').allTextContents()).toEqual([
+      'Row 2 (line 3), column velocity_m_s: must be a number, but it is "abc".',
+      'Row 3 (line 4), column velocity_m_s: must be greater than 0 m/s, but it is -5.',
+    ]);
+    expect(await page.getByLabel('CSV text').inputValue()).toBe(pasted);
     expect(await pickCount()).toBe(before);
     const after = await Promise.all(Array.from({ length: before }, (_, i) => cellValue(i + 1, 'velocity (m/s)')));
     expect(after).toEqual(velocities);
