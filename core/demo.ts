@@ -12,6 +12,7 @@
 import type { TwoLayer } from './love-layer';
 import { loveCutoffHz, loveVelocities } from './love-layer';
 import type { Pick } from './picks';
+import { mulberry32, normals } from './random';
 
 /** The invented model the demo picks come from. */
 export const DEMO_MODEL: Readonly<TwoLayer> = Object.freeze({ h: 7.5, vs1: 190, vs2: 560, rho1: 1850, rho2: 2150 });
@@ -33,27 +34,6 @@ export const DEMO_SITE = Object.freeze({
 export const DEMO_NOISE = 0.03;
 /** Seed of the demo noise. */
 export const DEMO_SEED = 20260414;
-
-/** Mulberry32, a small seeded generator of uniform numbers in [0, 1) (Tommy Ettinger, public domain). */
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-/** Standard normal numbers from uniforms by the Box–Muller transform (Box & Muller 1958). */
-function normals(uniform: () => number): () => number {
-  return () => {
-    const u = 1 - uniform();
-    const v = uniform();
-    return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-  };
-}
 
 const round = (x: number, digits: number) => Number(x.toFixed(digits));
 

@@ -12,17 +12,8 @@
 import { estimateLayer } from '../../core/estimate';
 import { loveVelocities } from '../../core/love-layer';
 import type { Pick } from '../../core/picks';
+import { gaussian, mulberry32 } from '../../core/random';
 import { bench, type BenchResult } from './harness';
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 function noisyPicks(count: number, seed: number): Pick[] {
   const rand = mulberry32(seed);
@@ -32,7 +23,7 @@ function noisyPicks(count: number, seed: number): Pick[] {
     const v = loveVelocities(m, f, 0);
     const phase = i % 3 === 0;
     const exact = phase ? v.phase : v.group;
-    const z = Math.sqrt(-2 * Math.log(1 - rand())) * Math.cos(2 * Math.PI * rand());
+    const z = gaussian(rand);
     return { frequency: f, velocity: exact * (1 + 0.03 * z), kind: phase ? 'phase' : 'group', mode: 0, sd: 0.03 * exact };
   });
 }

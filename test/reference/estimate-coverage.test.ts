@@ -12,9 +12,10 @@
  *
  * Picks: exact velocities of an invented model (H = 12 m, β1 = 200 m/s,
  * β2 = 500 m/s) from core/love-layer.ts, plus Gaussian noise of 3 % of the
- * velocity (the sd each pick states). Noise: mulberry32 uniform generator
- * (a public-domain 32-bit generator, common practice for seeded tests) and
- * the Box–Muller transform (Box & Muller 1958, Ann. Math. Stat. 29:610).
+ * velocity (the sd each pick states). Noise: core/random.ts, the Mulberry32
+ * uniform generator (a public-domain 32-bit generator, common practice for
+ * seeded tests) and the Box–Muller transform (Box & Muller 1958, Ann. Math.
+ * Stat. 29:610).
  *
  * Observed with these seeds (deterministic; re-stated in the report):
  *  - thickness only, 1000 trials: the 68 % interval covers 0.703, the 95 % one
@@ -26,27 +27,13 @@ import { describe, expect, it } from 'vitest';
 import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate';
 import { loveVelocities, type TwoLayer } from '../../core/love-layer';
 import type { Pick } from '../../core/picks';
+import { gaussian, mulberry32 } from '../../core/random';
 
 const TRUE: TwoLayer = { h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 };
 /** Nominal coverage of Δχ² = 1 for one parameter: erf(1/√2). */
 const P68 = 0.6826894921370859;
 const P95 = 0.95;
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) | 0;
-    let t = Math.imul(a ^ (a >>> 15), 1 | a);
-    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-
-function gaussian(rand: () => number): number {
-  const u = 1 - rand();
-  const v = rand();
-  return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * v);
-}
 
 function noisyPicks(rand: () => number, count: number): Pick[] {
   const out: Pick[] = [];

@@ -15,24 +15,13 @@ import { bundleRecords, bundleToJson, makeBundle, parseBundle } from '../../core
 import { demoPicks } from '../../core/demo';
 import { InputError } from '../../core/errors';
 import { parsePicksCsv, picksToCsv } from '../../core/picks';
+import { mulberry32 } from '../../core/random';
 import { nextRevision, type AnyRecord, type EstimateRecord, type PickRecord, type SiteRecord } from '../../core/records';
 import { canonicalJson } from '../../core/revision';
 import { mergeRecord } from '../../core/sync';
 import { OfficeStore } from '../../office/store';
 import { openFieldStore } from '../../pwa/store';
 import { importBundleText } from '../../pwa/sync/bundle-io';
-
-/** Mulberry32: a small seeded PRNG (common practice for reproducible tests). */
-function prng(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 const T = '2026-05-04T08:00:00.000Z';
 
@@ -152,7 +141,7 @@ describe('importer fuzz (seeded)', () => {
     );
     const fingerprint = () => JSON.stringify(counts.get());
     const base = baseBundleText();
-    const rnd = prng(20260504);
+    const rnd = mulberry32(20260504);
     let accepted = 0;
     let refused = 0;
     const reasons = new Map<string, number>();
@@ -192,7 +181,7 @@ describe('importer fuzz (seeded)', () => {
     toClose.push(store);
     const base = baseBundleText();
     expect((await importBundleText(store, base)).ok).toBe(true);
-    const rnd = prng(4242);
+    const rnd = mulberry32(4242);
     let refused = 0;
     for (let i = 0; i < 300; i++) {
       const text = mutateBundle(base, rnd);
@@ -211,7 +200,7 @@ describe('importer fuzz (seeded)', () => {
     const picks = demoPicks().slice(0, 8);
     picks[2] = { ...picks[2], note: 'a "quoted", note', id: 'p-2' };
     const bases = [picksToCsv(picks), picksToCsv(picks, { separator: ';', decimalComma: true, lineEnding: '\n' })];
-    const rnd = prng(777);
+    const rnd = mulberry32(777);
     let ok = 0;
     let refused = 0;
     for (let i = 0; i < 10_000; i++) {

@@ -26,17 +26,7 @@ import { describe, expect, it } from 'vitest';
 import { loveStackGroupVelocity } from '../../core/group-velocity';
 import { LoveStackSolver, loveModesBelow, prepareLoveStack } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
-
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { mulberry32 } from '../../core/random';
 
 /** Plain reference secular function (see the header). */
 function referenceSecular(model: LayeredModel, omega: number, c: number): number {
