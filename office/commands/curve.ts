@@ -8,11 +8,10 @@
  * With --csv: a header `mode,frequency_hz,period_s,phase_velocity_m_s,group_velocity_m_s`
  * and one row per point. Points appear only where the mode exists.
  */
-import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { loveCurves, logBand, MAX_MODES, type DispersionCurves } from '../../core/curve';
 import { InputError } from '../../core/errors';
-import { modelFromJson } from '../../core/model';
+import { oneModelPath, readModelFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 
 /** Largest number of frequencies accepted in one run (common practice: keeps a typo from filling the disk). */
@@ -44,39 +43,6 @@ Points appear only where a mode exists (above its cutoff), in ascending frequenc
 
 Exit status: 0 success; 1 bad file, model or option value (one line on stderr
 naming the field); 2 usage error.`;
-
-export function readModel(path: string) {
-  let text: string;
-  try {
-    text = readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    const why =
-      code === 'ENOENT'
-        ? 'does not exist'
-        : code === 'EISDIR'
-          ? 'is a folder, not a file'
-          : code === 'EACCES'
-            ? 'cannot be read (permission denied)'
-            : `cannot be read (${code ?? 'unknown error'})`;
-    throw new InputError('MODEL.json', `The model file "${path}" ${why}.`);
-  }
-  let json: unknown;
-  try {
-    json = JSON.parse(text);
-  } catch (e) {
-    const detail = (e as Error).message.split('\n')[0];
-    throw new InputError('MODEL.json', `The model file "${path}" is not valid JSON (${detail}).`);
-  }
-  try {
-    return modelFromJson(json);
-  } catch (e) {
-    if (e instanceof InputError) {
-      throw new InputError(e.field, `The model file "${path}" is invalid: ${e.message}`);
-    }
-    throw e;
-  }
-}
 
 function parsePositiveNumber(text: string, what: string): number {
   const t = text.trim();
@@ -170,20 +136,13 @@ const curve: Command = {
       allowPositionals: true,
       strict: true,
     });
-    if (positionals.length !== 1) {
-      throw new InputError(
-        'MODEL.json',
-        positionals.length === 0
-          ? 'Give one model file, e.g. shearfield curve model.json --band 1:50:200.'
-          : `Give exactly one model file, but ${positionals.length} were given.`,
-      );
-    }
+    const path = oneModelPath(positionals, 'shearfield curve model.json --band 1:50:200');
     if ((values.freq === undefined) === (values.band === undefined)) {
       throw new InputError('--freq', 'Give either --freq LIST or --band FROM:TO:COUNT (exactly one of them).');
     }
     const modes = parseModes(values.modes);
     const frequencies = values.freq !== undefined ? parseFreq(values.freq) : parseBand(values.band as string);
-    const model = readModel(positionals[0]);
+    const model = readModelFile(path);
     const curves = loveCurves(model, frequencies, { modes });
     for (const f of curves.failures) {
       io.err(`shearfield curve: warning: mode ${f.mode} at ${f.frequency} Hz left out, the root search ended with "${f.status}".\n`);

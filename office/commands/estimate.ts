@@ -10,7 +10,6 @@
  * A fixed (given) speed reports its value with equal bounds. Numbers that do
  * not exist (e.g. a 68 % bound of a minimum outside the 68 % level) print as null.
  */
-import { readFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import {
   DEFAULT_DENSITY_HALFSPACE,
@@ -23,6 +22,7 @@ import {
 } from '../../core/estimate';
 import { InputError, describeValue } from '../../core/errors';
 import { DEFAULT_SD_FRACTION, parsePicksCsv } from '../../core/picks';
+import { readTextFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 
 const HELP = `Usage: shearfield estimate PICKS.csv [--vs1 V] [--vs2 V] [--density1 D] [--density2 D]
@@ -106,23 +106,6 @@ function rangeOption(text: string | undefined, flag: string, unit: string): [num
     throw new InputError(flag, `${flag} must be two numbers in ${unit} written LOW:HIGH (e.g. 100:400), but it is ${describeValue(text)}.`);
   }
   return [Number(parts[0].trim()), Number(parts[1].trim())];
-}
-
-function readPicksFile(path: string): string {
-  try {
-    return readFileSync(path, 'utf8');
-  } catch (e) {
-    const code = (e as { code?: string }).code;
-    const why =
-      code === 'ENOENT'
-        ? 'does not exist'
-        : code === 'EISDIR'
-          ? 'is a folder, not a file'
-          : code === 'EACCES'
-            ? 'cannot be read (permission denied)'
-            : `cannot be read (${code ?? 'unknown error'})`;
-    throw new InputError('PICKS.csv', `The picks file "${path}" ${why}.`);
-  }
 }
 
 function parameterJson(e: ParameterEstimate) {
@@ -223,7 +206,7 @@ const command: Command = {
       throw new InputError('--vs2-range', '--vs2-range applies only when --vs2 is not given (a given --vs2 is fixed); give one or the other.');
     }
     const path = positionals[0];
-    const parsed = parsePicksCsv(readPicksFile(path));
+    const parsed = parsePicksCsv(readTextFile(path, 'PICKS.csv', 'picks'));
     const result = estimateLayer(parsed.picks, options);
     io.out(JSON.stringify(estimateJson(result), null, 2) + '\n');
     return 0;

@@ -7,10 +7,9 @@
  * Class values are arrays so that a range crossing a boundary lists every class.
  */
 import { parseArgs } from 'node:util';
-import { InputError } from '../../core/errors';
 import { siteFigures, VS100FT_DEPTH_M } from '../../core/site';
+import { oneModelPath, readModelFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
-import { readModel } from './curve';
 
 const HELP = `Usage: shearfield site MODEL.json [--estimated-velocities]
 
@@ -63,15 +62,8 @@ const site: Command = {
       allowPositionals: true,
       strict: true,
     });
-    if (positionals.length !== 1) {
-      throw new InputError(
-        'MODEL.json',
-        positionals.length === 0
-          ? 'Give one model file, e.g. shearfield site model.json.'
-          : `Give exactly one model file, but ${positionals.length} were given.`,
-      );
-    }
-    const model = readModel(positionals[0]);
+    const path = oneModelPath(positionals, 'shearfield site model.json');
+    const model = readModelFile(path);
     const s = siteFigures(model, { estimatedVelocities: values['estimated-velocities'] });
     io.out(
       JSON.stringify({

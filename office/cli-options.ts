@@ -1,0 +1,69 @@
+/**
+ * Helpers shared by the subcommands in office/commands/: reading the files
+ * named on the command line, each turning a failure into an InputError that
+ * names the field. Kept outside
+ * office/commands/, where office/cli.ts loads every file as a command.
+ */
+import { readFileSync } from 'node:fs';
+import { InputError } from '../core/errors';
+import { modelFromJson, type LayeredModel } from '../core/model';
+
+/**
+ * The text of a file named on the command line. A file that cannot be read
+ * throws an InputError on `field`: `The ${what} file "PATH" does not exist.`
+ * (or is a folder, or cannot be read, with the reason).
+ */
+export function readTextFile(path: string, field: string, what: string): string {
+  try {
+    return readFileSync(path, 'utf8');
+  } catch (e) {
+    const code = (e as { code?: string }).code;
+    const why =
+      code === 'ENOENT'
+        ? 'does not exist'
+        : code === 'EISDIR'
+          ? 'is a folder, not a file'
+          : code === 'EACCES'
+            ? 'cannot be read (permission denied)'
+            : `cannot be read (${code ?? 'unknown error'})`;
+    throw new InputError(field, `The ${what} file "${path}" ${why}.`);
+  }
+}
+
+/**
+ * A layered model read from a MODEL.json file (core/model.ts modelFromJson).
+ * Every failure, unreadable file, bad JSON or invalid model, is an
+ * InputError that names the file.
+ */
+export function readModelFile(path: string): LayeredModel {
+  const text = readTextFile(path, 'MODEL.json', 'model');
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch (e) {
+    const detail = (e as Error).message.split('\n')[0];
+    throw new InputError('MODEL.json', `The model file "${path}" is not valid JSON (${detail}).`);
+  }
+  try {
+    return modelFromJson(json);
+  } catch (e) {
+    if (e instanceof InputError) {
+      throw new InputError(e.field, `The model file "${path}" is invalid: ${e.message}`);
+    }
+    throw e;
+  }
+}
+
+/**
+ * The one MODEL.json path among the positional arguments; none or several
+ * throw an InputError, the former showing `example` (a whole command line).
+ */
+export function oneModelPath(positionals: readonly string[], example: string): string {
+  if (positionals.length !== 1) {
+    throw new InputError(
+      'MODEL.json',
+      positionals.length === 0 ? `Give one model file, e.g. ${example}.` : `Give exactly one model file, but ${positionals.length} were given.`,
+    );
+  }
+  return positionals[0];
+}
