@@ -1,12 +1,14 @@
 /**
  * Helpers shared by the subcommands in office/commands/: reading the files
- * named on the command line, each turning a failure into an InputError that
- * names the field. Kept outside
+ * named on the command line and the live records of the office store, each
+ * turning a failure into an InputError that names the field. Kept outside
  * office/commands/, where office/cli.ts loads every file as a command.
  */
 import { readFileSync } from 'node:fs';
 import { InputError } from '../core/errors';
 import { modelFromJson, type LayeredModel } from '../core/model';
+import type { PickRecord, SiteRecord } from '../core/records';
+import { OfficeStore } from './store';
 
 /**
  * The text of a file named on the command line. A file that cannot be read
@@ -66,4 +68,19 @@ export function oneModelPath(positionals: readonly string[], example: string): s
     );
   }
   return positionals[0];
+}
+
+/** The sites and picks of the office store in `dataDir` that are not deleted, in store order. */
+export function liveSitesAndPicks(dataDir: string): { sites: SiteRecord[]; picks: PickRecord[] } {
+  const store = OfficeStore.open(dataDir);
+  let records;
+  try {
+    records = store.allRecords();
+  } finally {
+    store.close();
+  }
+  return {
+    sites: records.filter((r): r is SiteRecord => r.type === 'site' && !r.deleted),
+    picks: records.filter((r): r is PickRecord => r.type === 'pick' && !r.deleted),
+  };
 }

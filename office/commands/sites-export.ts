@@ -9,11 +9,11 @@ import { CAUTION } from '../../core/caution';
 import { InputError } from '../../core/errors';
 import { sitesToGeoJson } from '../../core/geojson';
 import { picksToCsv } from '../../core/picks';
-import type { PickRecord, SiteRecord } from '../../core/records';
 import { sitePicks, summariseSite, type SiteSummary } from '../../core/site-summary';
 import { sitesToCsv } from '../../core/site-tables';
+import { liveSitesAndPicks } from '../cli-options';
 import type { Command, CommandIO } from '../command';
-import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+import { DEFAULT_DATA_DIR } from '../store';
 
 const HELP = `Usage: shearfield sites-export OUTDIR [--data DIR] [--no-estimate]
 
@@ -46,15 +46,7 @@ const sitesExport: Command = {
       strict: true,
     });
     if (positionals.length !== 1) throw new InputError('OUTDIR', 'Give one output folder, e.g. shearfield sites-export export/.');
-    const store = OfficeStore.open(values.data!);
-    let records;
-    try {
-      records = store.allRecords();
-    } finally {
-      store.close();
-    }
-    const sites = records.filter((r): r is SiteRecord => r.type === 'site' && !r.deleted);
-    const picks = records.filter((r): r is PickRecord => r.type === 'pick' && !r.deleted);
+    const { sites, picks } = liveSitesAndPicks(values.data!);
     const out = positionals[0];
     mkdirSync(join(out, 'picks'), { recursive: true });
     const summaries = new Map<string, SiteSummary>();

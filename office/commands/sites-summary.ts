@@ -5,11 +5,12 @@
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { InputError } from '../../core/errors';
-import type { PickRecord, SiteRecord } from '../../core/records';
+import type { PickRecord } from '../../core/records';
 import { summariseSite } from '../../core/site-summary';
 import { SUMMARY_CSV_COLUMNS, summaryToCsv } from '../../core/site-tables';
+import { liveSitesAndPicks } from '../cli-options';
 import type { Command, CommandIO } from '../command';
-import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+import { DEFAULT_DATA_DIR } from '../store';
 
 const HELP = `Usage: shearfield sites-summary OUT.csv [--data DIR]
 
@@ -31,17 +32,9 @@ const sitesSummary: Command = {
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({ args, options: { data: { type: 'string', default: DEFAULT_DATA_DIR } }, allowPositionals: true, strict: true });
     if (positionals.length !== 1) throw new InputError('OUT.csv', 'Give one output file (or - for stdout), e.g. shearfield sites-summary summary.csv.');
-    const store = OfficeStore.open(values.data!);
-    let records;
-    try {
-      records = store.allRecords();
-    } finally {
-      store.close();
-    }
-    const sites = records
-      .filter((r): r is SiteRecord => r.type === 'site' && !r.deleted)
-      .sort((a, b) => a.date.localeCompare(b.date) || a.name.localeCompare(b.name) || a.id.localeCompare(b.id));
-    const picks = records.filter((r): r is PickRecord => r.type === 'pick' && !r.deleted);
+    const live = liveSitesAndPicks(values.data!);
+    const sites = live.sites.sort((a, b) => a.date.localeCompare(b.date) || a.name.localeCompare(b.name) || a.id.localeCompare(b.id));
+    const picks = live.picks;
     const bySite = new Map<string, PickRecord[]>();
     for (const p of picks) bySite.set(p.siteId, [...(bySite.get(p.siteId) ?? []), p]);
     const summaries = sites.map((s) => summariseSite(s, bySite.get(s.id) ?? []));
