@@ -82,5 +82,6 @@ export default defineConfig({
     environment: 'node',
     testTimeout: 30_000,
     hookTimeout: 120_000,
+    reporters: ['default', './test/summary-reporter.ts'],
   },
 });
