@@ -10,7 +10,7 @@ import { InputError } from './errors';
 import { estimateLayer, type EstimateOptions, type ParameterEstimate } from './estimate';
 import type { Pick } from './picks';
 import type { PickRecord, SiteRecord } from './records';
-import { siteFiguresForRanges, type SiteFigures } from './site';
+import { siteFiguresOfEstimate, type SiteFigures } from './site';
 
 export interface SiteSummary {
   siteId: string;
@@ -64,15 +64,7 @@ export function summariseSite(site: SiteRecord, picks: readonly PickRecord[]): S
   };
   try {
     const r = estimateLayer(own, options);
-    const figures = siteFiguresForRanges(
-      { thickness: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, density1: r.density1, density2: r.density2 },
-      {
-        thickness: [r.thickness.low95, r.thickness.high95],
-        vs1: [r.vs1.low95, r.vs1.high95],
-        vs2: [r.vs2.low95, r.vs2.high95],
-      },
-      { estimatedVelocities: true },
-    );
+    const figures = siteFiguresOfEstimate(r);
     return {
       ...base,
       status: 'estimated',

@@ -631,3 +631,36 @@ export function siteFiguresForRanges(
     caution: CAUTION,
   };
 }
+
+/** A best value with its 95 % interval (core/estimate.ts ParameterEstimate fits). */
+export interface Interval95 {
+  best: number;
+  low95: number;
+  high95: number;
+}
+
+/** An estimate of one layer over a half-space: thickness and speeds with 95 % intervals, densities as used. */
+export interface TwoLayerEstimate {
+  thickness: Interval95;
+  vs1: Interval95;
+  vs2: Interval95;
+  density1: number;
+  density2: number;
+}
+
+/**
+ * Site figures of an estimate over the box of its 95 % intervals, the
+ * speeds counted as estimated (siteFiguresForRanges with
+ * estimatedVelocities). Throws InputError where siteFiguresForRanges does.
+ */
+export function siteFiguresOfEstimate(r: TwoLayerEstimate): SiteFigures {
+  return siteFiguresForRanges(
+    { thickness: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, density1: r.density1, density2: r.density2 },
+    {
+      thickness: [r.thickness.low95, r.thickness.high95],
+      vs1: [r.vs1.low95, r.vs1.high95],
+      vs2: [r.vs2.low95, r.vs2.high95],
+    },
+    { estimatedVelocities: true },
+  );
+}

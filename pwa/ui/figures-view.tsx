@@ -1,11 +1,11 @@
 /**
  * Site figures from the estimate with its uncertainty: Vs30, the classes in
  * three tables (every class the range meets, so straddling shows), f0, T0
- * and the impedance ratio. Computed by core/site.ts siteFiguresForRanges
+ * and the impedance ratio. Computed by core/site.ts siteFiguresOfEstimate
  * over the 95 % intervals.
  */
 import type { EstimateResult } from '../../core/estimate';
-import { siteFiguresForRanges, type FigureRange, type SiteFigures } from '../../core/site';
+import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../core/site';
 import { Caution } from './estimate-view';
 import { num } from './format';
 
@@ -17,15 +17,7 @@ export interface FiguresViewProps {
 /** The figures for an estimate, over its 95 % intervals; an error message when the core refuses. */
 export function figuresOf(r: EstimateResult): { figures?: SiteFigures; error?: string } {
   try {
-    const figures = siteFiguresForRanges(
-      { thickness: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, density1: r.density1, density2: r.density2 },
-      {
-        thickness: [r.thickness.low95, r.thickness.high95],
-        vs1: [r.vs1.low95, r.vs1.high95],
-        vs2: [r.vs2.low95, r.vs2.high95],
-      },
-      { estimatedVelocities: true },
-    );
+    const figures = siteFiguresOfEstimate(r);
     return { figures };
   } catch (e) {
     return { error: e instanceof Error ? e.message : String(e) };
