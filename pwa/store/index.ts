@@ -10,5 +10,6 @@ export {
   type NewPickFields,
   type PersistenceAnswer,
 } from './field-store';
+export { pickOf } from './validate';
 export { SCHEMA_VERSION, type OutboxEntry, type FieldDB, type FieldDBv1 } from './schema';
 export type { AnyRecord, EstimateRecord, PickRecord, SiteRecord, EstimateSettings, SiteLocation } from '../../core/records';

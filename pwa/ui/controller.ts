@@ -13,7 +13,7 @@ import { DEMO_SITE, demoPicks } from '../../core/demo';
 import { InputError } from '../../core/errors';
 import { checkPickSet, checkPicksCsv, pickFromCells, type Pick, type PickCells, type PickKind } from '../../core/picks';
 import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
-import { newPick, newSite, type FieldStore } from '../store';
+import { newPick, newSite, pickOf, type FieldStore } from '../store';
 import type { MisfitSlice } from '../../core/misfit-slice';
 import { runEstimate, runMisfitSlice, type EstimateOutcome } from './compute';
 import {
@@ -108,16 +108,6 @@ export function cellText(p: PickRecord, column: PickTextColumn): string {
     case 'mode':
       return String(p.mode);
   }
-}
-
-/** A stored pick's values as the core's Pick. */
-export function pickOfRecord(r: PickRecord): Pick {
-  const p: Pick = { frequency: r.frequency, velocity: r.velocity, kind: r.kind, mode: r.mode };
-  if (r.period !== undefined) p.period = r.period;
-  if (r.sd !== undefined) p.sd = r.sd;
-  if (r.note !== undefined) p.note = r.note;
-  if (r.time !== undefined) p.time = r.time;
-  return p;
 }
 
 /** How the controller runs the estimate (the worker bridge in the app; tests may pass their own). */
@@ -596,7 +586,7 @@ export class Controller {
     let pick: Pick;
     try {
       pick = pickFromCells(cells, where);
-      const others = this.state.picks.filter((p) => p.id !== rowKey).map(pickOfRecord);
+      const others = this.state.picks.filter((p) => p.id !== rowKey).map(pickOf);
       const all = [...others, pick];
       checkPickSet(all, (i) => (i === all.length - 1 ? where : `pick ${this.state.picks.indexOf(this.state.picks.filter((p) => p.id !== rowKey)[i]) + 1}`));
     } catch (e) {
@@ -842,7 +832,7 @@ export class Controller {
     this.estimateAbort?.abort();
     const abort = new AbortController();
     this.estimateAbort = abort;
-    const picks = this.state.picks.map(pickOfRecord);
+    const picks = this.state.picks.map(pickOf);
     this.set({ estimate: { ...this.state.estimate, status: 'running', error: undefined } });
     try {
       const result = await this.estimate(picks, site.settings, abort.signal);
