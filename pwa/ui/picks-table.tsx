@@ -94,6 +94,37 @@ export function PicksTable(props: PicksTableProps) {
               const selected = rec && rec.id === props.selectedId;
               const kind = d?.kind ?? rec?.kind ?? 'group';
               const errId = `err-${key}`;
+              /** One text cell of this row; Enter saves and moves to column `enterTo` of the next row. */
+              const cellInput = (
+                c: PickTextColumn,
+                ci: number,
+                o: { look: string; inputMode: 'decimal' | 'numeric'; invalid: boolean; placeholder?: string; enterTo: number; escapeDiscards: boolean },
+              ) => (
+                <input
+                  class={o.look}
+                  inputMode={o.inputMode}
+                  enterKeyHint="next"
+                  autoComplete="off"
+                  data-row={r}
+                  data-col={ci}
+                  aria-label={`${label}, ${names[c]}`}
+                  aria-invalid={o.invalid ? 'true' : undefined}
+                  aria-describedby={d?.error ? errId : undefined}
+                  value={d?.cells[c] ?? (rec ? cellText(rec, c) : '')}
+                  placeholder={o.placeholder}
+                  onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
+                  onChange={rec ? () => props.onCommit(key) : undefined}
+                  onKeyDown={(e) => {
+                    if (e.key === 'Enter') {
+                      e.preventDefault();
+                      props.onCommit(key, true);
+                      focusCell(rec ? r + 1 : r, o.enterTo);
+                    } else if (o.escapeDiscards && e.key === 'Escape' && d) {
+                      props.onDiscard(key);
+                    }
+                  }}
+                />
+              );
               return (
                 <Fragment key={key}>
                 <tr
@@ -127,38 +158,18 @@ export function PicksTable(props: PicksTableProps) {
                       </>
                     )}
                   </th>
-                  {cols.slice(0, 3).map((c, ci) => {
-                    const value = d?.cells[c] ?? (rec ? cellText(rec, c) : '');
-                    const isBad = d?.errorColumn === c || (d?.errorColumn === 'frequency_hz' && c === absCol);
-                    return (
-                      <td key={c}>
-                        <input
-                          class={c === 'sd_m_s' ? 'cell sd' : 'cell'}
-                          inputMode="decimal"
-                          enterKeyHint="next"
-                          autoComplete="off"
-                          data-row={r}
-                          data-col={ci}
-                          aria-label={`${label}, ${names[c]}`}
-                          aria-invalid={isBad ? 'true' : undefined}
-                          aria-describedby={d?.error ? errId : undefined}
-                          value={value}
-                          placeholder={!rec && c === 'mode' ? '0' : !rec && c === 'sd_m_s' ? '3 %' : undefined}
-                          onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
-                          onChange={rec ? () => props.onCommit(key) : undefined}
-                          onKeyDown={(e) => {
-                            if (e.key === 'Enter') {
-                              e.preventDefault();
-                              props.onCommit(key, true);
-                              focusCell(rec ? r + 1 : r, ci);
-                            } else if (e.key === 'Escape' && d) {
-                              props.onDiscard(key);
-                            }
-                          }}
-                        />
-                      </td>
-                    );
-                  })}
+                  {cols.slice(0, 3).map((c, ci) => (
+                    <td key={c}>
+                      {cellInput(c, ci, {
+                        look: c === 'sd_m_s' ? 'cell sd' : 'cell',
+                        inputMode: 'decimal',
+                        invalid: d?.errorColumn === c || (d?.errorColumn === 'frequency_hz' && c === absCol),
+                        placeholder: !rec && c === 'mode' ? '0' : !rec && c === 'sd_m_s' ? '3 %' : undefined,
+                        enterTo: ci,
+                        escapeDiscards: true,
+                      })}
+                    </td>
+                  ))}
                   <td>
                     <select
                       class="cell"
@@ -170,36 +181,18 @@ export function PicksTable(props: PicksTableProps) {
                       <option value="phase">phase</option>
                     </select>
                   </td>
-                  {cols.slice(3).map((c) => {
-                    const ci = 3;
-                    const value = d?.cells[c] ?? (rec ? cellText(rec, c) : '');
-                    return (
-                      <td key={c}>
-                        <input
-                          class="cell narrow"
-                          inputMode="numeric"
-                          enterKeyHint="next"
-                          autoComplete="off"
-                          data-row={r}
-                          data-col={ci}
-                          aria-label={`${label}, ${names[c]}`}
-                          aria-invalid={d?.errorColumn === c ? 'true' : undefined}
-                          aria-describedby={d?.error ? errId : undefined}
-                          value={value}
-                          placeholder={!rec ? '0' : undefined}
-                          onInput={(e) => props.onEdit(key, c, e.currentTarget.value)}
-                          onChange={rec ? () => props.onCommit(key) : undefined}
-                          onKeyDown={(e) => {
-                            if (e.key === 'Enter') {
-                              e.preventDefault();
-                              props.onCommit(key, true);
-                              focusCell(rec ? r + 1 : r, 0);
-                            }
-                          }}
-                        />
-                      </td>
-                    );
-                  })}
+                  {cols.slice(3).map((c) => (
+                    <td key={c}>
+                      {cellInput(c, 3, {
+                        look: 'cell narrow',
+                        inputMode: 'numeric',
+                        invalid: d?.errorColumn === c,
+                        placeholder: !rec ? '0' : undefined,
+                        enterTo: 0,
+                        escapeDiscards: false,
+                      })}
+                    </td>
+                  ))}
                   <td>
                     {rec ? (
                       <button type="button" class="icon" aria-label={`Remove pick ${r + 1}`} onClick={() => props.onDelete(rec.id)}>
