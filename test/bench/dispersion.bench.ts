@@ -8,6 +8,7 @@ import { logBand, loveCurves } from '../../core/curve';
 import { lovePhaseVelocitySolve, type TwoLayer } from '../../core/love-layer';
 import { LoveStackSolver, prepareLoveStack } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
+import { INVENTED_FIVE_LAYER_SITE } from '../fixtures';
 import { bench, type BenchResult } from './harness';
 
 /** Invented one-layer site: 12 m of soft soil over stiffer ground. */
@@ -17,16 +18,7 @@ const oneLayer: LayeredModel = {
 };
 
 /** Invented five-layer site, with a low-velocity layer at depth. */
-const fiveLayer: LayeredModel = {
-  layers: [
-    { thickness: 3, vs: 160, density: 1750 },
-    { thickness: 5, vs: 220, density: 1850 },
-    { thickness: 6, vs: 180, density: 1800 },
-    { thickness: 8, vs: 320, density: 1950 },
-    { thickness: 12, vs: 450, density: 2050 },
-  ],
-  halfspace: { vs: 700, density: 2200 },
-};
+const fiveLayer: LayeredModel = INVENTED_FIVE_LAYER_SITE;
 
 export default async function dispersionBench(): Promise<BenchResult[]> {
   const band = logBand(2, 60, 200);

@@ -26,12 +26,11 @@ import {
 } from '../../core/love-layer';
 import { LoveStackSolver, loveModesBelow, loveSecular, loveStackCutoff, prepareLoveStack } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
+import { SHEARER_CRUST, SHEARER_CRUST_MODEL } from '../fixtures';
 
-const P: TwoLayer = { h: 40_000, vs1: 3500, vs2: 4500, rho1: 2700, rho2: 3300 };
-const oneLayer: LayeredModel = {
-  layers: [{ thickness: 40_000, vs: 3500, density: 2700 }],
-  halfspace: { vs: 4500, density: 3300 },
-};
+/** Shearer's crust over mantle (test/fixtures.ts; values and source in the header above). */
+const P: TwoLayer = SHEARER_CRUST;
+const oneLayer: LayeredModel = SHEARER_CRUST_MODEL;
 /** The same model with the layer cut into 7 + 13 + 20 km sublayers. */
 const split: LayeredModel = {
   layers: [

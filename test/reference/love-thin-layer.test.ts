@@ -23,6 +23,7 @@
 import { describe, expect, it } from 'vitest';
 import { loveCurves } from '../../core/curve';
 import type { LayeredModel } from '../../core/model';
+import { INVENTED_LVL_SITE, SHEARER_CRUST_MODEL } from '../fixtures';
 import { thinLayerModes, type TlmMode } from './thin-layer';
 
 interface Case {
@@ -34,20 +35,10 @@ interface Case {
 }
 
 /** Shearer, *Introduction to Seismology*, ch. 8 exercises: crust over mantle. */
-const shearer: LayeredModel = {
-  layers: [{ thickness: 40_000, vs: 3500, density: 2700 }],
-  halfspace: { vs: 4500, density: 3300 },
-};
+const shearer: LayeredModel = SHEARER_CRUST_MODEL;
 
 /** Invented three-layer site with a low-velocity layer at depth. */
-const lvl: LayeredModel = {
-  layers: [
-    { thickness: 10, vs: 250, density: 1800 },
-    { thickness: 15, vs: 150, density: 1750 },
-    { thickness: 20, vs: 350, density: 1900 },
-  ],
-  halfspace: { vs: 600, density: 2100 },
-};
+const lvl: LayeredModel = INVENTED_LVL_SITE;
 
 const cases: Case[] = [
   { name: 'Shearer crust, 0.05 Hz', model: shearer, f: 0.05, h: 2000, modes: 5 },

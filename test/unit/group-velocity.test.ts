@@ -12,6 +12,7 @@ import { loveStackGroupVelocity } from '../../core/group-velocity';
 import { loveGroupVelocityAt, lovePhaseVelocitySolve, type TwoLayer } from '../../core/love-layer';
 import { LoveStackSolver, prepareLoveStack, type LoveStack } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
+import { INVENTED_FIVE_LAYER_SITE, SHEARER_CRUST } from '../fixtures';
 
 function stackRoot(s: LoveStack, omega: number, n: number): number {
   const solver = new LoveStackSolver(s);
@@ -36,18 +37,11 @@ function near(got: number, want: number, what: string): void {
   expect(rel, `${what}: numerical ${want}, energy integrals ${got}, rel. diff ${rel}, tol 1e-9`).toBeLessThanOrEqual(1e-9);
 }
 
-const shearer: TwoLayer = { h: 40_000, vs1: 3500, vs2: 4500, rho1: 2700, rho2: 3300 };
+/** Shearer's crust (*Introduction to Seismology*, 2nd ed. 2009, ch. 8 exercises). */
+const shearer: TwoLayer = SHEARER_CRUST;
 
-const fiveLayer: LayeredModel = {
-  layers: [
-    { thickness: 3, vs: 160, density: 1750 },
-    { thickness: 5, vs: 220, density: 1850 },
-    { thickness: 6, vs: 180, density: 1800 },
-    { thickness: 8, vs: 320, density: 1950 },
-    { thickness: 12, vs: 450, density: 2050 },
-  ],
-  halfspace: { vs: 700, density: 2200 },
-};
+/** Invented five-layer site. */
+const fiveLayer: LayeredModel = INVENTED_FIVE_LAYER_SITE;
 
 /** A fast layer over a slow one: the top layer is evanescent for the trapped modes. */
 const fastOverSlow: LayeredModel = {

@@ -8,9 +8,10 @@
 import { describe, expect, it } from 'vitest';
 import { logBand } from '../../core/curve';
 import { loveCutoffHz, lovePhaseResidual, lovePhaseVelocityNear, lovePhaseVelocitySolve, type TwoLayer } from '../../core/love-layer';
+import { SHEARER_CRUST } from '../fixtures';
 
 const models: [string, TwoLayer][] = [
-  ['Shearer crust', { h: 40_000, vs1: 3500, vs2: 4500, rho1: 2700, rho2: 3300 }],
+  ['Shearer crust', SHEARER_CRUST],
   ['soft soil on rock', { h: 12, vs1: 180, vs2: 650, rho1: 1800, rho2: 2100 }],
   ['extreme contrast 1:49', { h: 5, vs1: 100, vs2: 4900, rho1: 1800, rho2: 3000 }],
   ['near-equal speeds', { h: 50, vs1: 300, vs2: 301, rho1: 1800, rho2: 3000 }],

@@ -18,16 +18,10 @@ import {
   shLayerMatrix,
 } from '../../core/love-stack';
 import type { LayeredModel } from '../../core/model';
+import { INVENTED_LVL_SITE } from '../fixtures';
 
 /** Invented three-layer site with a low-velocity layer at depth. */
-const lvl: LayeredModel = {
-  layers: [
-    { thickness: 10, vs: 250, density: 1800 },
-    { thickness: 15, vs: 150, density: 1750 },
-    { thickness: 20, vs: 350, density: 1900 },
-  ],
-  halfspace: { vs: 600, density: 2100 },
-};
+const lvl: LayeredModel = INVENTED_LVL_SITE;
 
 function splitModel(model: LayeredModel, parts: number): LayeredModel {
   return {
