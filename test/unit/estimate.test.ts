@@ -10,7 +10,6 @@
  */
 import { describe, expect, it } from 'vitest';
 import { CAUTION } from '../../core/caution';
-import { InputError } from '../../core/errors';
 import {
   DEFAULT_DENSITY_HALFSPACE,
   DEFAULT_DENSITY_LAYER,
@@ -22,6 +21,7 @@ import {
 } from '../../core/estimate';
 import { loveCutoffHz, loveVelocities, type TwoLayer } from '../../core/love-layer';
 import { DEFAULT_SD_FRACTION, type Pick } from '../../core/picks';
+import { inputError as inputErrorOf } from '../input-error';
 
 const TRUE: TwoLayer = { h: 12, vs1: 200, vs2: 500, rho1: DEFAULT_DENSITY_LAYER, rho2: DEFAULT_DENSITY_HALFSPACE };
 
@@ -45,16 +45,6 @@ function relErr(got: number, want: number): number {
 function expectRecovered(got: number, want: number, tol: number, what: string) {
   const e = relErr(got, want);
   if (!(e <= tol)) throw new Error(`${what}: expected ${want}, got ${got}, relative difference ${e} > tolerance ${tol}`);
-}
-
-function inputErrorOf(fn: () => unknown): InputError {
-  try {
-    fn();
-  } catch (e) {
-    if (e instanceof InputError) return e;
-    throw e;
-  }
-  throw new Error('expected an InputError, but nothing was thrown');
 }
 
 describe('exact synthetic picks recover the model to 1e-6 relative', () => {

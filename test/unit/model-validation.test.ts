@@ -6,8 +6,8 @@
  * 2002, §7.2.
  */
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../core/errors';
 import { modelFromJson, modelToJson, validateModel, type LayeredModel } from '../../core/model';
+import { inputError as fails } from '../input-error';
 
 const good = {
   layers: [{ thickness_m: 10, vs_m_s: 200, density_kg_m3: 1800 }],
@@ -20,16 +20,6 @@ function withLayer(patch: Record<string, unknown>) {
 
 function withHalfspace(patch: Record<string, unknown>) {
   return { ...good, halfspace: { ...good.halfspace, ...patch } };
-}
-
-function fails(fn: () => unknown): InputError {
-  try {
-    fn();
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError');
 }
 
 describe('modelFromJson', () => {

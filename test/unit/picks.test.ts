@@ -8,7 +8,6 @@
  */
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { InputError } from '../../core/errors';
 import {
   DEFAULT_SD_FRACTION,
   PICK_LIMITS,
@@ -20,17 +19,7 @@ import {
   validatePick,
   type Pick,
 } from '../../core/picks';
-
-/** Runs fn, expects an InputError, returns it. */
-function inputError(fn: () => unknown): InputError {
-  try {
-    fn();
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError, but nothing was thrown');
-}
+import { inputError } from '../input-error';
 
 describe('parsePicksCsv: well-formed files', () => {
   it('reads a minimal comma file and fills the defaults: group, mode 0, default sd counted', () => {

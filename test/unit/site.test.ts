@@ -11,7 +11,6 @@
  */
 import { describe, expect, it } from 'vitest';
 import { CAUTION } from '../../core/caution';
-import { InputError } from '../../core/errors';
 import type { LayeredModel } from '../../core/model';
 import {
   ASCE7_16_TABLE,
@@ -28,16 +27,7 @@ import {
   vsAverage,
   type SiteClassTableId,
 } from '../../core/site';
-
-function inputError(fn: () => unknown): InputError {
-  try {
-    fn();
-  } catch (e) {
-    expect(e).toBeInstanceOf(InputError);
-    return e as InputError;
-  }
-  throw new Error('expected an InputError, but nothing was thrown');
-}
+import { inputError } from '../input-error';
 
 function close(got: number, expected: number, relTol: number, what: string): void {
   const diff = Math.abs(got - expected);
