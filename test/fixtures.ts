@@ -2,8 +2,10 @@
  * Models shared by several test and bench files. Each test still names,
  * beside its check, the source of the values it compares with.
  */
-import type { TwoLayer } from '../core/love-layer';
+import { loveVelocities, type TwoLayer } from '../core/love-layer';
 import type { LayeredModel } from '../core/model';
+import type { Pick } from '../core/picks';
+import { gaussian } from '../core/random';
 
 /**
  * The crustal layer over mantle of Shearer, *Introduction to Seismology*
@@ -39,3 +41,27 @@ export const INVENTED_FIVE_LAYER_SITE: LayeredModel = {
   ],
   halfspace: { vs: 700, density: 2200 },
 };
+
+/** Invented soft-soil site (one layer over a half-space) for the estimate tests and benches. */
+export const INVENTED_SOFT_SITE: Readonly<TwoLayer> = Object.freeze({ h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 });
+
+/**
+ * `count` fundamental-mode picks of INVENTED_SOFT_SITE from the closed-form
+ * forward model (core/love-layer.ts), log-spaced from 3 to 40 Hz, every
+ * third (from the first) a phase pick, the rest group picks, each stating
+ * sd = 3 % of its exact velocity. With `rand` (uniforms in [0, 1)), each
+ * velocity gets Gaussian noise of that sd (core/random.ts gaussian);
+ * without, the velocities are exact.
+ */
+export function softSitePicks(count: number, rand?: () => number): Pick[] {
+  const out: Pick[] = [];
+  for (let i = 0; i < count; i++) {
+    const f = 3 * Math.pow(40 / 3, i / (count - 1));
+    const v = loveVelocities(INVENTED_SOFT_SITE, f, 0);
+    const phase = i % 3 === 0;
+    const exact = phase ? v.phase : v.group;
+    const sd = 0.03 * exact;
+    out.push({ frequency: f, velocity: rand ? exact + sd * gaussian(rand) : exact, kind: phase ? 'phase' : 'group', mode: 0, sd });
+  }
+  return out;
+}

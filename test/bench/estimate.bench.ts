@@ -10,26 +10,12 @@
  * work as on real data.
  */
 import { estimateLayer } from '../../core/estimate';
-import { loveVelocities } from '../../core/love-layer';
-import type { Pick } from '../../core/picks';
-import { gaussian, mulberry32 } from '../../core/random';
+import { mulberry32 } from '../../core/random';
+import { softSitePicks } from '../fixtures';
 import { bench, type BenchResult } from './harness';
 
-function noisyPicks(count: number, seed: number): Pick[] {
-  const rand = mulberry32(seed);
-  const m = { h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 };
-  return Array.from({ length: count }, (_, i) => {
-    const f = 3 * Math.pow(40 / 3, i / (count - 1));
-    const v = loveVelocities(m, f, 0);
-    const phase = i % 3 === 0;
-    const exact = phase ? v.phase : v.group;
-    const z = gaussian(rand);
-    return { frequency: f, velocity: exact * (1 + 0.03 * z), kind: phase ? 'phase' : 'group', mode: 0, sd: 0.03 * exact };
-  });
-}
-
 export default async function (): Promise<BenchResult[]> {
-  const picks = noisyPicks(30, 42);
+  const picks = softSitePicks(30, mulberry32(42));
   return [
     await bench('estimate: thickness only, 30 picks', () => estimateLayer(picks, { vs1: 200, vs2: 500 }), {
       samples: 51,

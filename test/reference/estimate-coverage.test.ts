@@ -25,28 +25,17 @@
  */
 import { describe, expect, it } from 'vitest';
 import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate';
-import { loveVelocities, type TwoLayer } from '../../core/love-layer';
-import type { Pick } from '../../core/picks';
-import { gaussian, mulberry32 } from '../../core/random';
+import type { TwoLayer } from '../../core/love-layer';
+import { mulberry32 } from '../../core/random';
+import { INVENTED_SOFT_SITE, softSitePicks } from '../fixtures';
 
-const TRUE: TwoLayer = { h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 };
+const TRUE: TwoLayer = INVENTED_SOFT_SITE;
 /** Nominal coverage of Δχ² = 1 for one parameter: erf(1/√2). */
 const P68 = 0.6826894921370859;
 const P95 = 0.95;
 
 
-function noisyPicks(rand: () => number, count: number): Pick[] {
-  const out: Pick[] = [];
-  for (let i = 0; i < count; i++) {
-    const f = 3 * Math.pow(40 / 3, i / (count - 1));
-    const v = loveVelocities(TRUE, f, 0);
-    const phase = i % 3 === 0;
-    const exact = phase ? v.phase : v.group;
-    const sd = 0.03 * exact;
-    out.push({ frequency: f, velocity: exact + sd * gaussian(rand), kind: phase ? 'phase' : 'group', mode: 0, sd });
-  }
-  return out;
-}
+const noisyPicks = (rand: () => number, count: number) => softSitePicks(count, rand);
 
 function covers(e: ParameterEstimate, truth: number, level: 68 | 95): boolean {
   return level === 68 ? e.low68 <= truth && truth <= e.high68 : e.low95 <= truth && truth <= e.high95;

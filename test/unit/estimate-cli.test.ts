@@ -15,9 +15,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '../../core/caution';
-import { loveVelocities } from '../../core/love-layer';
 import { picksToCsv, type Pick } from '../../core/picks';
 import { main } from '../../office/cli';
+import { softSitePicks } from '../fixtures';
 
 const root = join(import.meta.dirname, '..', '..');
 let dir = '';
@@ -44,15 +44,8 @@ function file(name: string, content: string): string {
   return p;
 }
 
-const TRUE = { h: 12, vs1: 200, vs2: 500, rho1: 1800, rho2: 2100 };
 function exactPicks(count: number): Pick[] {
-  return Array.from({ length: count }, (_, i) => {
-    const f = 3 * Math.pow(40 / 3, i / (count - 1));
-    const v = loveVelocities(TRUE, f, 0);
-    const phase = i % 3 === 0;
-    const velocity = phase ? v.phase : v.group;
-    return { frequency: f, velocity, kind: phase ? 'phase' : 'group', mode: 0, sd: 0.03 * velocity, id: `P${i + 1}` } as Pick;
-  });
+  return softSitePicks(count).map((p, i) => ({ ...p, id: `P${i + 1}` }));
 }
 
 let good = '';
