@@ -507,8 +507,11 @@ export class Controller {
   /** Typing in a cell: kept as text until the row is committed. */
   editCell(rowKey: string, column: PickTextColumn, text: string): void {
     const d = this.state.drafts[rowKey] ?? { cells: {} };
-    const cells: PickCells = { ...d.cells, [column]: text };
-    this.set({ drafts: { ...this.state.drafts, [rowKey]: { ...d, cells, error: undefined, errorColumn: undefined } } });
+    // Typing into the new row while its last pick is still being saved starts
+    // the next pick: none of the saving pick's values carry over into it.
+    const next = d.saving && rowKey === NEW_ROW && !d.next ? { cells: {}, saving: true, next: true } : d;
+    const cells: PickCells = { ...next.cells, [column]: text };
+    this.set({ drafts: { ...this.state.drafts, [rowKey]: { ...next, cells, error: undefined, errorColumn: undefined } } });
   }
 
   /** Choosing group or phase commits a stored row at once (the new row waits for its numbers). */
@@ -523,6 +526,19 @@ export class Controller {
     this.set({ drafts: without(this.state.drafts, rowKey) });
   }
 
+  /**
+   * The drafts once a row's save has ended: the saved draft goes, unless the
+   * crew typed in that row (or changed its kind) while it was saving; then
+   * what they typed stays, ready for its own commit.
+   */
+  private draftsAfterSave(rowKey: string, saved: RowDraft): Record<string, RowDraft> {
+    const current = this.state.drafts[rowKey];
+    if (!current || (current.cells === saved.cells && current.kind === saved.kind)) {
+      return without(this.state.drafts, rowKey);
+    }
+    return { ...this.state.drafts, [rowKey]: { ...current, saving: false, next: undefined } };
+  }
+
   private setDraft(rowKey: string, patch: Partial<RowDraft>): void {
     const d = this.state.drafts[rowKey] ?? { cells: {} };
     this.set({ drafts: { ...this.state.drafts, [rowKey]: { ...d, ...patch } } });
@@ -535,7 +551,12 @@ export class Controller {
   async commitRow(rowKey: string, force = false): Promise<void> {
     const site = this.site();
     const draft = this.state.drafts[rowKey];
-    if (!site || !this.store || !draft || draft.saving) return;
+    if (!site || !this.store || !draft) return;
+    if (draft.saving) {
+      // The row's last save is still running: commit again when it ends, so nothing typed meanwhile is lost.
+      this.setDraft(rowKey, { pendingCommit: { force: force || (draft.pendingCommit?.force ?? false) } });
+      return;
+    }
     const unit = site.axisUnit;
     const absCol = unit === 's' ? 'period_s' : 'frequency_hz';
     const isNew = rowKey === NEW_ROW;
@@ -602,7 +623,7 @@ export class Controller {
         const saved = await this.store.savePick(newPick(site.id, pick, order));
         this.set({
           picks: [...this.state.picks, saved],
-          drafts: without(this.state.drafts, rowKey),
+          drafts: this.draftsAfterSave(rowKey, draft),
           undo: { label: `adding pick ${index + 1}`, revert: () => this.removePick(saved.id) },
         });
       } else {
@@ -611,13 +632,18 @@ export class Controller {
         const before = rec!;
         this.set({
           picks: replaceById(this.state.picks, saved),
-          drafts: without(this.state.drafts, rowKey),
+          drafts: this.draftsAfterSave(rowKey, draft),
           undo: { label: `the change to pick ${index + 1}`, revert: () => this.restorePick(before) },
         });
       }
       this.scheduleEstimate();
+      const pending = this.state.drafts[rowKey]?.pendingCommit;
+      if (pending) {
+        this.setDraft(rowKey, { pendingCommit: undefined });
+        await this.commitRow(rowKey, pending.force);
+      }
     } catch (e) {
-      this.setDraft(rowKey, { saving: false, error: `${messageOf(e)} Your input is kept on screen.` });
+      this.setDraft(rowKey, { saving: false, next: undefined, pendingCommit: undefined, error: `${messageOf(e)} Your input is kept on screen.` });
       this.notify('error', `Pick ${index + 1} was not saved: ${messageOf(e)}`);
     }
   }

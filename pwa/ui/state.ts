@@ -22,6 +22,10 @@ export interface RowDraft {
   /** The column the error is about, for aria-invalid. */
   errorColumn?: string;
   saving?: boolean;
+  /** A commit asked for while this row was still saving: run it when the save ends. */
+  pendingCommit?: { force: boolean };
+  /** The new row's next pick, begun while the previous pick was still saving. */
+  next?: boolean;
 }
 
 export interface Notice {

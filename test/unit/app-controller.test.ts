@@ -17,6 +17,8 @@ import { NEW_ROW } from '../../pwa/ui/state';
 let dbCount = 0;
 let store: FieldStore;
 let failPickWrites = false;
+/** When set, each pick write waits until this promise settles (a slow device). */
+let slowPickWrites: Promise<void> | undefined;
 const signals: AbortSignal[] = [];
 
 /** A runner that never answers by itself; it records each call's signal. */
@@ -36,6 +38,13 @@ async function started(estimate: EstimateRunner = pendingRunner, slice?: SliceRu
         if ((prop === 'savePick' || prop === 'savePicks') && failPickWrites) {
           return () => Promise.reject(new StoreError('The device storage is full, so the pick was not saved. Nothing was changed.'));
         }
+        if (prop === 'savePick' && slowPickWrites) {
+          const gate = slowPickWrites;
+          return async (...args: Parameters<FieldStore['savePick']>) => {
+            await gate;
+            return target.savePick(...args);
+          };
+        }
         const v = Reflect.get(target, prop, receiver);
         return typeof v === 'function' ? v.bind(target) : v;
       },
@@ -54,6 +63,7 @@ async function typeRow(c: Controller, f: string, v: string, sd?: string): Promis
 
 beforeEach(() => {
   failPickWrites = false;
+  slowPickWrites = undefined;
   signals.length = 0;
 });
 afterEach(() => store?.close());
@@ -69,6 +79,29 @@ describe('typed picks', () => {
     await c.undo();
     expect(c.current.picks).toEqual([]);
     expect(await store.listPicks(c.current.openSiteId!)).toEqual([]);
+  });
+
+  it('keeps a pick typed into the new row while the previous one is still saving, and saves it next', async () => {
+    const c = await started();
+    let open!: () => void;
+    slowPickWrites = new Promise<void>((resolve) => (open = resolve));
+    c.editCell(NEW_ROW, 'frequency_hz', '12');
+    c.editCell(NEW_ROW, 'velocity_m_s', '180');
+    c.editCell(NEW_ROW, 'sd_m_s', '5');
+    const first = c.commitRow(NEW_ROW, true);
+    // The crew types the next pick and presses Enter before the first write ends.
+    c.editCell(NEW_ROW, 'frequency_hz', '15');
+    c.editCell(NEW_ROW, 'velocity_m_s', '170');
+    await c.commitRow(NEW_ROW, true);
+    expect(c.current.drafts[NEW_ROW]?.cells).toEqual({ frequency_hz: '15', velocity_m_s: '170' });
+    open();
+    await first;
+    expect(c.current.picks.map((p) => [p.frequency, p.velocity, p.sd])).toEqual([
+      [12, 180, 5],
+      [15, 170, undefined],
+    ]);
+    expect(c.current.drafts[NEW_ROW]).toBeUndefined();
+    expect((await store.listPicks(c.current.openSiteId!)).map((p) => p.frequency)).toEqual([12, 15]);
   });
 
   it('refuses a velocity that looks like km/s with the core message and keeps the text on screen', async () => {
