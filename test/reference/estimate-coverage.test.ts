@@ -20,8 +20,11 @@
  * Observed with these seeds (deterministic; re-stated in the report):
  *  - thickness only, 1000 trials: the 68 % interval covers 0.703, the 95 % one
  *    0.959 (allowed: 0.683 ± 0.044 and 0.95 ± 0.021);
- *  - joint H, β1, β2, 120 trials (68 % / 95 %): H 0.617 / 0.933,
- *    β1 0.692 / 0.958, β2 0.650 / 0.933 (allowed: ± 0.127 and ± 0.060).
+ *  - joint H, β1, β2, 200 trials (68 % / 95 %): H 0.630 / 0.960,
+ *    β1 0.625 / 0.950, β2 0.650 / 0.935 (allowed: ± 0.099 and ± 0.046).
+ *    The joint 68 % rates sit a little below nominal on every parameter
+ *    (within sampling error; a mild under-coverage of the asymptotic
+ *    Δχ² levels with 20 picks and three free parameters).
  */
 import { describe, expect, it } from 'vitest';
 import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate';
@@ -70,9 +73,9 @@ describe('coverage of the intervals over seeded noisy trials', () => {
     console.log(`coverage, thickness only, ${N} trials: 68 % → ${r68}, 95 % → ${r95}`);
   });
 
-  it('joint thickness and both speeds, 120 trials of 20 picks: every parameter within sampling error', () => {
+  it('joint thickness and both speeds, 200 trials of 20 picks: every parameter within sampling error', () => {
     const rand = mulberry32(7031);
-    const N = 120;
+    const N = 200;
     const hits = { h68: 0, h95: 0, b168: 0, b195: 0, b268: 0, b295: 0 };
     for (let t = 0; t < N; t++) {
       const r = estimateLayer(noisyPicks(rand, 20));
