@@ -40,6 +40,25 @@ const processIO: CommandIO = {
   err: (text) => process.stderr.write(text),
 };
 
+const FS_REASONS: Readonly<Record<string, string>> = {
+  ENOENT: 'it, or a folder above it, does not exist',
+  ENOTDIR: 'a part of that path is a file, not a folder',
+  EISDIR: 'it is a folder, not a file',
+  EEXIST: 'a file of that name is in the way',
+  EACCES: 'permission denied',
+  EPERM: 'permission denied',
+  EROFS: 'the disk is read-only',
+  ENOSPC: 'the disk is full',
+};
+
+/** A one-sentence message naming the path for a Node file-system error, or undefined for any other error. */
+function fileSystemMessage(e: unknown): string | undefined {
+  const { code, path, syscall } = e as { code?: unknown; path?: unknown; syscall?: unknown };
+  if (typeof code !== 'string' || typeof path !== 'string' || !(code in FS_REASONS)) return undefined;
+  const what = syscall === 'mkdir' ? 'create the folder' : syscall === 'open' ? 'open the file' : `${String(syscall ?? 'use')}`;
+  return `Could not ${what} "${path}": ${FS_REASONS[code]}.`;
+}
+
 /** Runs the command line; returns the exit code (0 ok, 1 bad input, 2 usage, 3 internal error). */
 export async function main(argv: string[], io: CommandIO = processIO): Promise<number> {
   const commands = await loadCommands();
@@ -62,6 +81,13 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
   } catch (e) {
     if (e instanceof InputError) {
       io.err(`shearfield ${name}: ${e.message.replace(/\s*\n\s*/g, ' ')}\n`);
+      return 1;
+    }
+    // A file or folder the command could not write or open (an output path
+    // in a missing folder, a file where a folder should be …) is bad input.
+    const fsMessage = fileSystemMessage(e);
+    if (fsMessage) {
+      io.err(`shearfield ${name}: ${fsMessage}\n`);
       return 1;
     }
     // Option-parser errors (node:util parseArgs) are usage errors.

@@ -148,4 +148,23 @@ describe('office analysis commands', () => {
     expect(a.endsWith(CAUTION)).toBe(true);
     expect(lines.find((l) => l.startsWith('s2,'))).toContain('no-picks');
   });
+
+  it('an output path that cannot be written is bad input (exit 1, one line naming the path), not an internal error', async () => {
+    const d = dir();
+    OfficeStore.open(d, { create: true }).close();
+    const aFile = join(d, 'a-file');
+    writeFileSync(aFile, 'x');
+    const missing = join(d, 'no-such-folder', 'out.csv');
+    expect(await cli(['sites-summary', missing, '--data', d])).toMatchObject({
+      code: 1,
+      err: `shearfield sites-summary: Could not open the file "${missing}": it, or a folder above it, does not exist.\n`,
+    });
+    expect(await cli(['sites-export', aFile, '--data', d])).toMatchObject({
+      code: 1,
+      err: `shearfield sites-export: Could not create the folder "${join(aFile, 'picks')}": a part of that path is a file, not a folder.\n`,
+    });
+    expect(readFileSync(aFile, 'utf8')).toBe('x');
+    const bundleOut = join(d, 'no-such-folder', 'b.json');
+    expect((await cli(['bundle-export', bundleOut, '--data', d])).code).toBe(1);
+  });
 });
