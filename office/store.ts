@@ -170,8 +170,11 @@ export class OfficeStore {
   /** Registers a device; returns its new token, which is shown once and never stored. */
   addDevice(name: string, now = new Date()): { id: number; name: string; token: string } {
     const clean = checkDeviceName(name);
-    const existing = this.db.prepare('SELECT id FROM devices WHERE name = ?').get(clean);
-    if (existing) throw new InputError('NAME', `A device named ${JSON.stringify(clean)} already exists; choose another name or revoke it first.`);
+    const existing = this.db.prepare('SELECT id, revoked_at AS revokedAt FROM devices WHERE name = ?').get(clean) as { id: number; revokedAt: string | null } | undefined;
+    if (existing?.revokedAt) {
+      throw new InputError('NAME', `A device named ${JSON.stringify(clean)} was revoked and its name stays on record; add the device under a new name.`);
+    }
+    if (existing) throw new InputError('NAME', `A device named ${JSON.stringify(clean)} already exists; choose another name.`);
     const token = randomBytes(32).toString('base64url');
     const info = this.db
       .prepare('INSERT INTO devices (name, token_sha256, created_at) VALUES (?, ?, ?)')

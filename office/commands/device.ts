@@ -13,8 +13,8 @@ const HELP = `Usage:
   shearfield device revoke NAME-or-id [--data DIR]  Stop a device's token from working, at once.
 
 The office keeps only the SHA-256 of each token, so a lost token cannot be shown again:
-revoke the device and add it again. Enter the token and the office address in the app's
-sync settings; every sync call sends it as "Authorization: Bearer TOKEN".
+revoke the device and add it again under a new name. Enter the token and the office
+address in the app's sync settings; every sync call sends it as "Authorization: Bearer TOKEN".
 
 Options:
   --data DIR  Folder of the office store (created by add if missing). Default ${DEFAULT_DATA_DIR}.

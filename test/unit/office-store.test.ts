@@ -51,7 +51,7 @@ describe('devices', () => {
     for (const f of readdirSync(d)) expect(readFileSync(join(d, f)).includes(Buffer.from(token)), f).toBe(false);
 
     const again = await cli(['device', 'add', 'Tablet 7', '--data', d]);
-    expect(again).toMatchObject({ code: 1, err: 'shearfield device: A device named "Tablet 7" already exists; choose another name or revoke it first.\n' });
+    expect(again).toMatchObject({ code: 1, err: 'shearfield device: A device named "Tablet 7" already exists; choose another name.\n' });
     const badName = await cli(['device', 'add', '<script>', '--data', d]);
     expect(badName.err).toBe(
       'shearfield device: The device name "<script>" is not usable: use 1–60 letters, digits, spaces, dots, dashes or underscores, starting with a letter or digit.\n',
@@ -70,6 +70,11 @@ describe('devices', () => {
     const after = await status();
     expect(after.status).toBe(401);
     expect(await after.json()).toEqual({ error: 'The device token is not valid or has been revoked; ask the office for a new one.' });
+    expect(await cli(['device', 'add', 'Tablet 7', '--data', d])).toMatchObject({
+      code: 1,
+      err: 'shearfield device: A device named "Tablet 7" was revoked and its name stays on record; add the device under a new name.\n',
+    });
+    expect((await cli(['device', 'add', 'Tablet 7b', '--data', d])).code).toBe(0);
     expect((await cli(['device', 'revoke', 'nobody', '--data', d])).err).toBe('shearfield device: No device is named or numbered "nobody"; see shearfield device list.\n');
     expect((await cli(['device', 'list', '--data', join(d, 'missing')])).err).toContain('There is no office store in');
   });
