@@ -59,6 +59,21 @@ function fileSystemMessage(e: unknown): string | undefined {
   return `Could not ${what} "${path}": ${FS_REASONS[code]}.`;
 }
 
+/**
+ * A full sentence naming the option for node:util parseArgs's terser
+ * messages (a missing value, a value that starts with "-", a value given to
+ * a switch); any other message keeps its first line.
+ */
+function optionMessage(message: string): string {
+  let m = /^Option '(--?[\w-]+)(?: <value>)?' argument missing/.exec(message);
+  if (m) return `${m[1]} needs a value, but none was given.`;
+  m = /^Option '(--?[\w-]+)' argument is ambiguous/.exec(message);
+  if (m) return `${m[1]} needs a value, but the next word starts with "-"; to give a value that starts with "-", write ${m[1]}=VALUE.`;
+  m = /^Option '(--?[\w-]+)' does not take an argument/.exec(message);
+  if (m) return `${m[1]} is a switch and takes no value; give it alone.`;
+  return message.split('\n')[0];
+}
+
 /** Runs the command line; returns the exit code (0 ok, 1 bad input, 2 usage, 3 internal error). */
 export async function main(argv: string[], io: CommandIO = processIO): Promise<number> {
   const commands = await loadCommands();
@@ -93,7 +108,7 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
     // Option-parser errors (node:util parseArgs) are usage errors.
     const code = (e as { code?: string }).code;
     if (typeof code === 'string' && code.startsWith('ERR_PARSE_ARGS')) {
-      io.err(`shearfield ${name}: ${(e as Error).message.split('\n')[0]}\n`);
+      io.err(`shearfield ${name}: ${optionMessage((e as Error).message)}\n`);
       return 2;
     }
     io.err(`shearfield ${name}: internal error: ${(e as Error).message.split('\n')[0]}\n`);

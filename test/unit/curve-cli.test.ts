@@ -65,6 +65,9 @@ const scenarios: Record<string, string[]> = {
   modesZero: ['model.json', '--freq', '1', '--modes', '0'],
   modesText: ['model.json', '--freq', '1', '--modes', 'two'],
   unknownOption: ['model.json', '--freq', '1', '--colour'],
+  valueMissing: ['model.json', '--freq'],
+  valueDash: ['model.json', '--freq', '-1'],
+  switchValue: ['model.json', '--freq', '1', '--csv=yes'],
 };
 
 beforeAll(async () => {
@@ -192,6 +195,9 @@ describe('shearfield curve: bad input exits non-zero with one line naming the fi
     ['modesZero', 1, /^shearfield curve: --modes must be a whole number from 1 to 100, but it is "0"\.\n$/],
     ['modesText', 1, /^shearfield curve: --modes must be a whole number from 1 to 100, but it is "two"\.\n$/],
     ['unknownOption', 2, /^shearfield curve: Unknown option '--colour'\..*\n$/],
+    ['valueMissing', 2, /^shearfield curve: --freq needs a value, but none was given\.\n$/],
+    ['valueDash', 2, /^shearfield curve: --freq needs a value, but the next word starts with "-"; to give a value that starts with "-", write --freq=VALUE\.\n$/],
+    ['switchValue', 2, /^shearfield curve: --csv is a switch and takes no value; give it alone\.\n$/],
   ];
   for (const [name, code, message] of expectations) {
     it(`${name}: exit ${code}, ${message.source.slice(19, 80)}…`, () => {
