@@ -65,14 +65,15 @@ Output (JSON):
    "vs1_m_s":{…},"vs2_m_s":{…},
    "alternatives":[{"rank":1,"thickness_m":{…},"vs1_m_s":{…},"vs2_m_s":{…},"chi2":…,"delta_chi2":…},…],
    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…",
-   "chi2_per_dof":…,"open_ends":{…},"correlation_thickness_vs1":…,
+   "chi2_per_dof":…,"interval_scale":…,"open_ends":{…},"correlation_thickness_vs1":…,
    "density_kg_m3":{…},"defaulted_sd":…,"search_range":{…},"vs30_m_s":{…},
    "site_class":{…},"picks":[…],"method":"…"}
   A given speed reports its value with equal bounds. "alternatives" lists every
   separate minimum within Δχ² = 3.84 of the best, ranked (rank 1 = best); when
   there are several, the headline intervals span them all. "vs30_m_s" gives
   the best model's Vs30 (EN 1998-1 eq. 3.1) and its range over the box of 95 %
-  intervals. Values that do not exist print as null.
+  intervals. "interval_scale" is the factor on the Δχ² levels: 1, or χ²/dof
+  when the fit is poor (a warning says so). Values that do not exist print as null.
 
 Exit status: 0 success; 1 bad file, pick or option value (one line on stderr
 naming the row and column, or the option); 2 usage error.`;
@@ -165,7 +166,7 @@ export function estimateJson(r: EstimateResult) {
 
 const command: Command = {
   name: 'estimate',
-  summary: 'Layer thickness (and speeds) from dispersion picks, with 68 % and 95 % intervals',
+  summary: 'Layer thickness (and speeds) from dispersion picks, with 68 % and 95 % intervals.',
   help: HELP,
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({

@@ -124,6 +124,12 @@ describe('shearfield estimate: the output contract', () => {
     expect(r.out).toMatch(/Default 0\.02 × the shortest to 3 × the longest picked/);
     expect(r.out).toMatch(/3 % of its velocity \(common practice\)/);
   });
+
+  it('--help names every key of the JSON it prints', async () => {
+    const help = (await runEstimate('--help')).out;
+    const json = JSON.parse((await runEstimate(good, '--vs1', '200', '--vs2', '500')).out);
+    for (const key of Object.keys(json)) expect(help, key).toContain(`"${key}"`);
+  });
 });
 
 describe('shearfield estimate: bad input exits non-zero with one line naming the row and column or the option', () => {
