@@ -368,6 +368,9 @@ async function main(argv: string[]): Promise<number> {
     const err = e as NodeJS.ErrnoException;
     if (err instanceof InputError) process.stderr.write(`office: ${err.message}\n`);
     else if (err.code === 'EADDRINUSE') process.stderr.write(`office: port ${port} is already in use; choose another with --port.\n`);
+    else if (typeof err.path === 'string') {
+      process.stderr.write(`office: could not start: "${err.path}" cannot be used (${err.code}); check --data and --dist.\n`);
+    }
     else process.stderr.write(`office: could not start: ${err.message}\n`);
     return 1;
   }

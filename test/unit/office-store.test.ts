@@ -4,6 +4,7 @@
  * of 127.0.0.1 (in this process).
  */
 import Database from 'better-sqlite3';
+import { spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -97,6 +98,19 @@ describe('store schema', () => {
 });
 
 describe('server edges', () => {
+  it('npm run office with a --data path that is a file exits 1 with one line naming the path', async () => {
+    const d = dir();
+    const aFile = join(d, 'a-file');
+    writeFileSync(aFile, 'x');
+    const child = spawn(process.execPath, ['--import', 'tsx', 'office/server.ts', '--port', '0', '--data', aFile], { cwd: process.cwd() });
+    let err = '';
+    child.stderr.on('data', (b: Buffer) => (err += b.toString()));
+    const code = await new Promise<number | null>((res) => child.on('close', res));
+    expect(code).toBe(1);
+    expect(err).toBe(`office: could not start: "${aFile}" cannot be used (EEXIST); check --data and --dist.\n`);
+    expect(readFileSync(aFile, 'utf8')).toBe('x');
+  }, 30_000);
+
   it('serves the built app with an app-route fallback, refuses paths outside it, says how to build when it is missing, and answers unknown API paths in JSON', async () => {
     const d = dir();
     const dist = join(d, 'dist');
