@@ -62,15 +62,17 @@ function fileSystemMessage(e: unknown): string | undefined {
 /**
  * A full sentence naming the option for node:util parseArgs's terser
  * messages (a missing value, a value that starts with "-", a value given to
- * a switch); any other message keeps its first line.
+ * a switch, an unknown option); any other message keeps its first line.
  */
-function optionMessage(message: string): string {
+function optionMessage(message: string, command: string): string {
   let m = /^Option '(--?[\w-]+)(?: <value>)?' argument missing/.exec(message);
   if (m) return `${m[1]} needs a value, but none was given.`;
   m = /^Option '(--?[\w-]+)' argument is ambiguous/.exec(message);
   if (m) return `${m[1]} needs a value, but the next word starts with "-"; to give a value that starts with "-", write ${m[1]}=VALUE.`;
   m = /^Option '(--?[\w-]+)' does not take an argument/.exec(message);
   if (m) return `${m[1]} is a switch and takes no value; give it alone.`;
+  m = /^Unknown option '([^']+)'/.exec(message);
+  if (m) return `Unknown option '${m[1]}'. See shearfield ${command} --help for the options.`;
   return message.split('\n')[0];
 }
 
@@ -108,7 +110,7 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
     // Option-parser errors (node:util parseArgs) are usage errors.
     const code = (e as { code?: string }).code;
     if (typeof code === 'string' && code.startsWith('ERR_PARSE_ARGS')) {
-      io.err(`shearfield ${name}: ${optionMessage((e as Error).message)}\n`);
+      io.err(`shearfield ${name}: ${optionMessage((e as Error).message, name)}\n`);
       return 2;
     }
     io.err(`shearfield ${name}: internal error: ${(e as Error).message.split('\n')[0]}\n`);
