@@ -143,7 +143,15 @@ export class OfficeStore {
       mkdirSync(folder, { recursive: true });
     }
     const db = new Database(file);
-    db.pragma('journal_mode = WAL');
+    try {
+      db.pragma('journal_mode = WAL');
+    } catch (e) {
+      db.close();
+      if ((e as { code?: string }).code === 'SQLITE_NOTADB') {
+        throw new InputError('--data', `The file ${file} is not an office store (not an SQLite database); move it away or choose another --data folder.`);
+      }
+      throw e;
+    }
     db.pragma('synchronous = NORMAL');
     db.pragma('busy_timeout = 5000');
     db.pragma('foreign_keys = ON');

@@ -82,6 +82,18 @@ describe('devices', () => {
 });
 
 describe('store schema', () => {
+  it('refuses a store file that is not an SQLite database with one line naming it, and leaves the file as it was', async () => {
+    const d = dir();
+    const file = join(d, DB_FILE_NAME);
+    writeFileSync(file, 'not a database, just text that is long enough to be read as a header');
+    const before = readFileSync(file);
+    expect(await cli(['device', 'list', '--data', d])).toMatchObject({
+      code: 1,
+      err: `shearfield device: The file ${file} is not an office store (not an SQLite database); move it away or choose another --data folder.\n`,
+    });
+    expect(readFileSync(file).equals(before)).toBe(true);
+  });
+
   it('migrates a fresh file to the current version in WAL mode, keeps data on reopening, and refuses a newer file', () => {
     const d = dir();
     const s = OfficeStore.open(d, { create: true });
