@@ -131,6 +131,25 @@ export function newPick(siteId: string, fields: NewPickFields, order: number, no
   return pick;
 }
 
+/** A new estimate record (rev 1, fresh UUID) for a site: the settings it ran with and its JSON summary. */
+export function newEstimate(
+  siteId: string,
+  settings: EstimateRecord['settings'],
+  summary: Record<string, unknown>,
+  now = new Date(),
+): EstimateRecord {
+  return {
+    type: 'estimate',
+    id: crypto.randomUUID(),
+    rev: 1,
+    updatedAt: now.toISOString(),
+    siteId,
+    settings,
+    summary,
+    computedAt: now.toISOString(),
+  };
+}
+
 /**
  * What the crew is told about a failed write (or read); `what` names the
  * thing, e.g. "the site" or "the 4 picks".

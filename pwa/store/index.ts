@@ -3,6 +3,7 @@ export {
   openFieldStore,
   newSite,
   newPick,
+  newEstimate,
   requestPersistentStorage,
   StoreError,
   type FieldStore,

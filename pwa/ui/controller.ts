@@ -13,7 +13,9 @@ import { DEMO_SITE, demoPicks } from '../../core/demo';
 import { InputError } from '../../core/errors';
 import { checkPickSet, checkPicksCsv, pickFromCells, type Pick, type PickCells, type PickKind } from '../../core/picks';
 import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
-import { newPick, newSite, pickOf, type FieldStore } from '../store';
+import { newEstimate, newPick, newSite, pickOf, type FieldStore } from '../store';
+import { estimateSummary } from '../../core/estimate-json';
+import type { EstimateResult } from '../../core/estimate';
 import type { MisfitSlice } from '../../core/misfit-slice';
 import { runEstimate, runMisfitSlice, type EstimateOutcome } from './compute';
 import {
@@ -132,6 +134,8 @@ export class Controller {
   private noticeSeq = 0;
   private estimateAbort?: AbortController;
   private estimateTimer?: ReturnType<typeof setTimeout>;
+  /** The chain of estimate saves (one at a time). */
+  private keeping: Promise<void> = Promise.resolve();
 
   get current(): AppState {
     return this.state;
@@ -851,6 +855,31 @@ export class Controller {
     this.estimateTimer = setTimeout(() => void this.estimateNow(), ESTIMATE_DELAY_MS);
   }
 
+  /**
+   * Keeps a finished estimate with its site (one estimate record per site,
+   * a new revision when the result or its settings change), so that sync and
+   * bundles carry it. Saves run one after another.
+   */
+  private keepEstimate(siteId: string, settings: EstimateSettings, result: EstimateResult): void {
+    this.keeping = this.keeping.then(async () => {
+      const store = this.store;
+      if (!store) return;
+      try {
+        const summary = estimateSummary(result);
+        const prior = await store.latestEstimate(siteId);
+        if (prior && sameJson(prior.summary, summary) && sameJson(prior.settings, settings)) return;
+        const now = new Date();
+        await store.saveEstimate(
+          prior
+            ? nextRevision(prior, { settings, summary, computedAt: now.toISOString() }, now)
+            : newEstimate(siteId, settings, summary, now),
+        );
+      } catch (e) {
+        this.notify('error', `The estimate was computed but not kept on this device: ${messageOf(e)}`);
+      }
+    });
+  }
+
   /** Runs the estimate of the open site in the worker now. */
   async estimateNow(): Promise<void> {
     const site = this.site();
@@ -864,6 +893,7 @@ export class Controller {
       const result = await this.estimate(picks, site.settings, abort.signal);
       if (abort.signal.aborted) return;
       this.set({ estimate: { status: 'done', result } });
+      this.keepEstimate(site.id, site.settings, result);
       // Then the close-up picture of the misfit; the same signal drops it when the input changes.
       try {
         const slice = await this.slice(picks, site.settings, result, abort.signal);
@@ -876,4 +906,9 @@ export class Controller {
       this.set({ estimate: { status: 'error', error: messageOf(e) } });
     }
   }
+}
+
+/** Whether two JSON-safe values are the same (key order as written). */
+function sameJson(a: unknown, b: unknown): boolean {
+  return JSON.stringify(a) === JSON.stringify(b);
 }

@@ -147,13 +147,15 @@ describe('office sync in Chromium', () => {
       await a.getByLabel('New pick, velocity (m/s)').press('Enter');
     }
     await a.getByRole('heading', { name: `Picks (${PICKS.length})`, exact: true }).waitFor();
+    // The finished estimate is kept with the site as one more record to sync.
+    await a.getByText(/^Best fit: H = /).waitFor({ timeout: 30_000 });
     await allSites(a);
-    await waitText(a, 'sync-pending', String(1 + PICKS.length));
+    await waitText(a, 'sync-pending', String(2 + PICKS.length));
 
     // Offline reload: served by the service worker, and the queue is intact.
     const res = await reload(a);
     expect(res.fromServiceWorker()).toBe(true);
-    await waitText(a, 'sync-pending', String(1 + PICKS.length));
+    await waitText(a, 'sync-pending', String(2 + PICKS.length));
     await a.getByRole('button', { name: 'Sync now' }).click();
     await waitText(a, 'sync-message', /could not be reached/);
     await waitText(a, 'sync-last-error', /could not be reached/);
@@ -181,7 +183,7 @@ describe('office sync in Chromium', () => {
   it('3. two tablets edit the site from the same revision: both versions kept, flagged in the office, shown on both tablets', async () => {
     b = await tabletPage();
     await configure(b, tokenB);
-    await waitText(b, 'sync-message', /Synced: 0 sent, 4 received/);
+    await waitText(b, 'sync-message', /Synced: 0 sent, 5 received/);
     // The pulled site shows in the list at once.
     await b.getByRole('button', { name: new RegExp(`^${SITE.replace(/[()]/g, '\\$&')}`) }).waitFor();
 
@@ -238,7 +240,7 @@ describe('office sync in Chromium', () => {
     const c = await tabletPage();
     const input = c.getByLabel('Import a bundle file');
     await input.setInputFiles({ name, mimeType: 'application/json', buffer: Buffer.from(text) });
-    await waitText(c, 'sync-message', `${name}: Read 1 site, 3 picks and 0 estimates: 4 new or newer, 0 already here or older.`);
+    await waitText(c, 'sync-message', `${name}: Read 1 site, 3 picks and 1 estimate: 5 new or newer, 0 already here or older.`);
     expect(byId(await tabletRecords(c))).toEqual(byId(sourceRecords));
 
     const officeData = tempDataDir();

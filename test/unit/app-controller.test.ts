@@ -8,7 +8,9 @@
  */
 import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import type { EstimateResult } from '../../core/estimate';
+import { estimateLayer, type EstimateResult } from '../../core/estimate';
+import { CAUTION } from '../../core/caution';
+import { loveVelocities } from '../../core/love-layer';
 import { openFieldStore, StoreError, type FieldStore } from '../../pwa/store';
 import { Controller, type EstimateRunner, type SliceRunner } from '../../pwa/ui/controller';
 import type { MisfitSlice } from '../../core/misfit-slice';
@@ -266,6 +268,32 @@ describe('sites, demo, update and estimate', () => {
     expect(signals.at(-2)!.aborted).toBe(true);
     expect(signals.at(-1)!.aborted).toBe(false);
     expect(c.current.estimate.status).toBe('running');
+  });
+
+  it('keeps a finished estimate with its site as one estimate record, revised only when the result changes', async () => {
+    const c = await started(async (picks) => estimateLayer(picks, { vs1: 180, vs2: 650 }));
+    // Exact group picks of an invented model (H 12 m, β1 180 m/s, β2 650 m/s) from the closed forms.
+    const model = { h: 12, vs1: 180, vs2: 650, rho1: 1800, rho2: 2100 };
+    for (const f of [4, 6, 9, 14, 20]) await typeRow(c, String(f), String(loveVelocities(model, f, 0).group.toFixed(3)));
+    const siteId = c.current.openSiteId!;
+    const kept = async () => {
+      for (let i = 0; i < 200; i++) {
+        const e = await store.latestEstimate(siteId);
+        if (e) return e;
+        await new Promise((r) => setTimeout(r, 10));
+      }
+      return undefined;
+    };
+    await c.estimateNow();
+    const first = await kept();
+    expect(first?.rev).toBe(1);
+    expect(first?.summary.caution).toBe(CAUTION);
+    expect((first?.summary.thickness_m as { best: number }).best).toBeCloseTo(c.current.estimate.result!.thickness.best, 12);
+    await c.estimateNow(); // the same picks give the same result: no new revision
+    await new Promise((r) => setTimeout(r, 50));
+    expect((await store.latestEstimate(siteId))?.rev).toBe(1);
+    const outboxIds = (await store.outbox()).map((e) => e.recordId);
+    expect(outboxIds.filter((id) => id === first!.id)).toHaveLength(1);
   });
 
   it('marks the shown estimate stale as soon as the picks change, then asks for the close-up misfit picture', async () => {
