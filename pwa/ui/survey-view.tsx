@@ -6,6 +6,7 @@
 import type { EstimateResult } from '../../core/estimate';
 import type { PickRecord } from '../../core/records';
 import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../core/survey';
+import { Caution } from './estimate-view';
 import { num, span } from './format';
 
 export interface SurveyViewProps {
@@ -130,6 +131,7 @@ export function SurveyView(props: SurveyViewProps) {
           </p>
         </>
       ) : null}
+      <Caution />
     </section>
   );
 }

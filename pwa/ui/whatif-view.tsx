@@ -5,6 +5,7 @@
 import { chi2At, prepareEstimate, type EstimateResult } from '../../core/estimate';
 import type { LayeredModel } from '../../core/model';
 import type { PickRecord } from '../../core/records';
+import { Caution } from './estimate-view';
 import { num } from './format';
 import { PlotPanel } from './plot';
 import type { PlotSettings, WhatIfModel } from './state';
@@ -118,6 +119,7 @@ export function WhatIfView(props: WhatIfViewProps) {
             {props.result ? `; the best fit has χ² = ${num(props.result.chi2)}` : ''}.
           </p>
         ) : null}
+        <Caution />
       </section>
       <PlotPanel
         id="whatif-plot-h"
