@@ -5,9 +5,9 @@
  * office/commands/, where office/cli.ts loads every file as a command.
  */
 import { readFileSync } from 'node:fs';
-import { InputError } from '../core/errors';
-import { modelFromJson, type LayeredModel } from '../core/model';
-import type { PickRecord, SiteRecord } from '../core/records';
+import { InputError } from '../core/shared/errors';
+import { modelFromJson, type LayeredModel } from '../core/dispersion/model';
+import type { PickRecord, SiteRecord } from '../core/exchange/records';
 import { OfficeStore } from './store';
 
 /**
@@ -33,7 +33,7 @@ export function readTextFile(path: string, field: string, what: string): string 
 }
 
 /**
- * A layered model read from a MODEL.json file (core/model.ts modelFromJson).
+ * A layered model read from a MODEL.json file (core/dispersion/model.ts modelFromJson).
  * Every failure, unreadable file, bad JSON or invalid model, is an
  * InputError that names the file.
  */

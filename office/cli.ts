@@ -6,7 +6,7 @@
 import { readdirSync } from 'node:fs';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
-import { InputError } from '../core/errors';
+import { InputError } from '../core/shared/errors';
 import type { Command, CommandIO } from './command';
 
 const commandsDir = join(dirname(fileURLToPath(import.meta.url)), 'commands');

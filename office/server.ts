@@ -2,7 +2,7 @@
  * The office server: `npm run office -- [--port 8750] [--host 127.0.0.1] [--data .office-data] [--dist dist]`.
  *
  * Serves the built field app from dist/ (so tablets can install it from the
- * office) and the sync API under /api/v1/ (protocol: core/sync-protocol.ts).
+ * office) and the sync API under /api/v1/ (protocol: core/exchange/sync-protocol.ts).
  * Listens on 127.0.0.1 unless --host says otherwise. Every API call needs
  * `Authorization: Bearer TOKEN` (a token from `shearfield device add`);
  * without a valid one the answer is 401 and nothing is read or written.
@@ -14,7 +14,7 @@ import { createServer, type IncomingMessage, type Server, type ServerResponse } 
 import { extname, join, normalize, resolve, sep } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { parseArgs } from 'node:util';
-import { InputError } from '../core/errors';
+import { InputError } from '../core/shared/errors';
 import {
   API_PREFIX,
   MAX_PUSH_BYTES,
@@ -22,8 +22,8 @@ import {
   type PullResponse,
   type PushResponse,
   type StatusResponse,
-} from '../core/sync-protocol';
-import { checkPullQuery, checkPushBody } from '../core/sync-protocol-check';
+} from '../core/exchange/sync-protocol';
+import { checkPullQuery, checkPushBody } from '../core/exchange/sync-protocol-check';
 import { DEFAULT_DATA_DIR, OfficeStore } from './store';
 
 /** Defaults of `npm run office`. */

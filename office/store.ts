@@ -14,7 +14,7 @@
  * - `batches`: one row per push or import (its id, source, counts), for the
  *   review trail.
  *
- * Every batch is merged with the core rules (core/sync.ts) and written in
+ * Every batch is merged with the core rules (core/exchange/sync.ts) and written in
  * ONE transaction: all of it or none of it. A batch seen before changes
  * nothing (its records merge as "already have", its batch row exists).
  */
@@ -22,10 +22,10 @@ import Database from 'better-sqlite3';
 import { createHash, randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { InputError, describeValue } from '../core/errors';
-import type { AnyRecord } from '../core/records';
-import { revisionKey } from '../core/revision';
-import { planMerge, type MergePlan } from '../core/sync';
+import { InputError, describeValue } from '../core/shared/errors';
+import type { AnyRecord } from '../core/exchange/records';
+import { revisionKey } from '../core/exchange/revision';
+import { planMerge, type MergePlan } from '../core/exchange/sync';
 
 /** Default data folder (relative to the working directory); gitignored. */
 export const DEFAULT_DATA_DIR = '.office-data';

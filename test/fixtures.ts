@@ -2,10 +2,10 @@
  * Models shared by several test and bench files. Each test still names,
  * beside its check, the source of the values it compares with.
  */
-import { loveVelocities, type TwoLayer } from '../core/love-layer';
-import type { LayeredModel } from '../core/model';
-import type { Pick } from '../core/picks';
-import { gaussian } from '../core/random';
+import { loveVelocities, type TwoLayer } from '../core/dispersion/love-layer';
+import type { LayeredModel } from '../core/dispersion/model';
+import type { Pick } from '../core/picks/picks';
+import { gaussian } from '../core/shared/random';
 
 /**
  * The crustal layer over mantle of Shearer, *Introduction to Seismology*
@@ -47,10 +47,10 @@ export const INVENTED_SOFT_SITE: Readonly<TwoLayer> = Object.freeze({ h: 12, vs1
 
 /**
  * `count` fundamental-mode picks of INVENTED_SOFT_SITE from the closed-form
- * forward model (core/love-layer.ts), log-spaced from 3 to 40 Hz, every
+ * forward model (core/dispersion/love-layer.ts), log-spaced from 3 to 40 Hz, every
  * third (from the first) a phase pick, the rest group picks, each stating
  * sd = 3 % of its exact velocity. With `rand` (uniforms in [0, 1)), each
- * velocity gets Gaussian noise of that sd (core/random.ts gaussian);
+ * velocity gets Gaussian noise of that sd (core/shared/random.ts gaussian);
  * without, the velocities are exact.
  */
 export function softSitePicks(count: number, rand?: () => number): Pick[] {

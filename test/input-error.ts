@@ -1,6 +1,6 @@
 /** A test helper for bad-input checks. */
 import { expect } from 'vitest';
-import { InputError } from '../core/errors';
+import { InputError } from '../core/shared/errors';
 
 /** Runs fn, expects it to throw an InputError, and returns that error (for checking its field and message). */
 export function inputError(fn: () => unknown): InputError {

@@ -4,8 +4,8 @@
  */
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { bundleToJson, makeBundle } from '../../core/bundle';
-import { InputError } from '../../core/errors';
+import { bundleToJson, makeBundle } from '../../core/exchange/bundle';
+import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 

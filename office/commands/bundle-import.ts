@@ -6,8 +6,8 @@ import { readFileSync, statSync } from 'node:fs';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import { randomUUID } from 'node:crypto';
-import { importSummary, MAX_BUNDLE_CHARS, parseBundle, bundleRecords } from '../../core/bundle';
-import { InputError } from '../../core/errors';
+import { importSummary, MAX_BUNDLE_CHARS, parseBundle, bundleRecords } from '../../core/exchange/bundle';
+import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 

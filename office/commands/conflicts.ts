@@ -3,9 +3,9 @@
  * places from the same revision, waiting for review.
  */
 import { parseArgs } from 'node:util';
-import { InputError } from '../../core/errors';
-import type { AnyRecord } from '../../core/records';
-import { revisionKey } from '../../core/revision';
+import { InputError } from '../../core/shared/errors';
+import type { AnyRecord } from '../../core/exchange/records';
+import { revisionKey } from '../../core/exchange/revision';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 

@@ -9,8 +9,8 @@
  * and one row per point. Points appear only where the mode exists.
  */
 import { parseArgs } from 'node:util';
-import { loveCurves, logBand, MAX_MODES, type DispersionCurves } from '../../core/curve';
-import { InputError } from '../../core/errors';
+import { loveCurves, logBand, MAX_MODES, type DispersionCurves } from '../../core/dispersion/curve';
+import { InputError } from '../../core/shared/errors';
 import { oneModelPath, readModelFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 

@@ -3,7 +3,7 @@
  * the tablets allowed to sync with the office store.
  */
 import { parseArgs } from 'node:util';
-import { InputError } from '../../core/errors';
+import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 

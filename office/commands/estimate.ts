@@ -17,10 +17,10 @@ import {
   estimateLayer,
   type EstimateField,
   type EstimateOptions,
-} from '../../core/estimate';
-import { estimateJson } from '../../core/estimate-json';
-import { InputError, describeValue } from '../../core/errors';
-import { DEFAULT_SD_FRACTION, parsePicksCsv } from '../../core/picks';
+} from '../../core/estimate/estimate';
+import { estimateJson } from '../../core/estimate/estimate-json';
+import { InputError, describeValue } from '../../core/shared/errors';
+import { DEFAULT_SD_FRACTION, parsePicksCsv } from '../../core/picks/picks';
 import { readTextFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 

@@ -7,7 +7,7 @@
  * Class values are arrays so that a range crossing a boundary lists every class.
  */
 import { parseArgs } from 'node:util';
-import { siteFigures, VS100FT_DEPTH_M } from '../../core/site';
+import { siteFigures, VS100FT_DEPTH_M } from '../../core/site/site';
 import { oneModelPath, readModelFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 

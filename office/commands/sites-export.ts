@@ -5,12 +5,12 @@
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseArgs } from 'node:util';
-import { CAUTION } from '../../core/caution';
-import { InputError } from '../../core/errors';
-import { sitesToGeoJson } from '../../core/geojson';
-import { picksToCsv } from '../../core/picks';
-import { sitePicks, summariseSite, type SiteSummary } from '../../core/site-summary';
-import { sitesToCsv } from '../../core/site-tables';
+import { CAUTION } from '../../core/shared/caution';
+import { InputError } from '../../core/shared/errors';
+import { sitesToGeoJson } from '../../core/exchange/geojson';
+import { picksToCsv } from '../../core/picks/picks';
+import { sitePicks, summariseSite, type SiteSummary } from '../../core/exchange/site-summary';
+import { sitesToCsv } from '../../core/exchange/office-tables';
 import { liveSitesAndPicks } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR } from '../store';

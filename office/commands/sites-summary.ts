@@ -4,10 +4,10 @@
  */
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { InputError } from '../../core/errors';
-import type { PickRecord } from '../../core/records';
-import { summariseSite } from '../../core/site-summary';
-import { SUMMARY_CSV_COLUMNS, summaryToCsv } from '../../core/site-tables';
+import { InputError } from '../../core/shared/errors';
+import type { PickRecord } from '../../core/exchange/records';
+import { summariseSite } from '../../core/exchange/site-summary';
+import { SUMMARY_CSV_COLUMNS, summaryToCsv } from '../../core/exchange/office-tables';
 import { liveSitesAndPicks } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR } from '../store';

@@ -16,15 +16,15 @@
  *   is rolled back, so nothing changes.
  */
 import { openDB, type IDBPDatabase, type IDBPTransaction, type StoreNames } from 'idb';
-import { InputError } from '../../core/errors';
-import { checkPickSet } from '../../core/picks';
+import { InputError } from '../../core/shared/errors';
+import { checkPickSet } from '../../core/picks/picks';
 import {
   nextRevision,
   type AnyRecord,
   type EstimateRecord,
   type PickRecord,
   type SiteRecord,
-} from '../../core/records';
+} from '../../core/exchange/records';
 import { SCHEMA_VERSION, upgradeTo, type FieldDB, type OutboxEntry } from './schema';
 import { checkEstimate, checkPick, checkRecord, checkSite, pickOf } from './validate';
 
@@ -360,7 +360,7 @@ class IdbFieldStore implements FieldStore {
   /**
    * The body of a pick save, inside its transaction: each pick's site must
    * exist, revisions must follow, and a site's live picks must stay
-   * distinct (core/picks.ts checkPickSet: one pick per frequency, kind and mode).
+   * distinct (core/picks/picks.ts checkPickSet: one pick per frequency, kind and mode).
    */
   private async pickWrites(
     tx: WriteTx<['sites', 'picks', 'outbox']>,

@@ -13,4 +13,4 @@ export {
 } from './field-store';
 export { pickOf } from './validate';
 export { SCHEMA_VERSION, type OutboxEntry, type FieldDB, type FieldDBv1 } from './schema';
-export type { AnyRecord, EstimateRecord, PickRecord, SiteRecord, EstimateSettings, SiteLocation } from '../../core/records';
+export type { AnyRecord, EstimateRecord, PickRecord, SiteRecord, EstimateSettings, SiteLocation } from '../../core/exchange/records';

@@ -18,7 +18,7 @@
  *   from v1 is queued in the outbox, because it was never sent anywhere.
  */
 import type { DBSchema, IDBPDatabase, IDBPTransaction, StoreNames } from 'idb';
-import type { EstimateRecord, PickRecord, RecordType, SiteRecord } from '../../core/records';
+import type { EstimateRecord, PickRecord, RecordType, SiteRecord } from '../../core/exchange/records';
 
 /** The current schema version. */
 export const SCHEMA_VERSION = 2;

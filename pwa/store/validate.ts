@@ -2,16 +2,16 @@
  * Checks a record before the store writes it. Every failure is an
  * InputError whose message is a full sentence naming the field; the store
  * turns it into a StoreError with the same field and words. Pick values go
- * through the core's own pick rules (core/picks.ts validatePick), speeds
- * and densities through the model checks (core/model.ts), so a typed row,
+ * through the core's own pick rules (core/picks/picks.ts validatePick), speeds
+ * and densities through the model checks (core/dispersion/model.ts), so a typed row,
  * a CSV row and a stored record all meet one rule set.
  *
  * Text limits are common practice for this tool (no published source).
  */
-import { InputError, describeValue } from '../../core/errors';
-import { checkDensity, checkShearSpeed, checkThickness } from '../../core/model';
-import { validatePick, type Pick } from '../../core/picks';
-import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, SiteRecord } from '../../core/records';
+import { InputError, describeValue } from '../../core/shared/errors';
+import { checkDensity, checkShearSpeed, checkThickness } from '../../core/dispersion/model';
+import { validatePick, type Pick } from '../../core/picks/picks';
+import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, SiteRecord } from '../../core/exchange/records';
 
 /** Text limits for site fields (common practice). */
 export const SITE_TEXT_LIMITS = { name: 200, crew: 200, notes: 10_000, id: 100 } as const;
@@ -136,7 +136,7 @@ export function checkSite(site: SiteRecord): void {
   checkEstimateSettings(site.settings);
 }
 
-/** The Pick part of a pick record (what core/picks.ts validates). */
+/** The Pick part of a pick record (what core/picks/picks.ts validates). */
 export function pickOf(r: PickRecord): Pick {
   const p: Pick = { frequency: r.frequency, velocity: r.velocity, kind: r.kind, mode: r.mode };
   if (r.period !== undefined) p.period = r.period;

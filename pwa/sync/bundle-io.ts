@@ -4,8 +4,8 @@
  * rules). Loaded lazily by the sync panel, so the schema validator (ajv)
  * stays out of the app's first download.
  */
-import { bundleFileName, bundleToJson, importSummary, makeBundle, parseBundle, planBundleImport } from '../../core/bundle';
-import { InputError } from '../../core/errors';
+import { bundleFileName, bundleToJson, importSummary, makeBundle, parseBundle, planBundleImport } from '../../core/exchange/bundle';
+import { InputError } from '../../core/shared/errors';
 import type { FieldStore } from '../store';
 
 export interface BundleFile {

@@ -1,6 +1,6 @@
 /**
  * The tablet's side of sync with the office server (protocol:
- * core/sync-protocol.ts; merge rules: core/sync.ts).
+ * core/exchange/sync-protocol.ts; merge rules: core/exchange/sync.ts).
  *
  * One sync = push, then pull:
  * 1. Push: the current version of every record named in the outbox, in
@@ -21,9 +21,9 @@
  * Nothing here touches the DOM; it runs in the page and in Node tests alike
  * (given `fetch`, an IndexedDB and, optionally, online/offline events).
  */
-import type { AnyRecord } from '../../core/records';
-import { hasConflicts, planMerge } from '../../core/sync';
-import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/sync-protocol';
+import type { AnyRecord } from '../../core/exchange/records';
+import { hasConflicts, planMerge } from '../../core/exchange/sync';
+import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/exchange/sync-protocol';
 import type { FieldStore } from '../store';
 
 /** Settings keys in the field store. */

@@ -3,16 +3,16 @@
  * list or the open site's work (picks and plot, estimate, site figures,
  * what-if, survey plan, details).
  */
-import { CAUTION } from '../../core/caution';
+import { CAUTION } from '../../core/shared/caution';
 import { useEffect, useMemo, useState } from 'preact/hooks';
-import type { LayeredModel } from '../../core/model';
+import type { LayeredModel } from '../../core/dispersion/model';
 import type { Controller } from './controller';
 import { ImportPanel, PicksTable } from './picks-table';
 import { PlotPanel } from './plot';
 import { SiteDetails } from './site-details';
 import { SitesView } from './sites-view';
 import type { AppState, ViewName } from './state';
-import { SyncPanel } from './SyncPanel';
+import { SyncPanel } from './sync-panel';
 
 type WorkViews = typeof import('./work-views');
 let workViews: Promise<WorkViews> | undefined;

@@ -3,14 +3,14 @@
  * shared abscissa, ready for uPlot's aligned data. Pure and DOM-free, so the
  * what-if bench can time it in Node.
  *
- * The curves come from the core (core/curve.ts loveCurves); this module only
+ * The curves come from the core (core/dispersion/curve.ts loveCurves); this module only
  * lays them out: one x column (frequency in Hz or period in s, ascending as
  * uPlot needs), and one y column per (mode, kind) with NaN where the mode
  * does not exist (below its cutoff).
  */
-import { logBand, loveCurves, loveCutoffFrequencies } from '../../core/curve';
-import type { LayeredModel } from '../../core/model';
-import { effectiveSd, type PickKind } from '../../core/picks';
+import { logBand, loveCurves, loveCutoffFrequencies } from '../../core/dispersion/curve';
+import type { LayeredModel } from '../../core/dispersion/model';
+import { effectiveSd, type PickKind } from '../../core/picks/picks';
 
 /** Which abscissa the plot shows. */
 export type AxisQuantity = 'frequency' | 'period';
@@ -111,7 +111,7 @@ export function pickColumns(picks: readonly PlotPick[], axis: AxisQuantity): Pic
 /**
  * The model's curves for the given keys on `frequencies` (ascending Hz),
  * laid out on one x column in the chosen quantity (period: reversed so that
- * x ascends). Computation is core/curve.ts loveCurves.
+ * x ascends). Computation is core/dispersion/curve.ts loveCurves.
  */
 export function curveColumns(
   model: LayeredModel,

@@ -9,14 +9,14 @@
  *   screen (drafts), so nothing typed is lost.
  * - A new input aborts the stale estimate (AbortController per run).
  */
-import { DEMO_SITE, demoPicks } from '../../core/demo';
-import { InputError } from '../../core/errors';
-import { checkPickSet, checkPicksCsv, pickFromCells, type Pick, type PickCells, type PickKind } from '../../core/picks';
-import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/records';
+import { DEMO_SITE, demoPicks } from '../../core/exchange/demo';
+import { InputError } from '../../core/shared/errors';
+import { checkPickSet, checkPicksCsv, pickFromCells, type Pick, type PickCells, type PickKind } from '../../core/picks/picks';
+import { nextRevision, type EstimateSettings, type PickRecord, type SiteRecord } from '../../core/exchange/records';
 import { newEstimate, newPick, newSite, pickOf, type FieldStore } from '../store';
-import { estimateSummary } from '../../core/estimate-json';
-import type { EstimateResult } from '../../core/estimate';
-import type { MisfitSlice } from '../../core/misfit-slice';
+import { estimateSummary } from '../../core/estimate/estimate-json';
+import type { EstimateResult } from '../../core/estimate/estimate';
+import type { MisfitSlice } from '../../core/estimate/misfit-slice';
 import { runEstimate, runMisfitSlice, type EstimateOutcome } from './compute';
 import {
   initialState,

@@ -3,10 +3,10 @@
  * intervals, the speeds, the alternatives, the diagnostics in plain words
  * and the misfit map. The caution text stands on every result.
  */
-import { CAUTION } from '../../core/caution';
-import type { EstimateResult, ParameterEstimate } from '../../core/estimate';
-import type { MisfitSlice } from '../../core/misfit-slice';
-import type { SiteRecord } from '../../core/records';
+import { CAUTION } from '../../core/shared/caution';
+import type { EstimateResult, ParameterEstimate } from '../../core/estimate/estimate';
+import type { MisfitSlice } from '../../core/estimate/misfit-slice';
+import type { SiteRecord } from '../../core/exchange/records';
 import { settingText, SETTING_FIELDS, type SettingKey } from './controller';
 import { num } from './format';
 import { MisfitMapView } from './misfit-map';

@@ -1,11 +1,11 @@
 /**
  * Site figures from the estimate with its uncertainty: Vs30, the classes in
  * three tables (every class the range meets, so straddling shows), f0, T0
- * and the impedance ratio. Computed by core/site.ts siteFiguresOfEstimate
+ * and the impedance ratio. Computed by core/site/site.ts siteFiguresOfEstimate
  * over the 95 % intervals.
  */
-import type { EstimateResult } from '../../core/estimate';
-import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../core/site';
+import type { EstimateResult } from '../../core/estimate/estimate';
+import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../core/site/site';
 import { Caution } from './estimate-view';
 import { num } from './format';
 

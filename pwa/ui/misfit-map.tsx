@@ -2,20 +2,20 @@
  * The misfit map as a picture, on a canvas: χ² over layer thickness and a
  * speed. A long, tilted valley is the trade-off between H and the speed.
  *
- * - With the close-up slice (core/misfit-slice.ts, computed in the worker
+ * - With the close-up slice (core/estimate/misfit-slice.ts, computed in the worker
  *   after each estimate), the shading is Δχ² above the best fit: darkest
  *   where Δχ² ≤ 2.30, medium where Δχ² ≤ 6.18 (the joint 68.3 % and 95.4 %
  *   levels for two parameters: Press et al., *Numerical Recipes*, 3rd ed.
  *   2007, §15.6.5), scaled like the estimate's intervals when the fit is
  *   poor; lighter beyond. The other free speed is held at its best value.
  * - Until then, the estimate's coarse map over the whole search box
- *   (core/estimate.ts MisfitMap), zoomed to its valley and shaded by
+ *   (core/estimate/estimate.ts MisfitMap), zoomed to its valley and shaded by
  *   log(χ²/χ²min): it shows the shape only.
  * The 95 % intervals from the profile likelihood are drawn as a dashed box.
  */
 import { useEffect, useRef } from 'preact/hooks';
-import type { MisfitMap } from '../../core/estimate';
-import type { MisfitSlice } from '../../core/misfit-slice';
+import type { MisfitMap } from '../../core/estimate/estimate';
+import type { MisfitSlice } from '../../core/estimate/misfit-slice';
 import { num } from './format';
 
 const SPAN_TEXT = 'six';

@@ -5,8 +5,8 @@
  */
 import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
-import { morePickProblemsNote, type PickKind } from '../../core/picks';
-import type { PickRecord } from '../../core/records';
+import { morePickProblemsNote, type PickKind } from '../../core/picks/picks';
+import type { PickRecord } from '../../core/exchange/records';
 import { cellText, type PickTextColumn } from './controller';
 import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from './state';
 

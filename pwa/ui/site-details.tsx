@@ -1,6 +1,6 @@
 /** A site's details: name, date, crew, notes and location. Each field saves when it changes. */
 import { useState } from 'preact/hooks';
-import type { SiteRecord } from '../../core/records';
+import type { SiteRecord } from '../../core/exchange/records';
 import type { SiteTextField } from './controller';
 import type { SiteFormError } from './state';
 

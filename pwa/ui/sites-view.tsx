@@ -1,6 +1,6 @@
 /** The list of sites: search, sort, create, the demo site; a site opens to its work. */
 import { useState } from 'preact/hooks';
-import type { SiteRecord } from '../../core/records';
+import type { SiteRecord } from '../../core/exchange/records';
 import type { SiteFormError, SiteSort } from './state';
 import { visibleSites } from './state';
 

@@ -3,10 +3,10 @@
  * change. Pure helpers here; the async work that changes it lives in
  * controller.ts.
  */
-import type { PickCells, PickKind, PickProblem } from '../../core/picks';
-import type { PickRecord, SiteRecord } from '../../core/records';
+import type { PickCells, PickKind, PickProblem } from '../../core/picks/picks';
+import type { PickRecord, SiteRecord } from '../../core/exchange/records';
 import type { AxisQuantity } from './chart-data';
-import type { MisfitSlice } from '../../core/misfit-slice';
+import type { MisfitSlice } from '../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
 
 export type ViewName = 'picks' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';

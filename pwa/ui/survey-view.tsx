@@ -1,11 +1,11 @@
 /**
  * Survey advice: from a target depth, the estimate and the picks so far,
- * what the spread and source must reach (core/survey.ts, common practice),
+ * what the spread and source must reach (core/site/survey.ts, common practice),
  * and what to change before leaving the site.
  */
-import type { EstimateResult } from '../../core/estimate';
-import type { PickRecord } from '../../core/records';
-import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../core/survey';
+import type { EstimateResult } from '../../core/estimate/estimate';
+import type { PickRecord } from '../../core/exchange/records';
+import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../core/site/survey';
 import { Caution } from './estimate-view';
 import { num, span } from './format';
 

@@ -2,9 +2,9 @@
  * What-if: sliders for H, β1, β2 and the densities move the model curves
  * against the picks, redrawn once per animation frame (plot-engine.ts).
  */
-import { chi2At, prepareEstimate, type EstimateResult } from '../../core/estimate';
-import type { LayeredModel } from '../../core/model';
-import type { PickRecord } from '../../core/records';
+import { chi2At, prepareEstimate, type EstimateResult } from '../../core/estimate/estimate';
+import type { LayeredModel } from '../../core/dispersion/model';
+import type { PickRecord } from '../../core/exchange/records';
 import { Caution } from './estimate-view';
 import { num } from './format';
 import { PlotPanel } from './plot';
@@ -57,7 +57,7 @@ export function layeredOf(m: WhatIfModel): { model?: LayeredModel; problem?: str
 
 /**
  * χ² of a what-if model against the picks: the estimate's own misfit
- * (core/estimate.ts prepareEstimate + chi2At with both speeds given).
+ * (core/estimate/estimate.ts prepareEstimate + chi2At with both speeds given).
  * Undefined without picks or for a model that cannot trap Love waves.
  */
 export function whatIfMisfit(picks: readonly PickRecord[], m: WhatIfModel): { chi2: number; n: number } | undefined {

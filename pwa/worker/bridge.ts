@@ -13,13 +13,13 @@
  *   replaced on the next call.
  */
 import { wrap, type Endpoint, type Remote } from 'comlink';
-import type { CurveOptions } from '../../core/curve';
-import { InputError } from '../../core/errors';
-import type { EstimateResult } from '../../core/estimate';
-import type { MisfitSlice, MisfitSliceOptions, SliceCentre } from '../../core/misfit-slice';
-import type { LayeredModel } from '../../core/model';
-import type { Pick } from '../../core/picks';
-import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site';
+import type { CurveOptions } from '../../core/dispersion/curve';
+import { InputError } from '../../core/shared/errors';
+import type { EstimateResult } from '../../core/estimate/estimate';
+import type { MisfitSlice, MisfitSliceOptions, SliceCentre } from '../../core/estimate/misfit-slice';
+import type { LayeredModel } from '../../core/dispersion/model';
+import type { Pick } from '../../core/picks/picks';
+import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site/site';
 import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions } from './compute-api';
 
 export type { CurvesResult, WorkerEstimateOptions } from './compute-api';
@@ -204,7 +204,7 @@ export function computeBridge(): ComputeBridge {
 
 /**
  * Love-wave dispersion curves of `model` at `frequencies` (Hz), per mode
- * as Float64Array columns (core/curve.ts loveCurves), with each mode's cutoff
+ * as Float64Array columns (core/dispersion/curve.ts loveCurves), with each mode's cutoff
  * frequency. Bad input rejects with an InputError naming the field.
  */
 export function computeCurves(
@@ -218,7 +218,7 @@ export function computeCurves(
 }
 
 /**
- * The layer-thickness estimate (core/estimate.ts estimateLayer) off the
+ * The layer-thickness estimate (core/estimate/estimate.ts estimateLayer) off the
  * main thread: thickness and speeds with 68/95 % intervals, alternatives,
  * misfit map (Float64Array columns), diagnostics and the caution. Bad picks
  * or options reject with an InputError naming the field (picks named by
@@ -233,7 +233,7 @@ export function computeEstimate(
 }
 
 /**
- * A fine χ² slice around an estimate's best fit (core/misfit-slice.ts), for
+ * A fine χ² slice around an estimate's best fit (core/estimate/misfit-slice.ts), for
  * the trade-off picture; same picks and options as the estimate.
  */
 export function computeMisfitSlice(
@@ -246,12 +246,12 @@ export function computeMisfitSlice(
   return computeBridge().call('misfitSlice', [picks, options, centre, sliceOptions], signal);
 }
 
-/** Site figures of a layered model (core/site.ts siteFigures). */
+/** Site figures of a layered model (core/site/site.ts siteFigures). */
 export function computeSiteFigures(model: LayeredModel, options: SiteOptions = {}, signal?: AbortSignal): Promise<SiteFigures> {
   return computeBridge().call('siteFigures', [model, options], signal);
 }
 
-/** Site figures of one layer over a half-space with uncertainty ranges (core/site.ts siteFiguresForRanges). */
+/** Site figures of one layer over a half-space with uncertainty ranges (core/site/site.ts siteFiguresForRanges). */
 export function computeSiteFiguresForRanges(
   best: TwoLayerBest,
   ranges: TwoLayerRanges,

@@ -8,12 +8,12 @@
  * its own module so it can also be called in-process (tests, benches).
  * Only core is imported here: no DOM, no IndexedDB.
  */
-import { loveCurves, loveCutoffFrequencies, type CurveOptions, type DispersionCurves } from '../../core/curve';
-import { InputError } from '../../core/errors';
-import { estimateLayer, type EstimateOptions, type EstimateResult } from '../../core/estimate';
-import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentre } from '../../core/misfit-slice';
-import type { LayeredModel } from '../../core/model';
-import type { Pick } from '../../core/picks';
+import { loveCurves, loveCutoffFrequencies, type CurveOptions, type DispersionCurves } from '../../core/dispersion/curve';
+import { InputError } from '../../core/shared/errors';
+import { estimateLayer, type EstimateOptions, type EstimateResult } from '../../core/estimate/estimate';
+import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentre } from '../../core/estimate/misfit-slice';
+import type { LayeredModel } from '../../core/dispersion/model';
+import type { Pick } from '../../core/picks/picks';
 import {
   siteFigures,
   siteFiguresForRanges,
@@ -21,7 +21,7 @@ import {
   type SiteOptions,
   type TwoLayerBest,
   type TwoLayerRanges,
-} from '../../core/site';
+} from '../../core/site/site';
 
 /** A failure carried across the worker boundary as plain data. */
 export interface ComputeFailure {
@@ -91,7 +91,7 @@ function coreOptions(options: WorkerEstimateOptions): EstimateOptions {
 
 /** Every computation the worker offers, on plain (structured-clone) inputs. */
 export const computeApi = {
-  /** Love-wave curves of `model` at `frequencies` (Hz), plus the modes' cutoffs (core/curve.ts). */
+  /** Love-wave curves of `model` at `frequencies` (Hz), plus the modes' cutoffs (core/dispersion/curve.ts). */
   curves(model: LayeredModel, frequencies: ArrayLike<number>, options: CurveOptions = {}): Computed<CurvesResult> {
     return run(
       () => {
@@ -102,7 +102,7 @@ export const computeApi = {
     );
   },
 
-  /** The layer-thickness estimate from picks (core/estimate.ts estimateLayer). */
+  /** The layer-thickness estimate from picks (core/estimate/estimate.ts estimateLayer). */
   estimate(picks: readonly Pick[], options: WorkerEstimateOptions = {}): Computed<EstimateResult> {
     const core = coreOptions(options);
     return run(
@@ -119,7 +119,7 @@ export const computeApi = {
     );
   },
 
-  /** A fine χ² slice around an estimate's best fit, for the trade-off picture (core/misfit-slice.ts). */
+  /** A fine χ² slice around an estimate's best fit, for the trade-off picture (core/estimate/misfit-slice.ts). */
   misfitSlice(
     picks: readonly Pick[],
     options: WorkerEstimateOptions,
@@ -133,12 +133,12 @@ export const computeApi = {
     );
   },
 
-  /** Site figures of a layered model (core/site.ts). */
+  /** Site figures of a layered model (core/site/site.ts). */
   siteFigures(model: LayeredModel, options: SiteOptions = {}): Computed<SiteFigures> {
     return run(() => siteFigures(model, options), () => []);
   },
 
-  /** Site figures of one layer over a half-space with uncertainty ranges (core/site.ts). */
+  /** Site figures of one layer over a half-space with uncertainty ranges (core/site/site.ts). */
   siteFiguresForRanges(best: TwoLayerBest, ranges: TwoLayerRanges, options: SiteOptions = {}): Computed<SiteFigures> {
     return run(() => siteFiguresForRanges(best, ranges, options), () => []);
   },

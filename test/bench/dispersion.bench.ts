@@ -4,10 +4,10 @@
  * and ≤ 10 ms for a 5-layer model; a single root in ≤ 5 µs.
  * Models are invented for the benchmark (a soft-soil site).
  */
-import { logBand, loveCurves } from '../../core/curve';
-import { lovePhaseVelocitySolve, type TwoLayer } from '../../core/love-layer';
-import { LoveStackSolver, prepareLoveStack } from '../../core/love-stack';
-import type { LayeredModel } from '../../core/model';
+import { logBand, loveCurves } from '../../core/dispersion/curve';
+import { lovePhaseVelocitySolve, type TwoLayer } from '../../core/dispersion/love-layer';
+import { LoveStackSolver, prepareLoveStack } from '../../core/dispersion/love-stack';
+import type { LayeredModel } from '../../core/dispersion/model';
 import { INVENTED_FIVE_LAYER_SITE } from '../fixtures';
 import { bench, type BenchResult } from './harness';
 

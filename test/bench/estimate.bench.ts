@@ -9,8 +9,8 @@
  * with seeded 3 % Gaussian noise (mulberry32 + Box–Muller) so the fits
  * work as on real data.
  */
-import { estimateLayer } from '../../core/estimate';
-import { mulberry32 } from '../../core/random';
+import { estimateLayer } from '../../core/estimate/estimate';
+import { mulberry32 } from '../../core/shared/random';
 import { softSitePicks } from '../fixtures';
 import { bench, type BenchResult } from './harness';
 

@@ -3,8 +3,8 @@
  * show that reading a field file and the site figures cost nothing next to
  * the estimate. Picks are invented (a soft-soil site), not measured data.
  */
-import { parsePicksCsv, picksToCsv } from '../../core/picks';
-import { siteFigures, siteFiguresForRanges } from '../../core/site';
+import { parsePicksCsv, picksToCsv } from '../../core/picks/picks';
+import { siteFigures, siteFiguresForRanges } from '../../core/site/site';
 import { bench, type BenchResult } from './harness';
 
 function invented(n: number): string {

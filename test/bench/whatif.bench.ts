@@ -2,15 +2,15 @@
  * What-if slider redraw (issue 4 §5: ≤ 16 ms median, one display frame at
  * 60 Hz): the work done per slider step before uPlot draws, in Node without
  * a DOM. That is the model's curves for every (mode, kind) the picks hold
- * (core/curve.ts loveCurves through pwa/ui/chart-data.ts curveColumns, on
+ * (core/dispersion/curve.ts loveCurves through pwa/ui/chart-data.ts curveColumns, on
  * the plot's 160-point band) and the pick columns. Each step moves H a
  * little, as a dragged slider does. uPlot's own canvas drawing is not
  * included (it needs a browser).
  */
-import { demoPicks, DEMO_MODEL } from '../../core/demo';
-import type { LayeredModel } from '../../core/model';
-import type { Pick } from '../../core/picks';
-import { chi2At, prepareEstimate } from '../../core/estimate';
+import { demoPicks, DEMO_MODEL } from '../../core/exchange/demo';
+import type { LayeredModel } from '../../core/dispersion/model';
+import type { Pick } from '../../core/picks/picks';
+import { chi2At, prepareEstimate } from '../../core/estimate/estimate';
 import { curveColumns, curveKeysOf, pickColumns, plotBand } from '../../pwa/ui/chart-data';
 import { bench, type BenchResult } from './harness';
 

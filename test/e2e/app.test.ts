@@ -5,7 +5,7 @@
  *  1. open the app;
  *  2. load the invented demo site;
  *  3. create a site and type picks into the table;
- *  4. get an estimate whose thickness matches core/estimate.ts run here on
+ *  4. get an estimate whose thickness matches core/estimate/estimate.ts run here on
  *     the same picks;
  *  5. go offline and reload: served by the service worker, every site and
  *     pick still there;
@@ -27,9 +27,9 @@ import { copyFileSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { estimateLayer } from '../../core/estimate';
-import { loveVelocities } from '../../core/love-layer';
-import type { Pick } from '../../core/picks';
+import { estimateLayer } from '../../core/estimate/estimate';
+import { loveVelocities } from '../../core/dispersion/love-layer';
+import type { Pick } from '../../core/picks/picks';
 import {
   ARTIFACT_DIR,
   openApp,
@@ -150,7 +150,7 @@ describe('the field app in Chromium', () => {
     const headline = page.getByTestId('thickness');
     await page.getByText('Up to date with the picks and settings.').waitFor({ timeout: 30_000 });
     const shown = Number(await headline.getAttribute('data-value'));
-    const core = estimateLayer(TYPED).thickness.best; // core/estimate.ts, here in Node
+    const core = estimateLayer(TYPED).thickness.best; // core/estimate/estimate.ts, here in Node
     const tol = 1e-6 * core;
     expect(Math.abs(shown - core), `app ${shown} m, core ${core} m, tolerance ${tol} m`).toBeLessThanOrEqual(tol);
     expect(await headline.textContent()).toContain(`${Number(core.toPrecision(3))} m`);

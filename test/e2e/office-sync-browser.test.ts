@@ -26,10 +26,10 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { bundleToJson, makeBundle } from '../../core/bundle';
-import { parsePicksCsv } from '../../core/picks';
-import type { AnyRecord, PickRecord, SiteRecord } from '../../core/records';
-import { canonicalJson } from '../../core/revision';
+import { bundleToJson, makeBundle } from '../../core/exchange/bundle';
+import { parsePicksCsv } from '../../core/picks/picks';
+import type { AnyRecord, PickRecord, SiteRecord } from '../../core/exchange/records';
+import { canonicalJson } from '../../core/exchange/revision';
 import { launchBrowser, reload, setOffline, VIEWPORTS, waitForServiceWorkerControl, type BrowserSession } from './harness';
 import { addDevice, cli, query, removeTempDataDirs, REPO_ROOT, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
 

@@ -6,16 +6,16 @@
  * same client inside Chromium) are in office-sync-browser.test.ts.
  *
  * Issue 5 §4 items 1–6 at the protocol level; item 7 (fuzz) is in
- * test/unit/importer-fuzz.test.ts.
+ * test/unit/core/exchange/importer-fuzz.test.ts.
  */
 import 'fake-indexeddb/auto';
 import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { parsePicksCsv } from '../../core/picks';
-import { nextRevision, type AnyRecord, type PickRecord, type SiteRecord } from '../../core/records';
-import { canonicalJson, revisionKey } from '../../core/revision';
-import { MAX_PUSH_BYTES } from '../../core/sync-protocol';
+import { parsePicksCsv } from '../../core/picks/picks';
+import { nextRevision, type AnyRecord, type PickRecord, type SiteRecord } from '../../core/exchange/records';
+import { canonicalJson, revisionKey } from '../../core/exchange/revision';
+import { MAX_PUSH_BYTES } from '../../core/exchange/sync-protocol';
 import { newPick, newSite, openFieldStore, type FieldStore } from '../../pwa/store';
 import { exportBundle, importBundleText } from '../../pwa/sync/bundle-io';
 import { SyncClient, type SyncClientOptions } from '../../pwa/sync/client';

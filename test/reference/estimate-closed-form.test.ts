@@ -12,8 +12,8 @@
  * and the estimate must agree with both. The pick values are invented.
  */
 import { describe, expect, it } from 'vitest';
-import { estimateLayer } from '../../core/estimate';
-import { loveThicknessFromPhasePick } from '../../core/love-layer';
+import { estimateLayer } from '../../core/estimate/estimate';
+import { loveThicknessFromPhasePick } from '../../core/dispersion/love-layer';
 
 function closedFormH(f: number, c: number, b1: number, b2: number, r1: number, r2: number, n: number): number {
   const eta1 = Math.sqrt(1 / (b1 * b1) - 1 / (c * c));

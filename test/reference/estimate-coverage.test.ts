@@ -11,8 +11,8 @@
  * the nominal p.
  *
  * Picks: exact velocities of an invented model (H = 12 m, β1 = 200 m/s,
- * β2 = 500 m/s) from core/love-layer.ts, plus Gaussian noise of 3 % of the
- * velocity (the sd each pick states). Noise: core/random.ts, the Mulberry32
+ * β2 = 500 m/s) from core/dispersion/love-layer.ts, plus Gaussian noise of 3 % of the
+ * velocity (the sd each pick states). Noise: core/shared/random.ts, the Mulberry32
  * uniform generator (a public-domain 32-bit generator, common practice for
  * seeded tests) and the Box–Muller transform (Box & Muller 1958, Ann. Math.
  * Stat. 29:610).
@@ -27,9 +27,9 @@
  *    Δχ² levels with 20 picks and three free parameters).
  */
 import { describe, expect, it } from 'vitest';
-import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate';
-import type { TwoLayer } from '../../core/love-layer';
-import { mulberry32 } from '../../core/random';
+import { DELTA_CHI2_68, estimateLayer, type ParameterEstimate } from '../../core/estimate/estimate';
+import type { TwoLayer } from '../../core/dispersion/love-layer';
+import { mulberry32 } from '../../core/shared/random';
 import { INVENTED_SOFT_SITE, softSitePicks } from '../fixtures';
 
 const TRUE: TwoLayer = INVENTED_SOFT_SITE;

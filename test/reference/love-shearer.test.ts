@@ -11,8 +11,8 @@
  * Tolerance 1e-9 relative (the issue's figure; the solvers reach ~1e-15).
  */
 import { describe, expect, it } from 'vitest';
-import { logBand, loveCurves, loveCutoffFrequencies } from '../../core/curve';
-import { loveStackGroupVelocity } from '../../core/group-velocity';
+import { logBand, loveCurves, loveCutoffFrequencies } from '../../core/dispersion/curve';
+import { loveStackGroupVelocity } from '../../core/dispersion/group-velocity';
 import {
   loveBranchOmega,
   loveCutoffHz,
@@ -23,9 +23,9 @@ import {
   lovePhaseVelocityNear,
   lovePhaseVelocitySolve,
   type TwoLayer,
-} from '../../core/love-layer';
-import { LoveStackSolver, loveModesBelow, loveSecular, loveStackCutoff, prepareLoveStack } from '../../core/love-stack';
-import type { LayeredModel } from '../../core/model';
+} from '../../core/dispersion/love-layer';
+import { LoveStackSolver, loveModesBelow, loveSecular, loveStackCutoff, prepareLoveStack } from '../../core/dispersion/love-stack';
+import type { LayeredModel } from '../../core/dispersion/model';
 import { SHEARER_CRUST, SHEARER_CRUST_MODEL } from '../fixtures';
 
 /** Shearer's crust over mantle (test/fixtures.ts; values and source in the header above). */

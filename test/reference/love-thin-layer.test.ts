@@ -21,8 +21,8 @@
  * extrapolate (4·c(h/2) − c(h))/3 removes at least 75 % of it (to B/1000).
  */
 import { describe, expect, it } from 'vitest';
-import { loveCurves } from '../../core/curve';
-import type { LayeredModel } from '../../core/model';
+import { loveCurves } from '../../core/dispersion/curve';
+import type { LayeredModel } from '../../core/dispersion/model';
 import { INVENTED_LVL_SITE, SHEARER_CRUST_MODEL } from '../fixtures';
 import { thinLayerModes, type TlmMode } from './thin-layer';
 

@@ -1,0 +1,149 @@
+/**
+ * Office tables as CSV (RFC 4180: quoted fields, doubled quotes, CRLF):
+ * the list of sites, and the per-site estimate summary. Numbers in SI units
+ * named in the column; text exactly as stored, except that a text cell
+ * starting with = + - @ (which a spreadsheet would run as a formula) gets a
+ * leading apostrophe (common practice, the OWASP "CSV injection" advice).
+ * Every table ends each row with the caution.
+ */
+import { CAUTION } from '../shared/caution';
+import type { PickRecord, SiteRecord } from './records';
+import type { SiteSummary } from './site-summary';
+
+function textCell(s: string | undefined): string {
+  if (s === undefined || s === '') return '';
+  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+  return /[",\r\n]/.test(safe) || safe !== safe.trim() ? `"${safe.replace(/"/g, '""')}"` : safe;
+}
+
+function numCell(x: number | undefined): string {
+  return x === undefined || Number.isNaN(x) ? '' : String(x);
+}
+
+function table(header: readonly string[], rows: string[][]): string {
+  return [header.join(','), ...rows.map((r) => r.join(','))].join('\r\n') + '\r\n';
+}
+
+/** The columns of the sites table, in order. */
+export const SITES_CSV_COLUMNS = [
+  'site_id',
+  'name',
+  'date',
+  'crew',
+  'lat_deg',
+  'lon_deg',
+  'location_accuracy_m',
+  'location_source',
+  'axis_unit',
+  'picks',
+  'rev',
+  'updated_at',
+  'conflicts',
+  'notes',
+  'caution',
+] as const;
+
+/** Every live (not deleted) site, one row each, sorted by date then name. */
+export function sitesToCsv(sites: readonly SiteRecord[], picks: readonly PickRecord[]): string {
+  const counts = new Map<string, number>();
+  for (const p of picks) if (!p.deleted) counts.set(p.siteId, (counts.get(p.siteId) ?? 0) + 1);
+  const live = sites.filter((s) => !s.deleted).sort((a, b) => a.date.localeCompare(b.date) || a.name.localeCompare(b.name) || a.id.localeCompare(b.id));
+  return table(
+    SITES_CSV_COLUMNS,
+    live.map((s) => [
+      textCell(s.id),
+      textCell(s.name),
+      textCell(s.date),
+      textCell(s.crew),
+      numCell(s.location?.lat),
+      numCell(s.location?.lon),
+      numCell(s.location?.accuracy_m),
+      textCell(s.location?.source),
+      s.axisUnit,
+      String(counts.get(s.id) ?? 0),
+      String(s.rev),
+      textCell(s.updatedAt),
+      String(s.conflicts?.length ?? 0),
+      textCell(s.notes),
+      textCell(CAUTION),
+    ]),
+  );
+}
+
+/** The columns of the summary table, in order. */
+export const SUMMARY_CSV_COLUMNS = [
+  'site_id',
+  'name',
+  'date',
+  'picks',
+  'status',
+  'thickness_m',
+  'thickness_68_low_m',
+  'thickness_68_high_m',
+  'thickness_95_low_m',
+  'thickness_95_high_m',
+  'vs1_m_s',
+  'vs1_95_low_m_s',
+  'vs1_95_high_m_s',
+  'vs2_m_s',
+  'vs2_95_low_m_s',
+  'vs2_95_high_m_s',
+  'vs30_m_s',
+  'vs30_low_m_s',
+  'vs30_high_m_s',
+  'vs100ft_m_s',
+  'class_asce7_16',
+  'class_asce7_22',
+  'class_en1998_1',
+  'f0_hz',
+  'f0_low_hz',
+  'f0_high_hz',
+  'warnings',
+  'caution',
+] as const;
+
+/**
+ * The estimate summary table, one row per site. Speeds given (fixed) show
+ * equal bounds; an interval open towards depth shows Infinity. Classes
+ * list every class the 95 % range allows, slowest first, joined by "/".
+ * `warnings` joins the plain-words warnings (or the reason there is no
+ * estimate) with " | ".
+ */
+export function summaryToCsv(summaries: readonly SiteSummary[]): string {
+  return table(
+    SUMMARY_CSV_COLUMNS,
+    summaries.map((s) => {
+      const f = s.figures;
+      return [
+        textCell(s.siteId),
+        textCell(s.name),
+        textCell(s.date),
+        String(s.pickCount),
+        s.status,
+        numCell(s.thickness?.best),
+        numCell(s.thickness?.low68),
+        numCell(s.thickness?.high68),
+        numCell(s.thickness?.low95),
+        numCell(s.thickness?.high95),
+        numCell(s.vs1?.best),
+        numCell(s.vs1?.low95),
+        numCell(s.vs1?.high95),
+        numCell(s.vs2?.best),
+        numCell(s.vs2?.low95),
+        numCell(s.vs2?.high95),
+        numCell(f?.vs30.best),
+        numCell(f?.vs30.low),
+        numCell(f?.vs30.high),
+        numCell(f?.vs100ft.best),
+        textCell(f?.classes.asce7_16.join('/')),
+        textCell(f?.classes.asce7_22.join('/')),
+        textCell(f?.classes.en1998_1.join('/')),
+        numCell(f?.f0_hz.best),
+        numCell(f?.f0_hz.low),
+        numCell(f?.f0_hz.high),
+        textCell((s.message ? [s.message, ...s.warnings] : s.warnings).join(' | ')),
+        textCell(s.caution),
+      ];
+    }),
+  );
+}

@@ -1,0 +1,120 @@
+/**
+ * The stored records: what the field app keeps in IndexedDB, what a site
+ * bundle carries and what the office store holds. One shape everywhere, so
+ * that merge rules (sync) live in core and every side agrees on them.
+ *
+ * Every record has a stable id (a random UUID made where it was created)
+ * and a revision counter `rev` that goes up by one on every saved change.
+ */
+import type { Pick } from '../picks/picks';
+import { historyAfter } from './revision';
+
+export interface RecordMeta {
+  /** Stable id, a UUID; never reused. */
+  id: string;
+  /** Revision counter: 1 when created, +1 on every saved change. */
+  rev: number;
+  /** When this revision was saved, ISO 8601 (UTC). */
+  updatedAt: string;
+  /** A deletion is a revision too (a tombstone), so that it syncs. */
+  deleted?: boolean;
+  /**
+   * Lineage for sync (core/exchange/revision.ts, core/exchange/sync.ts): the revision keys
+   * (`"<rev>-<hash>"`) this revision was made from, oldest first, at most
+   * 64. Set by `nextRevision`; absent on a first revision.
+   */
+  history?: string[];
+  /**
+   * Other versions of this record made concurrently elsewhere (the same
+   * record edited on two devices from the same revision). Both are kept:
+   * this record is the one shown, these wait for review. Set only by the
+   * merge rules (core/exchange/sync.ts); cleared by `resolveConflict`.
+   */
+  conflicts?: ConflictVersion[];
+}
+
+/** A concurrent version kept beside the shown one, for review (core/exchange/sync.ts). */
+export interface ConflictVersion {
+  /** Its revision key, `"<rev>-<hash>"`. */
+  key: string;
+  /** Where it came from, when known (a device name or a bundle), for the reviewer. */
+  from?: string;
+  /** The version itself, without its own `conflicts`. */
+  record: Omit<AnyRecord, 'conflicts'>;
+}
+
+/** A site location in WGS 84 degrees (as GeoJSON, RFC 7946, expects). */
+export interface SiteLocation {
+  lat: number;
+  lon: number;
+  /** Horizontal accuracy, m, when the device reported one. */
+  accuracy_m?: number;
+  /** Where the position came from. */
+  source: 'device' | 'typed';
+}
+
+/** What the crew states as known before estimating; omitted speeds are free. */
+export interface EstimateSettings {
+  /** Known layer shear speed, m/s; undefined = free. */
+  vs1?: number;
+  /** Known half-space shear speed, m/s; undefined = free. */
+  vs2?: number;
+  /** Layer density, kg/m³; undefined = documented default. */
+  density1?: number;
+  /** Half-space density, kg/m³; undefined = documented default. */
+  density2?: number;
+  /** Search bounds, m and m/s. */
+  thicknessRange?: [number, number];
+  vs1Range?: [number, number];
+  vs2Range?: [number, number];
+}
+
+export interface SiteRecord extends RecordMeta {
+  type: 'site';
+  name: string;
+  /** Survey date, YYYY-MM-DD. */
+  date: string;
+  crew: string;
+  notes: string;
+  location?: SiteLocation;
+  /** How picks are entered and shown for this site. */
+  axisUnit: 'hz' | 's';
+  settings: EstimateSettings;
+}
+
+export interface PickRecord extends RecordMeta, Omit<Pick, 'id'> {
+  type: 'pick';
+  siteId: string;
+  /** Position in the site's table (rows keep the crew's order). */
+  order: number;
+}
+
+/** A saved estimate summary (the full result is recomputed on demand). */
+export interface EstimateRecord extends RecordMeta {
+  type: 'estimate';
+  siteId: string;
+  settings: EstimateSettings;
+  /** Compact JSON-safe summary of the result, as the CLI prints it. */
+  summary: Record<string, unknown>;
+  computedAt: string;
+}
+
+export type AnyRecord = SiteRecord | PickRecord | EstimateRecord;
+export type RecordType = AnyRecord['type'];
+
+/**
+ * A new revision of a record: same id, rev + 1, fresh time, and `history`
+ * extended by the key of the revision it was made from (so sync can tell an
+ * edit of what the office has from a concurrent one). Records are immutable.
+ */
+export function nextRevision<T extends AnyRecord>(record: T, changes: Partial<Omit<T, 'id' | 'rev' | 'type' | 'history'>>, now = new Date()): T {
+  return {
+    ...record,
+    ...changes,
+    id: record.id,
+    type: record.type,
+    rev: record.rev + 1,
+    updatedAt: now.toISOString(),
+    history: historyAfter(record),
+  };
+}
