@@ -139,6 +139,13 @@ export function prepareEstimate(picks: readonly Pick[], options: EstimateOptions
   }
   const clean = picks.map((p, i) => validatePick(p, whereOf(i)));
   checkPickSet(clean, whereOf);
+  const rayleigh = clean.findIndex((p) => p.wave === 'rayleigh');
+  if (rayleigh >= 0) {
+    throw new InputError(
+      `${whereOf(rayleigh)}, wave`,
+      `${whereOf(rayleigh).charAt(0).toUpperCase() + whereOf(rayleigh).slice(1)} is a Rayleigh pick, but the one-layer Love estimate models Love waves only; the layered estimate takes Rayleigh picks.`,
+    );
+  }
 
   const vs1 = options.vs1 === undefined ? NaN : checkShearSpeed(options.vs1, label(options, 'vs1'));
   const vs2 = options.vs2 === undefined ? NaN : checkShearSpeed(options.vs2, label(options, 'vs2'));

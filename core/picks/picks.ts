@@ -12,6 +12,7 @@
  *   sd_m_s                    optional; empty = the default below
  *   kind                      optional; group | phase; empty = group
  *   mode                      optional; integer ≥ 0; empty = 0
+ *   wave                      optional; love | rayleigh; empty = love
  *   id, note, time            optional text (time as ISO 8601)
  *
  * Columns may come in any order; header names are matched without regard
@@ -30,6 +31,8 @@ import { InputError, describeValue } from '../shared/errors';
 import { MODEL_BOUNDS } from '../dispersion/model';
 
 export type PickKind = 'group' | 'phase';
+/** Which surface wave was picked: Love (SH, horizontal transverse geophones) or Rayleigh (P-SV, vertical geophones). */
+export type PickWave = 'love' | 'rayleigh';
 
 /** One dispersion pick, in SI units. */
 export interface Pick {
@@ -45,6 +48,8 @@ export interface Pick {
   kind: PickKind;
   /** Mode number, 0 = fundamental. @default 0 */
   mode: number;
+  /** Which wave was picked; absent means Love (files written before the column existed). @default 'love' */
+  wave?: PickWave;
   /** One standard deviation of the velocity, m/s, when the pick gave one. */
   sd?: number;
   /** Free text. Shown as text, never as markup. */
@@ -59,6 +64,11 @@ export interface Pick {
  * from a published standard. Every output that used it says so.
  */
 export const DEFAULT_SD_FRACTION = 0.03;
+
+/** The pick's wave type: its own, or Love when it gives none. */
+export function pickWave(pick: Pick): PickWave {
+  return pick.wave ?? 'love';
+}
 
 /** The pick's standard deviation in m/s: its own, or the default fraction of its velocity. */
 export function effectiveSd(pick: Pick): number {
@@ -104,6 +114,7 @@ export const PICK_COLUMNS = [
   'sd_m_s',
   'kind',
   'mode',
+  'wave',
   'id',
   'note',
   'time',
@@ -269,6 +280,11 @@ export function validatePick(pick: Pick, where: string): Pick {
     fail(where, 'mode', `is ${mode}, above the limit of ${PICK_LIMITS.modeMax}.`);
   }
 
+  const wave = pick.wave;
+  if (wave !== undefined && wave !== 'love' && wave !== 'rayleigh') {
+    fail(where, 'wave', `must be "love" or "rayleigh", but it is ${describeValue(wave)}.`);
+  }
+
   const id = checkText(pick.id, where, 'id', PICK_LIMITS.maxFieldLength);
   const note = checkText(pick.note, where, 'note', PICK_LIMITS.maxNoteLength);
   const time = checkText(pick.time, where, 'time', PICK_LIMITS.maxFieldLength);
@@ -279,6 +295,7 @@ export function validatePick(pick: Pick, where: string): Pick {
   const out: Pick = { frequency, velocity, kind, mode };
   if (period !== undefined) out.period = period;
   if (sd !== undefined) out.sd = sd;
+  if (wave !== undefined) out.wave = wave;
   if (id !== undefined) out.id = id;
   if (note !== undefined) out.note = note;
   if (time !== undefined) out.time = time;
@@ -307,7 +324,7 @@ function* pickSetProblems(
   const ids = new Map<string, number>();
   for (let i = 0; i < picks.length; i++) {
     const p = picks[i];
-    const key = `${p.kind}|${p.mode}|${p.frequency}`;
+    const key = `${pickWave(p)}|${p.kind}|${p.mode}|${p.frequency}`;
     const prior = seen.get(key);
     if (prior !== undefined) {
       const column = p.period !== undefined ? 'period_s' : 'frequency_hz';
@@ -317,7 +334,7 @@ function* pickSetProblems(
         error: problem(
           whereOf(i),
           column,
-          `repeats ${value} for a ${p.kind} pick of mode ${p.mode}, already given in ${whereOf(prior)}; keep one pick per frequency, kind and mode.`,
+          `repeats ${value} for a ${p.wave === 'rayleigh' ? 'Rayleigh ' : ''}${p.kind} pick of mode ${p.mode}, already given in ${whereOf(prior)}; keep one pick per frequency, kind and mode${p.wave === 'rayleigh' ? ' of each wave' : ''}.`,
         ),
       };
     } else {
@@ -434,6 +451,12 @@ function pickFromCellsInner(
   }
   const mode = modeText === '' ? 0 : Number(modeText);
 
+  const waveText = (cells.wave ?? '').trim().toLowerCase();
+  if (waveText !== '' && waveText !== 'love' && waveText !== 'rayleigh') {
+    fail(where, 'wave', `must be "love" or "rayleigh" (empty means love), but it is ${describeValue(cells.wave)}.`);
+  }
+  const wave: PickWave | undefined = waveText === '' ? undefined : (waveText as PickWave);
+
   const text = (column: 'id' | 'note' | 'time'): string | undefined => {
     const v = cells[column];
     return v === undefined || v === '' ? undefined : v;
@@ -445,6 +468,7 @@ function pickFromCellsInner(
       velocity: velocity as number,
       kind,
       mode,
+      wave,
       sd,
       id: text('id'),
       note: text('note'),
@@ -884,7 +908,8 @@ export interface PicksCsvOptions {
  * Numbers use JavaScript's shortest round-trip text. The abscissa column is
  * period_s when every pick was entered as a period, else frequency_hz (a
  * pick entered as a period then loses only its period field). id, note and
- * time columns appear when any pick has them. Text is written as given,
+ * time columns appear when any pick has them; the wave column when any pick
+ * states its wave (an empty cell reads back as Love). Text is written as given,
  * quoted when it holds a separator, quote, line break or edge spaces;
  * nothing in it is interpreted. Text starting with = + - @ is not altered
  * (that would break the exact round trip), so a spreadsheet may treat it as
@@ -899,6 +924,7 @@ export function picksToCsv(picks: readonly Pick[], options: PicksCsvOptions = {}
   }
   const usePeriod = picks.length > 0 && picks.every((p) => p.period !== undefined);
   const columns: PickColumn[] = [usePeriod ? 'period_s' : 'frequency_hz', 'velocity_m_s', 'sd_m_s', 'kind', 'mode'];
+  if (picks.some((p) => p.wave !== undefined)) columns.push('wave');
   for (const c of ['id', 'note', 'time'] as const) {
     if (picks.some((p) => p[c] !== undefined && p[c] !== '')) columns.push(c);
   }
@@ -928,6 +954,8 @@ export function picksToCsv(picks: readonly Pick[], options: PicksCsvOptions = {}
           return p.kind;
         case 'mode':
           return String(p.mode);
+        case 'wave':
+          return p.wave ?? '';
         default:
           return quote(p[c] === '' ? undefined : p[c]);
       }

@@ -402,6 +402,11 @@ describe('bad input is an InputError naming the field', () => {
       () => estimateLayer([picks[0], { ...picks[0] }], { vs1: 200, vs2: 500 }),
       /Pick 2, column frequency_hz: repeats/,
     ],
+    [
+      'a Rayleigh pick (this estimate is for Love waves)',
+      () => estimateLayer([picks[0], { ...picks[1], wave: 'rayleigh' }], { vs1: 200, vs2: 500 }),
+      /^Pick 2 is a Rayleigh pick, but the one-layer Love estimate models Love waves only; the layered estimate takes Rayleigh picks\.$/,
+    ],
     ['vs2 not above vs1', () => estimateLayer(picks, { vs1: 300, vs2: 250 }), /vs2 is 250 m\/s, but it must be faster than vs1 \(300 m\/s\)/],
     ['vs1 in km/s', () => estimateLayer(picks, { vs1: 0.2 }), /vs1 is 0\.2 m\/s, below the 30 m\/s lower bound for shear speed\. It looks like km\/s/],
     ['vs2 NaN', () => estimateLayer(picks, { vs2: NaN }), /vs2 must be a finite number, but it is NaN/],

@@ -122,7 +122,7 @@ describe('checkPicksCsv: every bad row is listed with its row, line and column',
           line: 1,
           column: '',
           field: 'header',
-          message: 'Line 1: unknown column "colour". Known columns: frequency_hz, period_s, velocity_m_s, sd_m_s, kind, mode, id, note, time.',
+          message: 'Line 1: unknown column "colour". Known columns: frequency_hz, period_s, velocity_m_s, sd_m_s, kind, mode, wave, id, note, time.',
         },
       ],
       [

@@ -172,7 +172,7 @@ describe('parsePicksCsv: bad files name the row, its line and the column', () =>
       'Line 1: unknown column "frequency"; give the unit in the name: frequency_hz.',
     );
     expect(bad('frequency_hz,velocity_m_s,colour\n5,300,red\n').message).toBe(
-      'Line 1: unknown column "colour". Known columns: frequency_hz, period_s, velocity_m_s, sd_m_s, kind, mode, id, note, time.',
+      'Line 1: unknown column "colour". Known columns: frequency_hz, period_s, velocity_m_s, sd_m_s, kind, mode, wave, id, note, time.',
     );
   });
 
@@ -458,6 +458,41 @@ describe('validatePick and pickFromCells: the same rules for a typed row', () =>
   });
 });
 
+describe('the wave column: Love by default, Rayleigh when stated', () => {
+  it('reads love and rayleigh in any case, and leaves an empty cell (or no column) as Love', () => {
+    const r = parsePicksCsv('frequency_hz,velocity_m_s,wave\n5,320,Rayleigh\n6,300,\n7,290,love\n');
+    expect(r.picks.map((p) => p.wave)).toEqual(['rayleigh', undefined, 'love']);
+    expect(parsePicksCsv('frequency_hz,velocity_m_s\n5,320\n').picks[0].wave).toBeUndefined();
+  });
+
+  it('rejects another wave name, naming the row, line and column', () => {
+    expect(inputError(() => parsePicksCsv('frequency_hz,velocity_m_s,wave\n5,320,scholte\n')).message).toBe(
+      'Row 1 (line 2), column wave: must be "love" or "rayleigh" (empty means love), but it is "scholte".',
+    );
+    expect(inputError(() => validatePick({ frequency: 5, velocity: 300, kind: 'group', mode: 0, wave: 'sh' as never }, 'pick 1')).message).toBe(
+      'Pick 1, column wave: must be "love" or "rayleigh", but it is "sh".',
+    );
+  });
+
+  it('allows a Love and a Rayleigh pick at the same frequency, kind and mode, but not two Rayleigh picks', () => {
+    const two = parsePicksCsv('frequency_hz,velocity_m_s,wave\n5,320,love\n5,300,rayleigh\n');
+    expect(two.picks).toHaveLength(2);
+    expect(inputError(() => parsePicksCsv('frequency_hz,velocity_m_s,wave\n5,320,rayleigh\n5,300,rayleigh\n')).message).toBe(
+      'Row 2 (line 3), column frequency_hz: repeats 5 Hz for a Rayleigh group pick of mode 0, already given in row 1 (line 2); keep one pick per frequency, kind and mode of each wave.',
+    );
+  });
+
+  it('writes the wave column only when a pick states its wave', () => {
+    expect(picksToCsv([{ frequency: 5, velocity: 300, kind: 'group', mode: 0 }])).toBe('frequency_hz,velocity_m_s,sd_m_s,kind,mode\r\n5,300,,group,0\r\n');
+    expect(
+      picksToCsv([
+        { frequency: 5, velocity: 300, kind: 'group', mode: 0, wave: 'rayleigh' },
+        { frequency: 6, velocity: 280, kind: 'phase', mode: 0 },
+      ]),
+    ).toBe('frequency_hz,velocity_m_s,sd_m_s,kind,mode,wave\r\n5,300,,group,0,rayleigh\r\n6,280,,phase,0,\r\n');
+  });
+});
+
 describe('picksToCsv: round trip', () => {
   const text = fc
     .string({ unit: 'grapheme', minLength: 1, maxLength: 40 })
@@ -471,6 +506,7 @@ describe('picksToCsv: round trip', () => {
       sdFraction: optional(fc.double({ min: 0.001, max: 0.5, noNaN: true })),
       kind: fc.constantFrom('group' as const, 'phase' as const),
       mode: fc.integer({ min: 0, max: 5 }),
+      wave: optional(fc.constantFrom('love' as const, 'rayleigh' as const)),
       note: optional(text),
       time: optional(fc.constantFrom('2026-05-04', '2026-05-04T10:30:00Z', '2026-05-04T10:30:00.125+02:00')),
     })
@@ -480,6 +516,7 @@ describe('picksToCsv: round trip', () => {
         ? { frequency: 1 / (1 / r.x), period: 1 / r.x, velocity: r.velocity, kind: r.kind, mode: r.mode }
         : { frequency: r.x, velocity: r.velocity, kind: r.kind, mode: r.mode };
       if (r.sdFraction !== undefined) p.sd = r.sdFraction * r.velocity;
+      if (r.wave !== undefined) p.wave = r.wave;
       if (r.note !== undefined) p.note = r.note;
       if (r.time !== undefined) p.time = r.time;
       return p;
@@ -490,7 +527,7 @@ describe('picksToCsv: round trip', () => {
       .uniqueArray(pickArb.map((p) => (allPeriod ? toPeriod(p) : p)), {
         minLength: 1,
         maxLength: 30,
-        selector: (p) => `${p.kind}|${p.mode}|${p.frequency}`,
+        selector: (p) => `${p.wave ?? 'love'}|${p.kind}|${p.mode}|${p.frequency}`,
       })
       .map((ps) => ps.map((p, i) => ({ ...p, id: `pick-${i}` })));
 
