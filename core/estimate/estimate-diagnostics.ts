@@ -1,7 +1,9 @@
 /**
  * Plain-word diagnostics for a layer-thickness estimate (estimate.ts).
  *
- * What it checks at the best model, each as a sentence and as data:
+ * What it checks at the best model, each as a sentence and as data (the
+ * sentences are ordered by consequence, CONSEQUENCE below: what makes the
+ * answer unusable first, notes on defaults last):
  *  - χ²/dof against the χ² distribution's 5 % and 95 % points
  *    (Wilson–Hilferty approximation, below);
  *  - picks that used the default standard deviation (common practice);
@@ -46,6 +48,26 @@ export function chi2Lower05(dof: number): number {
 /** Residual beyond which a pick is named as an outlier, in standard deviations. */
 export const OUTLIER_SIGMA = 3;
 
+/**
+ * Rank of each finding, worst first: a thickness the picks cannot see or
+ * bound makes the answer unusable; several models or a poor fit make it
+ * doubtful; a doubtful pick may move it; the rest are notes.
+ */
+export const CONSEQUENCE = {
+  beyondDepth: 0,
+  thicknessOpen: 1,
+  severalMinima: 2,
+  poorFit: 3,
+  untestableFit: 3,
+  modeDoubt: 4,
+  outlier: 5,
+  outsideTrapping: 6,
+  speedOpen: 7,
+  tooGoodFit: 8,
+  consistentFit: 9,
+  defaults: 10,
+} as const;
+
 export interface PickNote {
   /** Pick index (input order). */
   index: number;
@@ -53,7 +75,7 @@ export interface PickNote {
 }
 
 export interface EstimateDiagnostics {
-  /** Every finding below as a plain sentence, in the order listed. */
+  /** Every finding below as a plain sentence, worst first (CONSEQUENCE). */
   sentences: string[];
   /** 'consistent' | 'poor' (χ² above its 95 % point) | 'too-good' (below its 5 % point) | 'untestable' (dof = 0). */
   fit: 'consistent' | 'poor' | 'too-good' | 'untestable';
@@ -68,6 +90,8 @@ export interface EstimateDiagnostics {
    * (λ/2, common practice).
    */
   longestWavelength: number;
+  /** Shortest picked wavelength, m (same rule). */
+  shortestWavelength: number;
   resolvedDepth: number;
   /** False when the best thickness is deeper than resolvedDepth. */
   thicknessResolved: boolean;
@@ -109,42 +133,47 @@ function airyMinimum(m: TwoLayer, mode: number): number {
 
 export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   const { problem: P, model: m, pickFit, chi2, dof } = input;
-  const sentences: string[] = [];
+  const ranked: Array<{ rank: number; text: string }> = [];
+  const say = (rank: number, text: string) => void ranked.push({ rank, text });
 
   // χ²/dof.
   let fit: EstimateDiagnostics['fit'];
   if (dof === 0) {
     fit = 'untestable';
-    sentences.push(
-      `χ² = ${fmt(chi2)} with no degrees of freedom left (as many picks as free parameters), so the fit cannot be tested; add picks.`,
+    say(
+      CONSEQUENCE.untestableFit,
+      `There are as many picks as free parameters, so the fit cannot be tested; add picks (χ² = ${fmt(chi2)} with no degrees of freedom left).`,
     );
   } else {
     const hi = chi2Upper95(dof);
     const lo = chi2Lower05(dof);
-    const head = `χ²/dof = ${fmt(chi2 / dof)} (χ² = ${fmt(chi2)} with ${dof} degrees of freedom)`;
+    const stats = `χ²/dof = ${fmt(chi2 / dof)}, χ² = ${fmt(chi2)} with ${dof} degrees of freedom`;
     if (chi2 > hi) {
       fit = 'poor';
-      sentences.push(
-        `${head}: the picks scatter more than their standard deviations allow (95 % point ${fmt(hi)}); the standard deviations may be too small, ` +
-          `a pick may be on another mode, or one layer over a half-space may be too simple. The interval levels were widened by χ²/dof = ${fmt(input.scale)}.`,
+      say(
+        CONSEQUENCE.poorFit,
+        `The picks scatter more than their standard deviations allow (${stats}, above its 95 % point ${fmt(hi)}): the standard deviations may be too small, ` +
+          `a pick may be on another mode, or one layer over a half-space may be too simple; the intervals were widened by a factor of ${fmt(input.scale)} on χ² to allow for it.`,
       );
     } else if (chi2 < lo) {
       fit = 'too-good';
-      sentences.push(
-        `${head}: the picks scatter less than their standard deviations suggest (5 % point ${fmt(lo)}); the standard deviations may be too large, so the intervals may be too wide.`,
+      say(
+        CONSEQUENCE.tooGoodFit,
+        `The picks scatter less than their standard deviations suggest (${stats}, below its 5 % point ${fmt(lo)}): the standard deviations may be too large, so the intervals may be too wide.`,
       );
     } else {
       fit = 'consistent';
-      sentences.push(`${head}: the fit is consistent with the picks' standard deviations.`);
+      say(CONSEQUENCE.consistentFit, `The fit is consistent with the picks' standard deviations (${stats}).`);
     }
   }
 
-  if (input.defaultedSdCount > 0) sentences.push(defaultSdNote(input.defaultedSdCount, P.n));
+  if (input.defaultedSdCount > 0) say(CONSEQUENCE.defaults, defaultSdNote(input.defaultedSdCount, P.n));
   if (input.density1Defaulted || input.density2Defaulted) {
     const parts: string[] = [];
     if (input.density1Defaulted) parts.push(`${P.rho1} kg/m³ for the layer`);
     if (input.density2Defaulted) parts.push(`${P.rho2} kg/m³ for the half-space`);
-    sentences.push(
+    say(
+      CONSEQUENCE.defaults,
       `No density was given, so the estimate used ${parts.join(' and ')} (common practice for soils and stiffer ground); Love-wave dispersion depends on density only weakly.`,
     );
   }
@@ -155,7 +184,8 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     const z = pickFit.normalised[i];
     if (Math.abs(z) > OUTLIER_SIGMA) {
       outliers.push({ index: i, label: P.labels[i], normalised: z });
-      sentences.push(
+      say(
+        CONSEQUENCE.outlier,
         `${describePick(P, i)} misfits the best model by ${fmt(z)} standard deviations (predicted ${fmt(pickFit.predicted[i])} m/s); check the pick.`,
       );
     }
@@ -173,7 +203,8 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     if (P.mode[i] >= modesHere) {
       const cutoffHz = loveCutoffHz(m, P.mode[i]);
       belowCutoff.push({ index: i, label: P.labels[i], cutoffHz });
-      sentences.push(
+      say(
+        CONSEQUENCE.modeDoubt,
         `${describePick(P, i)} lies below the cutoff of mode ${P.mode[i]} (${fmt(cutoffHz)} Hz) in the best model, so that mode does not exist there; the pick may belong to a lower mode.`,
       );
     }
@@ -190,7 +221,8 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
       }
       if (bestMode >= 0 && Math.abs(bestZ) < Math.abs(own) / 2) {
         betterMode.push({ index: i, label: P.labels[i], mode: bestMode, normalised: bestZ, ownNormalised: own });
-        sentences.push(
+        say(
+          CONSEQUENCE.modeDoubt,
           `${describePick(P, i)} fits mode ${bestMode} of the best model better (${fmt(bestZ)} σ against ${fmt(own)} σ for mode ${P.mode[i]}); check its mode number.`,
         );
       }
@@ -209,24 +241,25 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     }
     if (reason) {
       outsideTrapping.push({ index: i, label: P.labels[i], reason });
-      sentences.push(`${describePick(P, i)} lies outside what the best model can carry: ${reason}.`);
+      say(CONSEQUENCE.outsideTrapping, `${describePick(P, i)} lies outside what the best model can carry: ${reason}.`);
     }
   }
 
   // Several minima.
   if (input.alternatives.length > 1) {
     const list = input.alternatives
-      .map((a) => `H = ${fmt(a.thickness.best)} m, vs1 = ${fmt(a.vs1.best)} m/s, vs2 = ${fmt(a.vs2.best)} m/s (Δχ² = ${fmt(a.deltaChi2)})`)
+      .map((a) => `H = ${fmt(a.thickness.best)} m, β1 = ${fmt(a.vs1.best)} m/s, β2 = ${fmt(a.vs2.best)} m/s (Δχ² = ${fmt(a.deltaChi2)})`)
       .join('; ');
-    sentences.push(
-      `The picks fit ${input.alternatives.length} separate models within Δχ² = 3.84: ${list}. The headline intervals span them all. ` +
-        'Picks on both sides of the group-velocity minimum, phase-velocity picks or lower frequencies would tell them apart.',
+    say(
+      CONSEQUENCE.severalMinima,
+      `The picks fit ${input.alternatives.length} separate models almost equally well (within Δχ² = 3.84 of the best): ${list}; the headline intervals span them all, ` +
+        'and picks on both sides of the group-velocity minimum, phase-velocity picks or lower frequencies would tell them apart.',
     );
   }
 
   // Parameters the picks do not constrain.
   const unconstrained: EstimateDiagnostics['unconstrained'] = [];
-  const names = { thickness: ['thickness', 'm'], vs1: ['layer speed vs1', 'm/s'], vs2: ['half-space speed vs2', 'm/s'] } as const;
+  const names = { thickness: ['thickness', 'm'], vs1: ['layer speed β1', 'm/s'], vs2: ['half-space speed β2', 'm/s'] } as const;
   for (const key of ['thickness', 'vs1', 'vs2'] as const) {
     const e = input.estimates[key];
     if (!e.free || !(e.openLow || e.openHigh)) continue;
@@ -243,7 +276,7 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     if (key === 'vs2') why = ' Picks at longer wavelengths (lower frequencies), which reach below the layer, would constrain it.';
     if (key === 'thickness' && side !== 'low') why = ' Longer-wavelength picks would constrain it.';
     if (key === 'thickness' && side === 'low') why = ' Shorter-wavelength (higher-frequency) picks, which sample the layer alone, would constrain it.';
-    sentences.push(`The picks do not constrain the ${name}: the 95 % interval is open, fitting ${where}.${why}`);
+    say(key === 'thickness' ? CONSEQUENCE.thicknessOpen : CONSEQUENCE.speedOpen, `The picks do not constrain the ${name}: the 95 % interval is open, fitting ${where}.${why}`);
   }
 
   // Depth resolution (common practice, shared/PHYSICS.md §8).
@@ -251,10 +284,12 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   // best model's (of the pick's mode) for group picks.
   const wavelengths = new Float64Array(P.n);
   let longestWavelength = 0;
+  let shortestWavelength = Infinity;
   for (let i = 0; i < P.n; i++) {
     const c = P.isPhase[i] ? P.v[i] : predictVelocity(m, P.f[i], P.mode[i], true);
     wavelengths[i] = c / P.f[i];
     longestWavelength = Math.max(longestWavelength, wavelengths[i]);
+    shortestWavelength = Math.min(shortestWavelength, wavelengths[i]);
   }
   const resolvedDepth = longestWavelength / 2;
   const h = input.estimates.thickness.best;
@@ -263,17 +298,23 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     let advice = '';
     if (h <= 1000) {
       const a = surveyAdvice({ targetDepth: h, model: m, pickedWavelengths: wavelengths });
-      const fText = Number.isFinite(a.lowestFrequency[1]) ? `, i.e. picks down to about ${fmt(a.lowestFrequency[1])} Hz` : '';
+      // lowestFrequency is [for the safe 3H, for 2H]: the safe one is the lower frequency.
+      const fText = Number.isFinite(a.lowestFrequency[1])
+        ? `, i.e. picks down to about ${fmt(a.lowestFrequency[1])} Hz` + (Number.isFinite(a.lowestFrequency[0]) ? ` (${fmt(a.lowestFrequency[0])} Hz to be safe)` : '')
+        : '';
       advice =
         ` To resolve it, pick wavelengths of at least ${fmt(a.wavelength[0])} m (2H; ${fmt(a.wavelength[1])} m to be safe)${fText}, ` +
         `with a spread of at least ${fmt(a.spreadLength[0])} m (${fmt(a.spreadLength[1])} m advised). ${a.note}`;
     }
-    sentences.push(
+    say(
+      CONSEQUENCE.beyondDepth,
       `The best thickness, ${fmt(h)} m, is deeper than half the longest picked wavelength (${fmt(longestWavelength)} m, so about ${fmt(resolvedDepth)} m is seen; ` +
         `depth of investigation ≈ λ/2, common practice): the picks do not resolve it, and as they sample the layer alone they say little about the half-space.${advice}`,
     );
   }
 
+  // Worst first; findings of equal consequence keep their order (Array.prototype.sort is stable).
+  const sentences = ranked.sort((a, b) => a.rank - b.rank).map((r) => r.text);
   return {
     sentences,
     fit,
@@ -283,6 +324,7 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
     belowCutoff,
     unconstrained,
     longestWavelength,
+    shortestWavelength,
     resolvedDepth,
     thicknessResolved,
   };

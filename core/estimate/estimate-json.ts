@@ -1,9 +1,12 @@
 /**
  * The estimate as plain JSON: the shape `shearfield estimate` prints and the
  * app saves as an estimate record's summary (contract keys first, SI units
- * in the key names). Pure; no numbers are computed here.
+ * in the key names), and its reader for commands that take an estimate
+ * back (`shearfield site ESTIMATE.json`). Pure; no numbers are computed here.
  */
+import { InputError } from '../shared/errors';
 import type { EstimateResult, ParameterEstimate } from './estimate';
+import { VERDICT_LEVELS, type VerdictLevel } from './verdict';
 
 function parameterJson(e: ParameterEstimate) {
   return { best: e.best, low68: e.low68, high68: e.high68, low95: e.low95, high95: e.high95 };
@@ -57,6 +60,7 @@ export function estimateJson(r: EstimateResult) {
       sd_m_s: r.pickFit.sd[i],
     })),
     method: r.method,
+    verdict: { level: r.verdict.level, text: r.verdict.text },
   };
 }
 
@@ -66,4 +70,82 @@ export function estimateJson(r: EstimateResult) {
  */
 export function estimateSummary(r: EstimateResult): Record<string, unknown> {
   return JSON.parse(JSON.stringify(estimateJson(r))) as Record<string, unknown>;
+}
+
+/** A best value with its 95 % interval and which ends are open, as read back from the JSON. */
+export interface IntervalRead {
+  best: number;
+  low95: number;
+  high95: number;
+  openLow: boolean;
+  openHigh: boolean;
+}
+
+/** What `estimateFromJson` reads back: enough for the site figures and the verdict. */
+export interface EstimateRead {
+  thickness: IntervalRead;
+  vs1: IntervalRead;
+  vs2: IntervalRead;
+  density1: number;
+  density2: number;
+  verdict: { level: VerdictLevel; text: string };
+}
+
+function isObject(x: unknown): x is Record<string, unknown> {
+  return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+/** True when `json` looks like the estimate JSON (it has a thickness_m object), not a model file. */
+export function looksLikeEstimateJson(json: unknown): boolean {
+  return isObject(json) && isObject(json.thickness_m);
+}
+
+/**
+ * Reads back the JSON `estimateJson` writes (as `shearfield estimate`
+ * prints it): the best values and 95 % intervals, open ends, densities and
+ * the verdict. Throws InputError naming the first field that is missing or
+ * not what the estimate writes.
+ */
+export function estimateFromJson(json: unknown): EstimateRead {
+  if (!isObject(json)) throw new InputError('estimate', 'The estimate must be a JSON object as shearfield estimate prints it.');
+  const num = (x: unknown, field: string): number => {
+    if (typeof x !== 'number' || !Number.isFinite(x)) {
+      throw new InputError(field, `${field} must be a finite number, but it is ${x === undefined ? 'missing' : JSON.stringify(x)}.`);
+    }
+    return x;
+  };
+  const opens = isObject(json.open_ends) ? json.open_ends : {};
+  const interval = (key: 'thickness_m' | 'vs1_m_s' | 'vs2_m_s'): IntervalRead => {
+    const p = json[key];
+    if (!isObject(p)) throw new InputError(key, `${key} must be an object with best, low95 and high95, but it is ${p === undefined ? 'missing' : 'something else'}.`);
+    const o = isObject(opens[key]) ? (opens[key] as Record<string, unknown>) : {};
+    return {
+      best: num(p.best, `${key}.best`),
+      low95: num(p.low95, `${key}.low95`),
+      high95: num(p.high95, `${key}.high95`),
+      openLow: o.low === true,
+      openHigh: o.high === true,
+    };
+  };
+  const thickness = interval('thickness_m');
+  const vs1 = interval('vs1_m_s');
+  const vs2 = interval('vs2_m_s');
+  const d = json.density_kg_m3;
+  if (!isObject(d)) throw new InputError('density_kg_m3', 'density_kg_m3 must be an object with layer and halfspace, but it is missing.');
+  const v = json.verdict;
+  if (!isObject(v)) {
+    throw new InputError('verdict', 'The estimate has no verdict (it was written by an older version); run shearfield estimate on the picks again.');
+  }
+  if (typeof v.level !== 'string' || !(VERDICT_LEVELS as readonly string[]).includes(v.level)) {
+    throw new InputError('verdict.level', `verdict.level must be one of ${VERDICT_LEVELS.join(', ')}, but it is ${JSON.stringify(v.level)}.`);
+  }
+  if (typeof v.text !== 'string' || v.text.trim() === '') throw new InputError('verdict.text', 'verdict.text must be the verdict sentence, but it is empty or missing.');
+  return {
+    thickness,
+    vs1,
+    vs2,
+    density1: num(d.layer, 'density_kg_m3.layer'),
+    density2: num(d.halfspace, 'density_kg_m3.halfspace'),
+    verdict: { level: v.level as VerdictLevel, text: v.text },
+  };
 }

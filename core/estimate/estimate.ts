@@ -55,6 +55,7 @@ import { checkPickSet, effectiveSd, validatePick, type Pick } from '../picks/pic
 import { brent } from '../numeric/roots';
 import { chi2Upper95, diagnoseFit, type EstimateDiagnostics } from './estimate-diagnostics';
 import { phaseVelocityFrom, predictVelocity } from './estimate-forward';
+import { estimateVerdict, type EstimateVerdict } from './verdict';
 import { siteFiguresForRanges, type SiteFigures } from '../site/site';
 
 export * from './estimate-types';
@@ -88,6 +89,8 @@ export interface EstimateResult {
   /** Plain-word warnings: every diagnostic below, as sentences. */
   warnings: string[];
   diagnostics: EstimateDiagnostics;
+  /** The verdict on the thickness (verdict.ts): resolved, rough or unresolved, with one plain sentence. */
+  verdict: EstimateVerdict;
   /** Picks that used the default standard deviation (DEFAULT_SD_FRACTION of velocity, common practice). */
   defaultedSdCount: number;
   /** Search ranges used, m and m/s ([v, v] for a fixed speed). */
@@ -824,6 +827,7 @@ export function estimateLayer(picks: readonly Pick[], options: EstimateOptions =
     pickFit,
     warnings: diagnostics.sentences,
     diagnostics,
+    verdict: estimateVerdict({ thickness, diagnostics, alternatives, model: bestModel }),
     defaultedSdCount,
     searchRange: {
       thickness: [...P.ranges.thickness],

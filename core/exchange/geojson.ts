@@ -4,7 +4,7 @@
  * [longitude, latitude] in WGS 84 degrees (RFC 7946 §3.1.1 and §4), in that
  * order. Sites without a location are left out and counted in the
  * collection's `sites_without_location` member. Properties carry the
- * site's name and date, the estimate summary (thickness with its 95 %
+ * site's name and date, the estimate summary (the verdict on the thickness, thickness with its 95 %
  * interval, speeds, Vs30) and the site classes, and the caution; the
  * caution is also a foreign member of the collection (RFC 7946 §6.1).
  * Text is data: a GIS shows it as given, nothing in it is markup.
@@ -21,6 +21,9 @@ export interface SiteFeatureProperties {
   location_source: 'device' | 'typed';
   location_accuracy_m: number | null;
   estimate_status: SiteSummary['status'] | 'not-computed';
+  /** The verdict on the thickness (resolved, rough, unresolved) and its sentence; null without an estimate. */
+  verdict: 'resolved' | 'rough' | 'unresolved' | null;
+  verdict_text: string | null;
   thickness_m: number | null;
   thickness_95_low_m: number | null;
   /** null when the interval is open towards depth. */
@@ -78,6 +81,8 @@ export function sitesToGeoJson(sites: readonly SiteRecord[], summaries: Readonly
           location_source: loc.source,
           location_accuracy_m: num(loc.accuracy_m),
           estimate_status: sum?.status ?? 'not-computed',
+          verdict: sum?.verdict?.level ?? null,
+          verdict_text: sum?.verdict?.text ?? null,
           thickness_m: num(sum?.thickness?.best),
           thickness_95_low_m: num(sum?.thickness?.low95),
           thickness_95_high_m: num(sum?.thickness?.high95),

@@ -77,6 +77,8 @@ export const SUMMARY_CSV_COLUMNS = [
   'date',
   'picks',
   'status',
+  'verdict',
+  'verdict_text',
   'thickness_m',
   'thickness_68_low_m',
   'thickness_68_high_m',
@@ -103,7 +105,9 @@ export const SUMMARY_CSV_COLUMNS = [
 ] as const;
 
 /**
- * The estimate summary table, one row per site. Speeds given (fixed) show
+ * The estimate summary table, one row per site. `verdict` is the level
+ * (resolved, rough, unresolved; core/estimate/verdict.ts) and `verdict_text`
+ * its sentence, next to the thickness they judge. Speeds given (fixed) show
  * equal bounds; an interval open towards depth shows Infinity. Classes
  * list every class the 95 % range allows, slowest first, joined by "/".
  * `warnings` joins the plain-words warnings (or the reason there is no
@@ -120,6 +124,8 @@ export function summaryToCsv(summaries: readonly SiteSummary[]): string {
         textCell(s.date),
         String(s.pickCount),
         s.status,
+        s.verdict?.level ?? '',
+        textCell(s.verdict?.text),
         numCell(s.thickness?.best),
         numCell(s.thickness?.low68),
         numCell(s.thickness?.high68),

@@ -8,6 +8,7 @@
 import { CAUTION } from '../shared/caution';
 import { InputError } from '../shared/errors';
 import { estimateLayer, type EstimateOptions, type ParameterEstimate } from '../estimate/estimate';
+import type { VerdictLevel } from '../estimate/verdict';
 import type { Pick } from '../picks/picks';
 import type { PickRecord, SiteRecord } from './records';
 import { siteFiguresOfEstimate, type SiteFigures } from '../site/site';
@@ -25,6 +26,8 @@ export interface SiteSummary {
   thickness?: ParameterEstimate;
   vs1?: ParameterEstimate;
   vs2?: ParameterEstimate;
+  /** The verdict on the thickness (core/estimate/verdict.ts), when estimated. */
+  verdict?: { level: VerdictLevel; text: string };
   /** Site figures over the 95 % box of the estimate (speeds flagged as estimated). */
   figures?: SiteFigures;
   /** Estimate and site-figure warnings, as sentences. */
@@ -71,6 +74,7 @@ export function summariseSite(site: SiteRecord, picks: readonly PickRecord[]): S
       thickness: r.thickness,
       vs1: r.vs1,
       vs2: r.vs2,
+      verdict: { level: r.verdict.level, text: r.verdict.text },
       figures,
       warnings: [...r.warnings, ...figures.warnings],
     };

@@ -337,11 +337,12 @@ function range(best: number, values: readonly number[]): FigureRange {
 
 /** Warnings that every site result carries: what shear speeds alone cannot decide. */
 function standingWarnings(): string[] {
+  // The soft-clay rule for class E is from memory of ASCE/SEI 7-16 Table 20.3-1 (verify); the text a crew reads leaves the provenance out.
   return [
     'ASCE/SEI 7 site class F (soils that need a site-specific evaluation, such as liquefiable or sensitive soils, peat, ' +
       'or very thick soft or highly plastic clay) cannot be decided from shear speeds alone; check the soil descriptions.',
     'ASCE/SEI 7-16 Table 20.3-1 also makes a site class E when more than 10 ft (3 m) of soft clay is present, whatever ' +
-      'the average speed; that needs soil tests, not shear speeds [from memory, verify].',
+      'the average speed; that needs soil tests, not shear speeds.',
     'EN 1998-1 ground types S1 (soft clays or silts with high plasticity and water content, at least 10 m thick) and ' +
       'S2 (liquefiable soils, sensitive clays) cannot be decided from shear speeds alone.',
   ];
@@ -444,9 +445,11 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
 }
 
 function estimatedWarning(): string {
+  // The ×1.3 rule is from memory of ASCE/SEI 7-22 §20.3, not found in any reproduction (shared/PHYSICS.md §7): it is
+  // offered as a ±30 % sensitivity check, and the text a crew reads names no standard for it.
   return (
-    'The shear speeds are estimated, not measured: the ASCE/SEI 7-22 classes cover the average speed divided and ' +
-    `multiplied by ${ASCE7_22_ESTIMATE_FACTOR} [from memory, verify: ASCE/SEI 7-22 §20.3].`
+    'The shear speeds are estimated, not measured: as a ±30 % sensitivity check, the ASCE/SEI 7-22 classes cover the average speed divided and ' +
+    `multiplied by ${ASCE7_22_ESTIMATE_FACTOR}.`
   );
 }
 

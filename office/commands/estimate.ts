@@ -6,7 +6,7 @@
  * Output contract (read by other tools, keep it exact; extra keys only after these):
  *   {"thickness_m":{"best":…,"low68":…,"high68":…,"low95":…,"high95":…},
  *    "vs1_m_s":{…same keys…},"vs2_m_s":{…},"alternatives":[…],
- *    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…", …}
+ *    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…", …, "verdict":{"level":…,"text":…}}
  * A fixed (given) speed reports its value with equal bounds. Numbers that do
  * not exist (e.g. a 68 % bound of a minimum outside the 68 % level) print as null.
  */
@@ -66,13 +66,23 @@ Output (JSON):
    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…",
    "chi2_per_dof":…,"interval_scale":…,"open_ends":{…},"correlation_thickness_vs1":…,
    "density_kg_m3":{…},"defaulted_sd":…,"search_range":{…},"vs30_m_s":{…},
-   "site_class":{…},"picks":[…],"method":"…"}
+   "site_class":{…},"picks":[…],"method":"…",
+   "verdict":{"level":"resolved | rough | unresolved","text":"…"}}
   A given speed reports its value with equal bounds. "alternatives" lists every
   separate minimum within Δχ² = 3.84 of the best, ranked (rank 1 = best); when
   there are several, the headline intervals span them all. "vs30_m_s" gives
   the best model's Vs30 (EN 1998-1 eq. 3.1) and its range over the box of 95 %
   intervals. "interval_scale" is the factor on the Δχ² levels: 1, or χ²/dof
   when the fit is poor (a warning says so). Values that do not exist print as null.
+  "verdict" judges the thickness: "level" is resolved (a closed 95 % interval no
+  wider than half the best value, within the depth the picks see), rough (only
+  roughly known: a wide interval, several models, a poor fit, a doubtful mode, or
+  deeper than the cautious λ/3 depth) or unresolved (the 95 % interval is open, or
+  the thickness lies deeper than half the longest picked wavelength). "text" is one
+  plain sentence that contains "not resolved" exactly when the level is unresolved,
+  says what is known ("more than X m", the open range), and the one thing to do
+  before leaving (e.g. the lowest frequency and spread needed). The depth rules
+  are common practice. "warnings" list the diagnostics worst first.
 
 Exit status: 0 success; 1 bad file, pick or option value (one line on stderr
 naming the row and column, or the option); 2 usage error.`;

@@ -1,5 +1,7 @@
 /**
- * `shearfield site MODEL.json`: site figures of a layered model.
+ * `shearfield site MODEL.json | ESTIMATE.json`: site figures of a layered
+ * model, or of a thickness estimate (the JSON `shearfield estimate` prints:
+ * figures over its 95 % intervals, and its verdict carried along).
  *
  * Output contract (read by other tools, keep the first keys exact):
  *   {"vs30_m_s":…,"vs100ft_m_s":…,"site_class":{"asce7_16":[…],"asce7_22":[…],"en1998_1":[…]},
@@ -7,13 +9,17 @@
  * Class values are arrays so that a range crossing a boundary lists every class.
  */
 import { parseArgs } from 'node:util';
-import { siteFigures, VS100FT_DEPTH_M } from '../../core/site/site';
-import { oneModelPath, readModelFile } from '../cli-options';
+import { estimateFromJson, looksLikeEstimateJson } from '../../core/estimate/estimate-json';
+import { InputError } from '../../core/shared/errors';
+import { siteFigures, siteFiguresOfEstimate, VS100FT_DEPTH_M, type SiteFigures } from '../../core/site/site';
+import { oneModelPath, readModelFile, readTextFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 
 const HELP = `Usage: shearfield site MODEL.json [--estimated-velocities]
+       shearfield site ESTIMATE.json
 
-Site figures of a layered model (N layers over a half-space):
+Site figures of a layered model (N layers over a half-space), or of a thickness
+estimate saved from shearfield estimate (ESTIMATE.json, see below):
   vs30_m_s         Vs30 = 30 / Σ(h_i/v_i) over the top 30 m (EN 1998-1:2004 eq. 3.1).
   vs100ft_m_s      The same average over the top 100 ft = ${VS100FT_DEPTH_M} m (ASCE/SEI 7-16 §20.4).
                    Where the layers end above that depth, the half-space continues down.
@@ -46,12 +52,23 @@ Output: one line of JSON,
   {"vs30_m_s":…,"vs100ft_m_s":…,"site_class":{"asce7_16":[…],"asce7_22":[…],"en1998_1":[…]},
    "f0_hz":…,"t0_s":…,"impedance_ratio":…,"warnings":[…],"caution":"…"}
 
+ESTIMATE.json: the output of shearfield estimate (for example
+  shearfield estimate picks.csv > estimate.json; shearfield site estimate.json).
+  The figures are those of the best model, with the classes over the box of the
+  95 % intervals (a thickness open towards depth counts as unbounded); the speeds
+  count as estimated. The output has the keys above, then
+  "ranges":{"vs30_m_s":[low,high],"vs100ft_m_s":[…],"f0_hz":[…],"t0_s":[…],"impedance_ratio":[…]}
+  (null for an end without a bound) and the estimate's
+  "verdict":{"level":"resolved | rough | unresolved","text":"…"}, unchanged: figures
+  from an estimate whose thickness is not resolved are not resolved either, and
+  the verdict's sentence says so ("not resolved").
+
 Exit status: 0 success; 1 bad file or model (one line on stderr naming the field);
 2 usage error.`;
 
 const site: Command = {
   name: 'site',
-  summary: 'Site figures of a layered model: Vs30, site classes, f0 and T0, impedance ratio.',
+  summary: 'Site figures of a layered model or an estimate: Vs30, site classes, f0 and T0, impedance ratio.',
   help: HELP,
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({
@@ -63,22 +80,73 @@ const site: Command = {
       strict: true,
     });
     const path = oneModelPath(positionals, 'shearfield site model.json');
+    let parsed: unknown = undefined;
+    try {
+      parsed = JSON.parse(readTextFile(path, 'MODEL.json', 'model'));
+    } catch (e) {
+      if (e instanceof InputError) throw e;
+      // Not JSON: readModelFile below says so in its own words.
+    }
+    if (looksLikeEstimateJson(parsed)) {
+      if (values['estimated-velocities']) {
+        throw new InputError('--estimated-velocities', '--estimated-velocities applies to a model file; the speeds of an estimate always count as estimated.');
+      }
+      let est;
+      try {
+        est = estimateFromJson(parsed);
+      } catch (e) {
+        if (e instanceof InputError) throw new InputError(e.field, `The estimate file "${path}" is invalid: ${e.message}`);
+        throw e;
+      }
+      const s = siteFiguresOfEstimate({
+        thickness: { ...est.thickness, high95: est.thickness.openHigh ? Infinity : est.thickness.high95 },
+        vs1: est.vs1,
+        vs2: est.vs2,
+        density1: est.density1,
+        density2: est.density2,
+      });
+      if (est.verdict.level === 'unresolved') {
+        s.warnings.unshift('The layer thickness is not resolved (see the verdict), so these figures rest on a thickness the picks do not resolve.');
+      }
+      const ends = (r: { low: number; high: number }) => [finiteOrNull(r.low), finiteOrNull(r.high)];
+      io.out(
+        JSON.stringify({
+          ...figuresJson(s),
+          ranges: {
+            vs30_m_s: ends(s.vs30),
+            vs100ft_m_s: ends(s.vs100ft),
+            f0_hz: ends(s.f0_hz),
+            t0_s: ends(s.t0_s),
+            impedance_ratio: ends(s.impedance_ratio),
+          },
+          verdict: est.verdict,
+        }) + '\n',
+      );
+      return 0;
+    }
     const model = readModelFile(path);
     const s = siteFigures(model, { estimatedVelocities: values['estimated-velocities'] });
-    io.out(
-      JSON.stringify({
-        vs30_m_s: s.vs30.best,
-        vs100ft_m_s: s.vs100ft.best,
-        site_class: { asce7_16: s.classes.asce7_16, asce7_22: s.classes.asce7_22, en1998_1: s.classes.en1998_1 },
-        f0_hz: s.f0_hz.best,
-        t0_s: s.t0_s.best,
-        impedance_ratio: s.impedance_ratio.best,
-        warnings: s.warnings,
-        caution: s.caution,
-      }) + '\n',
-    );
+    io.out(JSON.stringify(figuresJson(s)) + '\n');
     return 0;
   },
 };
+
+function finiteOrNull(x: number): number | null {
+  return Number.isFinite(x) ? x : null;
+}
+
+/** The contract keys, in order. */
+function figuresJson(s: SiteFigures) {
+  return {
+    vs30_m_s: s.vs30.best,
+    vs100ft_m_s: s.vs100ft.best,
+    site_class: { asce7_16: s.classes.asce7_16, asce7_22: s.classes.asce7_22, en1998_1: s.classes.en1998_1 },
+    f0_hz: s.f0_hz.best,
+    t0_s: s.t0_s.best,
+    impedance_ratio: s.impedance_ratio.best,
+    warnings: s.warnings,
+    caution: s.caution,
+  };
+}
 
 export default site;

@@ -18,7 +18,9 @@ Re-runs the layer-thickness estimate (from each site's picks and its stated spee
 ranges) and the site figures over the 95 % box, for every live site in the office store,
 and writes one row per site ("-" writes to stdout). Columns:
   ${SUMMARY_CSV_COLUMNS.join(', ')}
-status is estimated, no-picks or failed (the reason is in warnings). Classes list every
+status is estimated, no-picks or failed (the reason is in warnings). verdict is the
+judgement on the thickness: resolved, rough (only roughly known) or unresolved (the
+picks do not resolve it); verdict_text says it in one sentence with what to do. Classes list every
 class the 95 % range allows, joined by "/". Every row carries the caution.
 
 Options:

@@ -175,7 +175,8 @@ describe('office analysis commands', () => {
     expect(lines[0]).toBe(SUMMARY_CSV_COLUMNS.join(','));
     expect(lines).toHaveLength(3);
     const a = lines.find((l) => l.startsWith('s1,'))!;
-    expect(a).toMatch(/^s1,Invented A,2026-05-04,23,estimated,7\.\d+,/);
+    // The verdict sits next to the thickness it judges (the invented demo is resolved).
+    expect(a).toMatch(/^s1,Invented A,2026-05-04,23,estimated,resolved,"Layer thickness resolved: 7\.\d+ m, 95 % range [\d.]+–[\d.]+ m\.",7\.\d+,/);
     expect(a.endsWith(CAUTION)).toBe(true);
     expect(lines.find((l) => l.startsWith('s2,'))).toContain('no-picks');
   });

@@ -10,6 +10,9 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '../../../core/shared/caution';
+import { loveVelocities, type TwoLayer } from '../../../core/dispersion/love-layer';
+import { picksToCsv } from '../../../core/picks/picks';
+import { main } from '../../../office/cli';
 
 const root = join(import.meta.dirname, '..', '..', '..');
 let dir = '';
@@ -180,5 +183,75 @@ describe('shearfield site: bad input exits non-zero with one line naming the fie
     const r = site(p, '--depth', '20');
     expect(r.code).toBe(2);
     expect(r.err).toMatch(/^shearfield site: Unknown option '--depth'/);
+  });
+});
+
+describe('shearfield site on an estimate: the figures over its 95 % intervals, with its verdict carried', () => {
+  // In-process (office/cli.ts main), to keep the suite fast. Picks: the core's
+  // closed-form group velocities (love-layer.ts; Aki & Richards 2002, §7.2–7.3)
+  // of an INVENTED ~6 m layer (β1 = 180 m/s over β2 = 450 m/s).
+  async function cli(...args: string[]) {
+    let out = '';
+    let err = '';
+    const code = await main(args, { out: (t) => void (out += t), err: (t) => void (err += t) });
+    return { code, out, err };
+  }
+  const m: TwoLayer = { h: 6, vs1: 180, vs2: 450, rho1: 1800, rho2: 2100 };
+  const picksAt = (freqs: number[]) =>
+    picksToCsv(freqs.map((f) => ({ frequency: f, velocity: loveVelocities(m, f, 0).group, sd: 0.03 * loveVelocities(m, f, 0).group, kind: 'group' as const, mode: 0 })));
+
+  it('an unresolved estimate (picks only at 20–40 Hz): the verdict is carried unchanged and heads the warnings', async () => {
+    const est = await cli('estimate', file('high.csv', picksAt([20, 22, 25, 28, 32, 36, 40])));
+    expect(est.code, est.err).toBe(0);
+    const estimate = JSON.parse(est.out);
+    expect(estimate.verdict.level).toBe('unresolved');
+    expect(estimate.verdict.text).toContain('not resolved');
+    const r = await cli('site', file('high-estimate.json', est.out));
+    expect(r.code, r.err).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(Object.keys(j)).toEqual(['vs30_m_s', 'vs100ft_m_s', 'site_class', 'f0_hz', 't0_s', 'impedance_ratio', 'warnings', 'caution', 'ranges', 'verdict']);
+    expect(j.verdict).toEqual(estimate.verdict);
+    expect(j.warnings[0]).toMatch(/^The layer thickness is not resolved/);
+    // The thickness is open towards depth: f0 = β1/(4H) falls to 0 and T0 has no upper bound.
+    expect(j.ranges.f0_hz[0]).toBe(0);
+    expect(j.ranges.t0_s[1]).toBeNull();
+    expect(j.caution).toBe(CAUTION);
+  });
+
+  it('a resolved estimate (3–40 Hz): Vs30 of the best model by EN 1998-1 eq. 3.1, inside its range', async () => {
+    const est = await cli('estimate', file('full.csv', picksAt([3, 4, 5, 6, 8, 10, 13, 16, 20, 25, 30, 40])));
+    const estimate = JSON.parse(est.out);
+    const r = await cli('site', file('full-estimate.json', est.out));
+    expect(r.code, r.err).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(j.verdict.level).toBe('resolved');
+    expect(j.verdict.text).not.toContain('not resolved');
+    const { thickness_m: h, vs1_m_s: b1, vs2_m_s: b2 } = estimate;
+    // Vs30 = 30 / (H/β1 + (30 − H)/β2), the two-layer form of EN 1998-1:2004 eq. 3.1.
+    const vs30 = 30 / (h.best / b1.best + (30 - h.best) / b2.best);
+    expect(Math.abs(j.vs30_m_s - vs30) / vs30).toBeLessThan(1e-12);
+    expect(j.ranges.vs30_m_s[0]).toBeLessThanOrEqual(j.vs30_m_s);
+    expect(j.ranges.vs30_m_s[1]).toBeGreaterThanOrEqual(j.vs30_m_s);
+  });
+
+  it('an estimate without a verdict, or with a bad one, is refused with one sentence naming the field', async () => {
+    const est = JSON.parse((await cli('estimate', file('full2.csv', picksAt([3, 5, 8, 13, 20, 30, 40])))).out);
+    const old = file('old.json', JSON.stringify({ ...est, verdict: undefined }));
+    expect(await cli('site', old)).toMatchObject({
+      code: 1,
+      err: `shearfield site: The estimate file "${old}" is invalid: The estimate has no verdict (it was written by an older version); run shearfield estimate on the picks again.\n`,
+    });
+    const bad = file('bad.json', JSON.stringify({ ...est, verdict: { level: 'fine', text: 'x' } }));
+    expect((await cli('site', bad)).err).toBe(
+      `shearfield site: The estimate file "${bad}" is invalid: verdict.level must be one of resolved, rough, unresolved, but it is "fine".\n`,
+    );
+    const noBest = file('nobest.json', JSON.stringify({ ...est, thickness_m: { ...est.thickness_m, best: null } }));
+    expect((await cli('site', noBest)).err).toBe(`shearfield site: The estimate file "${noBest}" is invalid: thickness_m.best must be a finite number, but it is null.\n`);
+    expect((await cli('site', old, '--estimated-velocities')).err).toMatch(/--estimated-velocities applies to a model file/);
+  });
+
+  it('--help documents the estimate input and the verdict it carries', async () => {
+    const r = await cli('site', '--help');
+    for (const s of ['shearfield site ESTIMATE.json', '"ranges"', '"verdict":{"level":"resolved | rough | unresolved"', 'not resolved']) expect(r.out, s).toContain(s);
   });
 });

@@ -173,7 +173,7 @@ describe('exports', () => {
     expect(fc.sites_without_location).toBe(1);
     expect(fc.features).toHaveLength(1);
     expect(fc.features[0].geometry).toEqual({ type: 'Point', coordinates: [-0.12, 51.5] });
-    expect(fc.features[0].properties).toMatchObject({ name: site.name, date: '2026-05-04', estimate_status: 'not-computed', caution: CAUTION });
+    expect(fc.features[0].properties).toMatchObject({ name: site.name, date: '2026-05-04', estimate_status: 'not-computed', verdict: null, verdict_text: null, caution: CAUTION });
   });
 
   it('the summary and sites tables carry the estimate, the classes, the caution, and defuse spreadsheet formulas', () => {
@@ -185,7 +185,7 @@ describe('exports', () => {
     const csv = summaryToCsv([summary, summariseSite({ ...site, id: 'empty' }, [])]);
     const lines = csv.trimEnd().split('\r\n');
     expect(lines).toHaveLength(3);
-    expect(lines[0].startsWith('site_id,name,date,picks,status,thickness_m')).toBe(true);
+    expect(lines[0].startsWith('site_id,name,date,picks,status,verdict,verdict_text,thickness_m')).toBe(true);
     expect(lines[1]).toContain(CAUTION);
     expect(lines[2]).toContain('no-picks');
     expect(lines[2]).toContain('The site has no picks yet.');
@@ -194,6 +194,9 @@ describe('exports', () => {
     expect(sites[1]).toContain(`"'=HYPERLINK(""http://x"")"`);
     const fc = sitesToGeoJson([evil], new Map([[site.id, summary]]));
     expect(fc.features[0].properties.estimate_status).toBe('estimated');
+    expect(fc.features[0].properties.verdict).toBe(summary.verdict!.level);
+    expect(fc.features[0].properties.verdict_text).toBe(summary.verdict!.text);
+    expect(summary.verdict!.text).toMatch(/^Layer thickness (resolved|only roughly known|not resolved)/);
     expect(fc.features[0].properties.thickness_m).toBe(summary.thickness!.best);
     expect(fc.features[0].properties.class_en1998_1).toBe(summary.figures!.classes.en1998_1.join('/'));
   });
