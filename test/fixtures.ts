@@ -6,6 +6,7 @@ import { loveVelocities, type TwoLayer } from '../core/dispersion/love-layer';
 import type { LayeredModel } from '../core/dispersion/model';
 import type { Pick } from '../core/picks/picks';
 import { gaussian } from '../core/shared/random';
+import { WAVE_FORWARDS } from '../core/profile/profile-forward';
 
 /**
  * The crustal layer over mantle of Shearer, *Introduction to Seismology*
@@ -62,6 +63,62 @@ export function softSitePicks(count: number, rand?: () => number): Pick[] {
     const exact = phase ? v.phase : v.group;
     const sd = 0.03 * exact;
     out.push({ frequency: f, velocity: rand ? exact + sd * gaussian(rand) : exact, kind: phase ? 'phase' : 'group', mode: 0, sd });
+  }
+  return out;
+}
+
+/** Invented two-layer soft site (fill over alluvium over weathered rock) for the layered-estimate tests and bench. */
+export const INVENTED_TWO_LAYER_SITE: LayeredModel = {
+  layers: [
+    { thickness: 5, vs: 180, density: 1800 },
+    { thickness: 10, vs: 320, density: 1800 },
+  ],
+  halfspace: { vs: 600, density: 2100 },
+};
+
+/** Invented three-layer site for the layered-estimate bench. */
+export const INVENTED_THREE_LAYER_SITE: LayeredModel = {
+  layers: [
+    { thickness: 3, vs: 150, density: 1800 },
+    { thickness: 6, vs: 250, density: 1800 },
+    { thickness: 10, vs: 400, density: 1800 },
+  ],
+  halfspace: { vs: 700, density: 2100 },
+};
+
+/**
+ * `count` fundamental-mode picks of a layered model, log-spaced from `from`
+ * to `to` Hz, every third (from the first) a phase pick and the rest group
+ * picks, each with sd = 3 % of its exact velocity, from the forward step of
+ * core/profile/profile-forward.ts for the wave (P speeds by `vp`, per layer
+ * then the half-space; ignored by Love waves). With `rand`, Gaussian noise
+ * of that sd; without, exact.
+ */
+export function layeredPicks(
+  model: LayeredModel,
+  wave: 'love' | 'rayleigh',
+  count: number,
+  from: number,
+  to: number,
+  rand?: () => number,
+  vp: readonly number[] = [],
+): Pick[] {
+  const fm = {
+    layers: model.layers.map((l, j) => ({ ...l, vp: vp[j] ?? 0 })),
+    halfspace: { ...model.halfspace, vp: vp[model.layers.length] ?? 0 },
+  };
+  const engine = WAVE_FORWARDS[wave]!(fm);
+  const out: Pick[] = [];
+  for (let i = 0; i < count; i++) {
+    const f = from * Math.pow(to / from, i / (count - 1));
+    const omega = 2 * Math.PI * f;
+    const c = engine.phase(omega, 0);
+    const phase = i % 3 === 0;
+    const exact = phase ? c : engine.group(omega, 0, c);
+    const sd = 0.03 * exact;
+    const p: Pick = { frequency: f, velocity: rand ? exact + sd * gaussian(rand) : exact, kind: phase ? 'phase' : 'group', mode: 0, sd };
+    if (wave === 'rayleigh') p.wave = 'rayleigh';
+    out.push(p);
   }
   return out;
 }

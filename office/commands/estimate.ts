@@ -9,6 +9,13 @@
  *    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…", …, "verdict":{"level":…,"text":…}}
  * A fixed (given) speed reports its value with equal bounds. Numbers that do
  * not exist (e.g. a 68 % bound of a minimum outside the 68 % level) print as null.
+ *
+ * With --layers N (2–4, or auto), or with Rayleigh picks, the layered estimate
+ * (core/profile) runs instead; its output starts with the "profile" object
+ *   {"profile":{"layers":[{"thickness_m":{best,low68,high68,low95,high95},"vs_m_s":{…}}],
+ *    "halfspace":{"vs_m_s":{…}},"depth_m":[…],"vs_band_m_s":{"best":[…],"low68":[…],…}},
+ *    "verdict":{…},"layers":N,…}
+ * --layers 1 with Love picks only keeps the one-layer output above exactly.
  */
 import { parseArgs } from 'node:util';
 import {
@@ -21,18 +28,23 @@ import {
 import { estimateJson } from '../../core/estimate/estimate-json';
 import { InputError, describeValue } from '../../core/shared/errors';
 import { DEFAULT_SD_FRACTION, parsePicksCsv } from '../../core/picks/picks';
+import { estimateProfile, MAX_PROFILE_LAYERS, type ProfileOptions } from '../../core/profile/profile-estimate';
+import { profileJson } from '../../core/profile/profile-json';
+import { DEFAULT_POISSON, WATER_P_SPEED } from '../../core/profile/p-speed';
 import { readTextFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 
 const HELP = `Usage: shearfield estimate PICKS.csv [--vs1 V] [--vs2 V] [--density1 D] [--density2 D]
                            [--vs1-range A:B] [--vs2-range A:B] [--thickness-range A:B]
+       shearfield estimate PICKS.csv --layers N|auto [--poisson NU] [--water-table-m D]
+                           [--p-speeds MODEL.json] [--seed S]
 
 Estimates the thickness of a soft layer over stiffer ground (one layer over a
 half-space, Love waves) from dispersion picks, with 68 % and 95 % intervals.
 
 PICKS.csv: a header row with units in the column names: frequency_hz or period_s,
 velocity_m_s, and optionally sd_m_s, kind (group | phase, default group),
-mode (default 0), id, note, time. Comma or semicolon separated. A pick with no
+mode (default 0), wave (love | rayleigh, default love), id, note, time. Comma or semicolon separated. A pick with no
 sd_m_s uses ${DEFAULT_SD_FRACTION * 100} % of its velocity (common practice); the output says how many did.
 
 Options (SI units):
@@ -51,6 +63,49 @@ Options (SI units):
                          wavelength (velocity / frequency).
   -h, --help             Show this help.
   The default ranges are common practice for a search box, not a published rule.
+
+Layered estimate (N = 1–${MAX_PROFILE_LAYERS} layers over a half-space, Love and/or Rayleigh picks):
+  --layers N             Number of layers, 1–${MAX_PROFILE_LAYERS}, or "auto" to let the picks decide
+                         (by the Bayesian information criterion, Schwarz 1978). Runs by
+                         itself when the picks include Rayleigh picks (then N defaults to 1).
+                         --layers 1 with Love picks only is the one-layer estimate above.
+  --poisson NU           Poisson's ratio for the P speeds that Rayleigh waves need.
+                         Default ${DEFAULT_POISSON} (common practice for unsaturated soil; the output
+                         warns that it was assumed). Rayleigh speeds change by a few per cent with it.
+  --water-table-m D      Depth of the water table, m: below it the P speed is at least
+                         ${WATER_P_SPEED} m/s (saturated ground, common practice).
+  --p-speeds MODEL.json  Fixed P speeds (vp_m_s) and densities (density_kg_m3) per layer and
+                         for the half-space, from a model file with at least N layers
+                         (its thicknesses and shear speeds are not used).
+  --seed S               Seed of the search and the ensemble (whole number). Default 1.
+  The P-speed options apply only to Rayleigh picks. The one-layer options above
+  (--vs1 … --thickness-range) do not apply to the layered estimate.
+
+  Method: global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479)
+  over each layer's thickness (0.02 × the shortest to 1 × the longest picked wavelength)
+  and shear speed (0.5 × the slowest to 1.3 × the fastest pick; the half-space the
+  slowest to 4 × the fastest), Levenberg–Marquardt refinement, then an ensemble by a
+  Metropolis random walk for the 68 %/95 % intervals, the depth band, Vs30 and the
+  site classes. Fewer layers are fitted too, and the misfit of each is reported.
+
+  Output (JSON), the "profile" object first:
+  {"profile":{"layers":[{"thickness_m":{"best":…,"low68":…,"high68":…,"low95":…,"high95":…},
+               "vs_m_s":{…}}],"halfspace":{"vs_m_s":{…}},"depth_m":[…],
+              "vs_band_m_s":{"best":[…],"low68":[…],"high68":[…],"low95":[…],"high95":[…]}},
+   "verdict":{"level":"resolved|rough|unresolved","text":"…","reasons":[…]},
+   "layers":N,"waves":{"love":…,"rayleigh":…},
+   "alternatives":[{"layers":…,"kind":"minimum|layer-count","thickness_m":[…],"vs_m_s":[…],
+                    "halfspace_vs_m_s":…,"chi2":…,"delta_chi2":…}],
+   "model_choice":{"tried":[{"layers":…,"chi2":…,"parameters":…,"bic":…}],
+                   "recommended_layers":…,"criterion":"…"},
+   "misfit":{"chi2":…,"dof":…},"chi2_per_dof":…,"interval_scale":…,
+   "depth_of_investigation_m":…,"band_note":"…","resolved":{…},"search_range":{…},
+   "vs30_m_s":{…},"vs100ft_m_s":{…},
+   "site_class":{"asce7_16":{"classes":[…],"share":{…}},"asce7_22":{…},"en1998_1":{…}},
+   "p_speed":{…},"density_kg_m3":{…},"ensemble":{…},"warnings":[…],"caution":"…",
+   "picks":[…],"method":"…"}
+  The depth of investigation is half the longest picked wavelength (common
+  practice); below it the band spans the whole search range of shear speed.
 
 Method: maximum likelihood for Gaussian pick errors. A global grid search over
 the ranges (using the dimensionless scaling c/β1 against f·H/β1), then
@@ -118,6 +173,33 @@ function rangeOption(text: string | undefined, flag: string, unit: string): [num
   return [Number(parts[0].trim()), Number(parts[1].trim())];
 }
 
+/** P speeds and densities per layer and for the half-space from a model file (vp_m_s, density_kg_m3). */
+function readPSpeeds(path: string): Pick<ProfileOptions, 'fixedVp' | 'densities'> {
+  const text = readTextFile(path, '--p-speeds', 'model');
+  let json: unknown;
+  try {
+    json = JSON.parse(text);
+  } catch {
+    throw new InputError('--p-speeds', `The model file "${path}" is not valid JSON.`);
+  }
+  const o = json as { layers?: unknown; halfspace?: unknown };
+  if (!o || typeof o !== 'object' || !Array.isArray(o.layers) || !o.halfspace || typeof o.halfspace !== 'object') {
+    throw new InputError('--p-speeds', `The model file "${path}" must hold "layers" (a list) and "halfspace", each with vp_m_s and density_kg_m3.`);
+  }
+  const field = (x: unknown, name: string, where: string): number => {
+    const v = (x as Record<string, unknown> | null)?.[name];
+    if (typeof v !== 'number' || !Number.isFinite(v)) {
+      throw new InputError('--p-speeds', `The model file "${path}": ${where}.${name} must be a number, but it is ${describeValue(v)}.`);
+    }
+    return v;
+  };
+  const layers = o.layers as unknown[];
+  return {
+    fixedVp: { layers: layers.map((l, j) => field(l, 'vp_m_s', `layers[${j}]`)), halfspace: field(o.halfspace, 'vp_m_s', 'halfspace') },
+    densities: { layers: layers.map((l, j) => field(l, 'density_kg_m3', `layers[${j}]`)), halfspace: field(o.halfspace, 'density_kg_m3', 'halfspace') },
+  };
+}
+
 const command: Command = {
   name: 'estimate',
   summary: 'Layer thickness (and speeds) from dispersion picks, with 68 % and 95 % intervals.',
@@ -135,6 +217,11 @@ const command: Command = {
         'vs1-range': { type: 'string' },
         'vs2-range': { type: 'string' },
         'thickness-range': { type: 'string' },
+        layers: { type: 'string' },
+        poisson: { type: 'string' },
+        'water-table-m': { type: 'string' },
+        'p-speeds': { type: 'string' },
+        seed: { type: 'string' },
       },
     });
     if (positionals.length !== 1) {
@@ -161,7 +248,42 @@ const command: Command = {
       throw new InputError('--vs2-range', '--vs2-range applies only when --vs2 is not given (a given --vs2 is fixed); give one or the other.');
     }
     const path = positionals[0];
+    const layersText = values.layers?.trim();
+    let layers: number | 'auto' | undefined;
+    if (layersText !== undefined) {
+      if (layersText.toLowerCase() === 'auto') layers = 'auto';
+      else if (/^\d+$/.test(layersText) && Number(layersText) >= 1 && Number(layersText) <= MAX_PROFILE_LAYERS) layers = Number(layersText);
+      else {
+        throw new InputError('--layers', `--layers must be a whole number from 1 to ${MAX_PROFILE_LAYERS} or "auto", but it is ${describeValue(values.layers)}.`);
+      }
+    }
+    const pOptions = (['poisson', 'water-table-m', 'p-speeds'] as const).filter((k) => values[k] !== undefined);
     const parsed = parsePicksCsv(readTextFile(path, 'PICKS.csv', 'picks'));
+    const rayleigh = parsed.picks.some((p) => p.wave === 'rayleigh');
+    if (pOptions.length > 0 && !rayleigh) {
+      throw new InputError(`--${pOptions[0]}`, `--${pOptions[0]} sets P speeds for Rayleigh picks, but every pick in the file is a Love pick (Love waves do not depend on P speed).`);
+    }
+    if (rayleigh || (layers !== undefined && layers !== 1)) {
+      const oneLayer = (['vs1', 'vs2', 'density1', 'density2', 'vs1-range', 'vs2-range', 'thickness-range'] as const).find((k) => values[k] !== undefined);
+      if (oneLayer) {
+        throw new InputError(`--${oneLayer}`, `--${oneLayer} applies only to the one-layer Love estimate, not to the layered estimate (--layers or Rayleigh picks).`);
+      }
+      const profileOptions: ProfileOptions = {
+        layers: layers ?? 1,
+        poisson: numberOption(values.poisson, '--poisson', 'its own units (a ratio such as 0.3)'),
+        waterTableDepth: numberOption(values['water-table-m'], '--water-table-m', 'm'),
+        seed: numberOption(values.seed, '--seed', 'its own units (a whole number)'),
+        whereOf: (i) => `row ${i + 1}`,
+        fieldLabels: { layers: '--layers', poisson: '--poisson', waterTableDepth: '--water-table-m', fixedVp: '--p-speeds', densities: '--p-speeds', seed: '--seed', picks: 'PICKS.csv' },
+      };
+      if (values['p-speeds'] !== undefined) Object.assign(profileOptions, readPSpeeds(values['p-speeds']));
+      const result = estimateProfile(parsed.picks, profileOptions);
+      io.out(JSON.stringify(profileJson(result), null, 2) + '\n');
+      return 0;
+    }
+    if (values.seed !== undefined) {
+      throw new InputError('--seed', '--seed applies only to the layered estimate (--layers 2–4 or auto, or Rayleigh picks); the one-layer estimate has no randomness.');
+    }
     const result = estimateLayer(parsed.picks, options);
     io.out(JSON.stringify(estimateJson(result), null, 2) + '\n');
     return 0;
