@@ -36,15 +36,15 @@ const EBCDIC_C = 0xc3;
 
 /** The Unicode text of EBCDIC bytes. */
 export function textFromEbcdic(bytes: Uint8Array): string {
-  let s = '';
-  for (let i = 0; i < bytes.length; i++) s += String.fromCharCode(EBCDIC_TO_CODE[bytes[i]]);
-  return s;
+  const codes = new Uint8Array(bytes.length);
+  for (let i = 0; i < bytes.length; i++) codes[i] = EBCDIC_TO_CODE[bytes[i]];
+  return textFromAscii(codes);
 }
 
 /** The text of ASCII (or Latin-1) bytes. */
 export function textFromAscii(bytes: Uint8Array): string {
   let s = '';
-  for (let i = 0; i < bytes.length; i++) s += String.fromCharCode(bytes[i]);
+  for (let i = 0; i < bytes.length; i += 4096) s += String.fromCharCode(...bytes.subarray(i, i + 4096));
   return s;
 }
 
@@ -88,6 +88,29 @@ export function looksEbcdic(bytes: Uint8Array): boolean {
     if (b >= 0x20 && b < 0x7f) ascii++;
   }
   return ebcdic > ascii;
+}
+
+/**
+ * Whether a block holds `needle` (upper-case ASCII letters and symbols),
+ * read as EBCDIC or as ASCII, in any letter case. Works on the bytes, so a
+ * long run of extended headers is searched without decoding it.
+ */
+export function blockContains(bytes: Uint8Array, needle: string): boolean {
+  const n = needle.length;
+  const want = Array.from(needle, (ch) => ch.charCodeAt(0));
+  for (const ebcdic of [false, true]) {
+    const first = ebcdic ? CODE_TO_EBCDIC[want[0]] : want[0];
+    for (let i = bytes.indexOf(first); i >= 0 && i + n <= bytes.length; i = bytes.indexOf(first, i + 1)) {
+      let j = 1;
+      for (; j < n; j++) {
+        let c = ebcdic ? EBCDIC_TO_CODE[bytes[i + j]] : bytes[i + j];
+        if (c >= 0x61 && c <= 0x7a) c -= 32;
+        if (c !== want[j]) break;
+      }
+      if (j === n) return true;
+    }
+  }
+  return false;
 }
 
 /** The text of a textual-header block, decoding EBCDIC or ASCII as its bytes show. */

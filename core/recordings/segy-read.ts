@@ -28,7 +28,7 @@
  * the samples the file really holds (padding is capped, see MAX_PAD_FACTOR).
  */
 import { InputError } from '../shared/errors';
-import { textOfBlock } from './ebcdic';
+import { blockContains } from './ebcdic';
 import { MAX_ABS_DELAY_S, withGeometryQuestions, type Component, type Place, type Recording } from './recording';
 import { decodeSamples, isSegyFormatCode, SEGY_FORMATS, type SegyFormatCode } from './segy-formats';
 
@@ -192,9 +192,9 @@ function extendedTextEnd(bytes: Uint8Array, view: DataView, little: boolean, rev
     if (p + TEXT_HEADER_BYTES > bytes.length) {
       fail('extended textual headers', `The extended textual headers have no ${END_TEXT_STANZA} stanza before the file ends at byte offset ${bytes.length}.`);
     }
-    const { text } = textOfBlock(bytes.subarray(p, p + TEXT_HEADER_BYTES));
+    const block = bytes.subarray(p, p + TEXT_HEADER_BYTES);
     p += TEXT_HEADER_BYTES;
-    if (text.toUpperCase().includes(END_TEXT_STANZA)) return p;
+    if (blockContains(block, END_TEXT_STANZA)) return p;
   }
 }
 
@@ -204,7 +204,14 @@ function readLayout(bytes: Uint8Array, view: DataView, name: string): Layout {
   }
   const warnings: string[] = [];
   const little = byteOrder(view, warnings);
-  const code = view.getInt16(B.format, little) as SegyFormatCode;
+  const rawCode = view.getInt16(B.format, little);
+  if (!isSegyFormatCode(rawCode)) {
+    fail(
+      'binary header bytes 3225–3226',
+      `The sample format code at byte offset ${B.format} is ${rawCode} (${little ? 'little' : 'big'}-endian, as the byte-order integer at byte offset ${B.byteOrder} says), not a SEG-Y format code (1, 2, 3, 5–12, 15, 16).`,
+    );
+  }
+  const code: SegyFormatCode = rawCode;
   let revision = readRevision(bytes, little);
   if (revision > 2) {
     warnings.push(`The binary header names SEG-Y revision ${revision}, which this reader does not know; the file is read as revision 2.0.`);
