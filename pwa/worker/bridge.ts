@@ -12,7 +12,7 @@
  * - A worker that crashes rejects its call with a plain-words Error and is
  *   replaced on the next call.
  */
-import { wrap, type Endpoint, type Remote } from 'comlink';
+import { proxy, wrap, type Endpoint, type Remote } from 'comlink';
 import type { CurveOptions } from '../../core/dispersion/curve';
 import { InputError } from '../../core/shared/errors';
 import type { EstimateResult } from '../../core/estimate/estimate';
@@ -20,9 +20,10 @@ import type { MisfitSlice, MisfitSliceOptions, SliceCentre } from '../../core/es
 import type { LayeredModel } from '../../core/dispersion/model';
 import type { Pick } from '../../core/picks/picks';
 import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site/site';
-import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions } from './compute-api';
+import type { ProfileResult } from '../../core/profile/profile-estimate';
+import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions, WorkerProfileOptions } from './compute-api';
 
-export type { CurvesResult, WorkerEstimateOptions } from './compute-api';
+export type { CurvesResult, WorkerEstimateOptions, WorkerProfileOptions } from './compute-api';
 
 /** What the bridge needs of a worker: a comlink endpoint that can be terminated. */
 export interface WorkerLike extends Endpoint {
@@ -244,6 +245,20 @@ export function computeMisfitSlice(
   signal?: AbortSignal,
 ): Promise<MisfitSlice> {
   return computeBridge().call('misfitSlice', [picks, options, centre, sliceOptions], signal);
+}
+
+/**
+ * The layered estimate (core/profile) off the UI thread, with progress:
+ * `onProgress(fraction)` runs on the page as the worker reports (0–1).
+ * Abort `signal` to cancel: the running worker is stopped.
+ */
+export function computeProfile(
+  picks: readonly Pick[],
+  options: WorkerProfileOptions = {},
+  onProgress?: (fraction: number) => void,
+  signal?: AbortSignal,
+): Promise<ProfileResult> {
+  return computeBridge().call('profile', [picks, options, onProgress ? proxy(onProgress) : undefined], signal);
 }
 
 /** Site figures of a layered model (core/site/site.ts siteFigures). */

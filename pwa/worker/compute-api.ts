@@ -13,6 +13,7 @@ import { InputError } from '../../core/shared/errors';
 import { estimateLayer, type EstimateOptions, type EstimateResult } from '../../core/estimate/estimate';
 import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentre } from '../../core/estimate/misfit-slice';
 import type { LayeredModel } from '../../core/dispersion/model';
+import { estimateProfile, type ProfileOptions, type ProfileResult } from '../../core/profile/profile-estimate';
 import type { Pick } from '../../core/picks/picks';
 import {
   siteFigures,
@@ -57,6 +58,21 @@ export interface WorkerEstimateOptions extends Omit<EstimateOptions, 'whereOf' |
   /** How the options are named in messages (e.g. a form's labels). @default the option names */
   fieldLabels?: EstimateOptions['fieldLabels'];
 }
+
+/**
+ * Layered-estimate options that can cross to the worker (no functions):
+ * the core's ProfileOptions with `pickLabels[i]` naming pick i in messages.
+ * Progress comes through a separate callback argument (a comlink proxy).
+ */
+export interface WorkerProfileOptions extends Omit<ProfileOptions, 'whereOf' | 'onProgress' | 'fieldLabels'> {
+  /** How each pick is named in messages. @default `pick ${i + 1}` */
+  pickLabels?: readonly string[];
+  /** How the options are named in messages. @default the option names */
+  fieldLabels?: ProfileOptions['fieldLabels'];
+}
+
+/** Smallest change of the fraction done worth sending to the page (one per cent). */
+const PROGRESS_STEP = 0.01;
 
 /** A computed value and the ArrayBuffers it owns (to transfer, not copy). */
 export interface Computed<T> {
@@ -130,6 +146,42 @@ export const computeApi = {
     return run(
       () => misfitSlice(picks, core, centre, sliceOptions),
       (r) => [r.x.buffer, r.y.buffer, r.chi2.buffer],
+    );
+  },
+
+  /**
+   * The layered estimate (core/profile/profile-estimate.ts): N = 1–4 layers
+   * from Love and/or Rayleigh picks, with the ensemble's intervals and depth
+   * band. `onProgress(fraction)` (in the worker, a comlink proxy to the page)
+   * hears the fraction done, at most once per per cent.
+   */
+  profile(picks: readonly Pick[], options: WorkerProfileOptions = {}, onProgress?: (fraction: number) => unknown): Computed<ProfileResult> {
+    const { pickLabels, ...rest } = options;
+    const core: ProfileOptions = { ...rest };
+    if (pickLabels) core.whereOf = (i) => pickLabels[i] ?? `pick ${i + 1}`;
+    if (onProgress) {
+      let last = -1;
+      core.onProgress = (f) => {
+        if (f === 1 || f - last >= PROGRESS_STEP) {
+          last = f;
+          void onProgress(f);
+        }
+      };
+    }
+    return run(
+      () => estimateProfile(picks, core),
+      (r) => [
+        r.band.depth.buffer,
+        r.band.best.buffer,
+        r.band.low68.buffer,
+        r.band.high68.buffer,
+        r.band.low95.buffer,
+        r.band.high95.buffer,
+        r.pickFit.predicted.buffer,
+        r.pickFit.residual.buffer,
+        r.pickFit.normalised.buffer,
+        r.pickFit.sd.buffer,
+      ],
     );
   },
 

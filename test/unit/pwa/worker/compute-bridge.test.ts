@@ -6,7 +6,7 @@
  * comlink path is exercised; the API behind it is the real compute API
  * plus a "hold" method that finishes only when the test says so.
  */
-import { expose } from 'comlink';
+import { expose, proxy } from 'comlink';
 import { afterEach, describe, expect, it } from 'vitest';
 import { InputError } from '../../../../core/shared/errors';
 import type { LayeredModel } from '../../../../core/dispersion/model';
@@ -70,6 +70,10 @@ function harness() {
     },
     siteFiguresForRanges: (...args: Parameters<ComputeApi['siteFiguresForRanges']>) => computeApi.siteFiguresForRanges(...args).outcome,
     estimate: (...args: Parameters<ComputeApi['estimate']>) => computeApi.estimate(...args).outcome,
+    profile: (...args: Parameters<ComputeApi['profile']>) => {
+      log.push('profile');
+      return computeApi.profile(...args).outcome;
+    },
   };
   const bridge = new ComputeBridge(() => {
     const w = new FakeWorker(api);
@@ -214,6 +218,31 @@ describe('the compute bridge', () => {
     );
     expect(e).toBeInstanceOf(InputError);
     expect((e as InputError).field).toBe('row 3, velocity_m_s');
+  });
+
+  it('the layered estimate crosses with its band, reports progress to the page through a comlink proxy, and can be cancelled', async () => {
+    const { bridge, workers } = harness();
+    cleanup.push(() => bridge.terminate());
+    const f = [3, 4, 5, 6, 8, 10, 12, 16, 20, 24];
+    const curves = computeApi.curves(model, f, {}).outcome;
+    if (!curves.ok) throw new Error('curves failed');
+    const picks = f.map((fr, i) => ({ frequency: fr, velocity: curves.value.modes[0].group[i], kind: 'group' as const, mode: 0, sd: 3 }));
+    const options = { layers: 1, seed: 3, effort: { chainSteps: 200, burnIn: 100 } };
+    const seen: number[] = [];
+    const result = await bridge.call('profile', [picks, options, proxy((x: number) => void seen.push(x))]);
+    const direct = computeApi.profile(picks, options).outcome;
+    expect(result).toEqual(direct.ok ? direct.value : undefined); // the bridge changes nothing
+    expect(result.band.depth).toBeInstanceOf(Float64Array);
+    expect(result.caution).toMatch(/^Screening estimate only\./);
+    await until(() => seen.includes(1));
+    for (let i = 1; i < seen.length; i++) expect(seen[i]).toBeGreaterThanOrEqual(seen[i - 1]);
+    // Cancel a running estimate: the worker is stopped and the call rejects with an AbortError.
+    const controller = new AbortController();
+    const running = bridge.call('profile', [picks, { ...options, layers: 1, effort: { chainSteps: 5000 } }], controller.signal);
+    controller.abort();
+    const e = await running.then(() => undefined, (err: unknown) => err);
+    expect(isAbortError(e)).toBe(true);
+    expect(workers.some((w) => w.terminated)).toBe(true);
   });
 
   it('LatestOnly aborts the previous signal when a new input arrives', () => {
