@@ -337,11 +337,16 @@ export function bundleToJson(bundle: SiteBundle): string {
   return JSON.stringify(bundle, null, 2) + '\n';
 }
 
-/** A file name for a bundle: `shearfield-sites-YYYY-MM-DD.json` (plus the site's name when it holds one site). */
+/** A file name for a bundle: `shearfield-sites-YYYY-MM-DD.json`, or with the site's name (whole words, up to 40 characters) when it holds one site. */
 export function bundleFileName(bundle: SiteBundle): string {
   const day = bundle.exportedAt.slice(0, 10);
   if (bundle.sites.length === 1) {
-    const slug = bundle.sites[0].name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40);
+    let slug = bundle.sites[0].name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '');
+    // At most 40 characters, cut between words (a single word longer than that is cut).
+    if (slug.length > 40) {
+      const head = slug.slice(0, 41);
+      slug = head.includes('-') ? head.replace(/-[^-]*$/, '') : slug.slice(0, 40);
+    }
     if (slug) return `shearfield-${slug}-${day}.json`;
   }
   return `shearfield-sites-${day}.json`;

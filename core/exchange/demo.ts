@@ -52,3 +52,13 @@ export function demoPicks(seed = DEMO_SEED): Pick[] {
   for (const f of [16, 19, 22, 26, 30, 35]) if (f > f1 * 1.05) add(f, 1);
   return picks;
 }
+
+/**
+ * True for the invented demo site as the app installs it (its invented name
+ * and crew). The app keeps such a site out of sync and out of "export all"
+ * unless the crew asks for it, so that invented data never reaches the
+ * office by accident. A site renamed by the crew is theirs and travels.
+ */
+export function isDemoSite(site: { type: string; name?: string; crew?: string }): boolean {
+  return site.type === 'site' && site.name === DEMO_SITE.name && site.crew === DEMO_SITE.crew;
+}

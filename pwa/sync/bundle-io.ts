@@ -5,6 +5,7 @@
  * stays out of the app's first download.
  */
 import { bundleFileName, bundleToJson, importSummary, makeBundle, parseBundle, planBundleImport } from '../../core/exchange/bundle';
+import { isDemoSite } from '../../core/exchange/demo';
 import { InputError } from '../../core/shared/errors';
 import type { FieldStore } from '../store';
 
@@ -13,12 +14,32 @@ export interface BundleFile {
   text: string;
   sites: number;
   picks: number;
+  /** Invented demo sites left out (only when no `siteIds` were given and the demo was not asked for). */
+  demoLeftOut: number;
 }
 
-/** The bundle of every site on the tablet (or only `siteIds`), deletions and kept conflicts included. */
-export async function exportBundle(store: FieldStore, siteIds?: readonly string[], exportedBy?: string): Promise<BundleFile> {
-  const bundle = makeBundle(await store.allRecords(), { siteIds, exportedBy });
-  return { name: bundleFileName(bundle), text: bundleToJson(bundle), sites: bundle.sites.length, picks: bundle.picks.length };
+/**
+ * The bundle of every site on the tablet (or only `siteIds`), deletions and
+ * kept conflicts included. "Every site" leaves the invented demo site out
+ * unless `includeDemo` is set; a demo site named in `siteIds` is included.
+ */
+export async function exportBundle(
+  store: FieldStore,
+  siteIds?: readonly string[],
+  exportedBy?: string,
+  options: { includeDemo?: boolean } = {},
+): Promise<BundleFile> {
+  const all = await store.allRecords();
+  let ids = siteIds;
+  let demoLeftOut = 0;
+  if (!ids && !options.includeDemo) {
+    const sites = all.filter((r) => r.type === 'site');
+    const keep = sites.filter((r) => !isDemoSite(r));
+    demoLeftOut = sites.filter((r) => !r.deleted).length - keep.filter((r) => !r.deleted).length;
+    ids = keep.map((r) => r.id);
+  }
+  const bundle = makeBundle(all, { siteIds: ids, exportedBy });
+  return { name: bundleFileName(bundle), text: bundleToJson(bundle), sites: bundle.sites.length, picks: bundle.picks.length, demoLeftOut };
 }
 
 export interface ImportOutcome {

@@ -18,9 +18,18 @@
  * timer while online: every INTERVAL_MS after a success, and after a
  * failure after 5 s, 10 s, 20 s … up to MAX_BACKOFF_MS.
  *
+ * The invented demo site (core/exchange/demo.ts isDemoSite) and its picks
+ * and estimates stay on the tablet: their outbox entries wait, are not sent
+ * and are not counted as waiting, until the crew turns on
+ * `setIncludeDemo(true)`.
+ *
+ * Every attempt (success or failure) is remembered with its time and
+ * outcome (`lastAttempt`), so the panel never has to guess.
+ *
  * Nothing here touches the DOM; it runs in the page and in Node tests alike
  * (given `fetch`, an IndexedDB and, optionally, online/offline events).
  */
+import { isDemoSite } from '../../core/exchange/demo';
 import type { AnyRecord } from '../../core/exchange/records';
 import { hasConflicts, planMerge } from '../../core/exchange/sync';
 import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/exchange/sync-protocol';
@@ -33,7 +42,28 @@ export const SYNC_KEYS = {
   cursor: 'sync.cursor',
   lastSuccess: 'sync.lastSuccess',
   lastError: 'sync.lastError',
+  /** JSON of the last attempt: {at, ok, message}. */
+  lastAttempt: 'sync.lastAttempt',
+  /** 'yes' when the crew asked to send the invented demo site too. */
+  includeDemo: 'sync.includeDemo',
 } as const;
+
+/** One sync attempt's outcome. */
+export interface SyncAttempt {
+  /** ISO time the attempt ended. */
+  at: string;
+  ok: boolean;
+  /** What happened, in plain words. */
+  message: string;
+}
+
+/** Ids of the demo site(s) and of every pick and estimate of them, among `records`. */
+export function demoRecordIds(records: readonly AnyRecord[]): Set<string> {
+  const sites = new Set(records.filter((r) => r.type === 'site' && isDemoSite(r)).map((r) => r.id));
+  const ids = new Set(sites);
+  for (const r of records) if (r.type !== 'site' && sites.has(r.siteId)) ids.add(r.id);
+  return ids;
+}
 
 /** Most records in one push. */
 export const PUSH_BATCH_RECORDS = 5000;
@@ -67,8 +97,14 @@ export type SyncState = 'not-set-up' | 'idle' | 'syncing' | 'offline' | 'error';
 
 export interface SyncStatus {
   state: SyncState;
-  /** Records waiting to be sent to the office. */
+  /** Records waiting to be sent to the office (the demo site's are not counted unless included). */
   pending: number;
+  /** Records of the invented demo site kept on this tablet (not sent). */
+  heldDemo: number;
+  /** Whether the crew asked to send the demo site too. */
+  includeDemo: boolean;
+  /** The last attempt, successful or not. */
+  lastAttempt?: SyncAttempt;
   /** Records carrying versions edited elsewhere, waiting for review. */
   conflicts: number;
   serverUrl?: string;
@@ -116,6 +152,16 @@ export function normaliseServerUrl(text: string): string {
   return `${url.protocol}//${url.host}${url.pathname.replace(/\/+$/, '')}`;
 }
 
+function parseAttempt(text: string | undefined): SyncAttempt | undefined {
+  if (!text) return undefined;
+  try {
+    const a = JSON.parse(text) as SyncAttempt;
+    return typeof a?.at === 'string' && typeof a.ok === 'boolean' && typeof a.message === 'string' ? a : undefined;
+  } catch {
+    return undefined;
+  }
+}
+
 function approxBytes(r: AnyRecord): number {
   return JSON.stringify(r).length + 1;
 }
@@ -136,7 +182,7 @@ export class SyncClient {
   private timer: ReturnType<typeof setTimeout> | undefined;
   private failures = 0;
   private started = false;
-  private status: SyncStatus = { state: 'idle', pending: 0, conflicts: 0 };
+  private status: SyncStatus = { state: 'idle', pending: 0, conflicts: 0, heldDemo: 0, includeDemo: false };
   private readonly listeners = new Set<(s: SyncStatus) => void>();
   private readonly onOnline = () => {
     this.failures = 0;
@@ -201,24 +247,34 @@ export class SyncClient {
 
   /** Re-reads the counts and saved settings into the status. */
   async refresh(): Promise<SyncStatus> {
-    const [outbox, records, serverUrl, token, lastSuccess, lastError] = await Promise.all([
+    const [outbox, records, serverUrl, token, lastSuccess, lastError, lastAttempt, includeDemo] = await Promise.all([
       this.store.outbox(),
       this.store.allRecords(),
       this.store.getSetting<string>(SYNC_KEYS.serverUrl),
       this.store.getSetting<string>(SYNC_KEYS.token),
       this.store.getSetting<string>(SYNC_KEYS.lastSuccess),
       this.store.getSetting<string>(SYNC_KEYS.lastError),
+      this.store.getSetting<string>(SYNC_KEYS.lastAttempt),
+      this.store.getSetting<string>(SYNC_KEYS.includeDemo),
     ]);
+    const withDemo = includeDemo === 'yes';
+    const demo = withDemo ? new Set<string>() : demoRecordIds(records);
+    const waiting = new Set(outbox.map((e) => e.recordId));
+    let held = 0;
+    for (const id of waiting) if (demo.has(id)) held += 1;
     const configured = Boolean(serverUrl && token);
     let state: SyncState = this.status.state === 'syncing' ? 'syncing' : configured ? (lastError ? 'error' : 'idle') : 'not-set-up';
     if (configured && state !== 'syncing' && !this.isOnline()) state = 'offline';
     this.emit({
       state,
-      pending: new Set(outbox.map((e) => e.recordId)).size,
+      pending: waiting.size - held,
+      heldDemo: held,
+      includeDemo: withDemo,
       conflicts: records.filter(hasConflicts).length,
       serverUrl: serverUrl || undefined,
       lastSuccess: lastSuccess || undefined,
       lastError: lastError || undefined,
+      lastAttempt: parseAttempt(lastAttempt),
     });
     return this.status;
   }
@@ -247,6 +303,17 @@ export class SyncClient {
     await this.store.putSetting(SYNC_KEYS.lastError, '');
     await this.refresh();
     return device;
+  }
+
+  /** Sends the invented demo site to the office too (on), or keeps it on this tablet (off, the default). */
+  async setIncludeDemo(on: boolean): Promise<SyncStatus> {
+    await this.store.putSetting(SYNC_KEYS.includeDemo, on ? 'yes' : '');
+    return this.refresh();
+  }
+
+  private async recordAttempt(ok: boolean, message: string): Promise<void> {
+    const attempt: SyncAttempt = { at: this.now().toISOString(), ok, message };
+    await this.store.putSetting(SYNC_KEYS.lastAttempt, JSON.stringify(attempt));
   }
 
   /** Forgets the office address and token (queued changes stay queued). */
@@ -301,16 +368,18 @@ export class SyncClient {
       this.failures = 0;
       await this.store.putSetting(SYNC_KEYS.lastSuccess, this.now().toISOString());
       await this.store.putSetting(SYNC_KEYS.lastError, '');
+      const message = `Synced: ${pushed} sent, ${pulled} received${conflicts > 0 ? `, ${conflicts} conflict(s) kept for review` : ''}.`;
+      await this.recordAttempt(true, message);
       this.emit({ state: 'idle' });
       await this.refresh();
       this.schedule(true);
-      const message = `Synced: ${pushed} sent, ${pulled} received${conflicts > 0 ? `, ${conflicts} conflict(s) kept for review` : ''}.`;
       return { ok: true, pushed, pulled, conflicts, message };
     } catch (e) {
       const message = e instanceof SyncError ? e.message : `Sync failed: ${(e as Error)?.message ?? String(e)}`;
       this.failures += 1;
       try {
-        await this.store.putSetting(SYNC_KEYS.lastError, `${message} (${this.now().toISOString().slice(0, 16).replace('T', ' ')} UTC)`);
+        await this.store.putSetting(SYNC_KEYS.lastError, message);
+        await this.recordAttempt(false, message);
       } catch {
         /* the status below still shows it */
       }
@@ -365,11 +434,14 @@ export class SyncClient {
     if (entries.length === 0) return { pushed: 0, conflicts: 0 };
     const all = await this.store.allRecords();
     const byId = new Map(all.map((r) => [r.id, r]));
+    // The invented demo site stays on the tablet unless the crew asked to send it: its entries wait, unsent.
+    const held = (await this.store.getSetting<string>(SYNC_KEYS.includeDemo)) === 'yes' ? new Set<string>() : demoRecordIds(all);
     // The current version of each queued record, in queue order.
     const order: string[] = [];
     const seqsOf = new Map<string, number[]>();
     const orphanSeqs: number[] = [];
     for (const e of entries) {
+      if (held.has(e.recordId)) continue;
       const rec = byId.get(e.recordId);
       if (!rec || rec.rev < e.rev) {
         // Only possible if the record vanished; nothing to send for this entry.

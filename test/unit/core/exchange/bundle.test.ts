@@ -82,6 +82,14 @@ describe('site bundle', () => {
     expect(bundleFileName(bundle)).toBe('shearfield-invented-site-quarry-lane-b-north-b-2026-05-04.json');
   });
 
+  it('names a one-site bundle file after the site in whole words, at most 40 characters', () => {
+    const { site } = fixture();
+    const long = makeBundle([{ ...site, name: 'Invented: Upper Kestrel terrace, northern embankment line 4' }], { now: new Date(T0) });
+    expect(bundleFileName(long)).toBe('shearfield-invented-upper-kestrel-terrace-northern-2026-05-04.json');
+    const oneWord = makeBundle([{ ...site, name: 'x'.repeat(60) }], { now: new Date(T0) });
+    expect(bundleFileName(oneWord)).toBe(`shearfield-${'x'.repeat(40)}-2026-05-04.json`);
+  });
+
   it('keeps markup in notes as plain text', () => {
     const { site, picks } = fixture();
     const back = parseBundle(bundleToJson(makeBundle([site, ...picks])));
