@@ -12,6 +12,7 @@
  * 1,048,576 samples per trace, a sample interval from 1 µs to 1 s, offsets
  * up to 100 km.
  */
+import type { Recording } from '../recordings/recording';
 import { InputError, describeValue } from '../shared/errors';
 
 export interface Gather {
@@ -130,4 +131,23 @@ export function spreadOf(offsets: ArrayLike<number>): Spread {
   let regular = gaps.length === n - 1 && n > 1;
   for (const d of gaps) if (Math.abs(d - spacing) > 1e-6 * spacing) regular = false;
   return { length, spacing, sorted, regular };
+}
+
+/**
+ * The gather of a recording read by core/recordings: offsets become
+ * distances |x| (a trace on the far side of the source counts by its
+ * distance). A recording whose geometry is missing throws the reader's own
+ * question as an InputError (offsets are asked for, never guessed).
+ */
+export function gatherOfRecording(rec: Recording): Gather {
+  if (rec.missingGeometry) {
+    throw new InputError('offsets', rec.askFor[0] ?? `The recording "${rec.name}" has no offsets; give the first offset and the spacing.`);
+  }
+  return {
+    traces: rec.traces,
+    sampleInterval: rec.sampleInterval,
+    startTime: rec.delay,
+    offsets: Float64Array.from(rec.offsets, Math.abs),
+    name: rec.name,
+  };
 }

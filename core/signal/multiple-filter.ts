@@ -79,9 +79,9 @@ export const AIRY_FACTOR = 1.25;
 /** The filter is cut where exp(−α r²) < e^−FILTER_REACH (2e-9 of its peak). */
 const FILTER_REACH = 20;
 /** Rows weaker than this fraction of the strongest take no part in finding the Airy minimum. */
-const AIRY_MIN_STRENGTH = 0.02;
+const AIRY_MIN_STRENGTH = 0.01;
 /** The minimum counts as interior when both ends of the curve are this much faster. */
-const AIRY_RISE = 1.02;
+const AIRY_RISE = 1.01;
 
 /** The filter parameter α chosen for centre frequency f (Hz), travel x (m) and group velocity u (m/s). */
 export function autoAlpha(f: number, x: number, u: number): number {
