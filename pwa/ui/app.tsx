@@ -6,19 +6,19 @@
 import { CAUTION } from '../../core/shared/caution';
 import { useEffect, useMemo, useState } from 'preact/hooks';
 import type { LayeredModel } from '../../core/dispersion/model';
-import type { Controller } from './controller';
-import { ImportPanel, PicksTable } from './picks-table';
-import { PlotPanel } from './plot';
-import { SiteDetails } from './site-details';
-import { SitesView } from './sites-view';
-import type { AppState, ViewName } from './state';
-import { SyncPanel } from './sync-panel';
+import { PlotPanel } from './charts/plot-panel';
+import type { AppController } from './controllers/app-controller';
+import type { AppState, ViewName } from './controllers/app-state';
+import { ImportPanel, PicksTable } from './views/picks-table';
+import { SiteDetails } from './views/site-details';
+import { SitesView } from './views/sites-view';
+import { SyncPanel } from './views/sync-panel';
 
-type WorkViews = typeof import('./work-views');
+type WorkViews = typeof import('./views/work-views');
 let workViews: Promise<WorkViews> | undefined;
 /** Loads the later site views once (they are a chunk of their own). */
 function loadWorkViews(): Promise<WorkViews> {
-  workViews ??= import('./work-views');
+  workViews ??= import('./views/work-views');
   return workViews;
 }
 
@@ -39,7 +39,7 @@ function useWorkViews(): { views?: WorkViews; error?: string } {
 }
 
 /** The state of a controller, re-rendered on every change. */
-function useAppState(c: Controller): AppState {
+function useAppState(c: AppController): AppState {
   const [s, setS] = useState(c.current);
   useEffect(() => c.subscribe(setS), [c]);
   return s;
@@ -66,7 +66,7 @@ function Mark() {
 }
 
 export interface AppProps {
-  controller: Controller;
+  controller: AppController;
 }
 
 export function App({ controller: c }: AppProps) {
@@ -91,7 +91,7 @@ export function App({ controller: c }: AppProps) {
           type="button"
           class="theme"
           aria-pressed={s.theme === 'sun'}
-          onClick={() => void c.setTheme(s.theme === 'sun' ? 'standard' : 'sun')}
+          onClick={() => void c.settings.setTheme(s.theme === 'sun' ? 'standard' : 'sun')}
         >
           Sunlight contrast
         </button>
@@ -101,10 +101,10 @@ export function App({ controller: c }: AppProps) {
         <section class="update" aria-labelledby="upd-h" aria-describedby="upd-p" aria-live="polite">
           <h2 id="upd-h">A new version of the app is ready</h2>
           <p id="upd-p">Everything you typed is saved first; rows with unsaved corrections hold the update back.</p>
-          <button type="button" class="primary" onClick={() => void c.applyUpdate()}>
+          <button type="button" class="primary" onClick={() => void c.settings.applyUpdate()}>
             Update now
           </button>
-          <button type="button" onClick={() => c.dismissUpdate()}>
+          <button type="button" onClick={() => c.settings.dismissUpdate()}>
             Later
           </button>
         </section>
@@ -145,13 +145,13 @@ export function App({ controller: c }: AppProps) {
               query={s.siteQuery}
               sort={s.siteSort}
               error={s.siteError}
-              onQuery={(q) => c.setSiteQuery(q)}
-              onSort={(x) => c.setSiteSort(x)}
-              onCreate={(name) => c.createSite(name)}
-              onOpen={(id) => c.openSite(id)}
-              onDemo={() => void c.loadDemo()}
+              onQuery={(q) => c.sites.setSiteQuery(q)}
+              onSort={(x) => c.sites.setSiteSort(x)}
+              onCreate={(name) => c.sites.createSite(name)}
+              onOpen={(id) => c.sites.openSite(id)}
+              onDemo={() => void c.sites.loadDemo()}
             />
-            <SyncPanel onRecordsChanged={() => void c.reloadFromStore()} />
+            <SyncPanel state={s.sync} sync={c.sync} />
           </>
         )}
       </main>
@@ -168,7 +168,7 @@ function fittedModel(s: AppState): LayeredModel | undefined {
   };
 }
 
-function SiteWork({ s, c }: { s: AppState; c: Controller }) {
+function SiteWork({ s, c }: { s: AppState; c: AppController }) {
   const site = s.sites.find((x) => x.id === s.openSiteId)!;
   const fitted = useMemo(() => fittedModel(s), [s.estimate.result]);
   const { views, error: viewsError } = useWorkViews();
@@ -191,7 +191,7 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
   return (
     <>
       <div class="site-head">
-        <button type="button" onClick={() => c.closeSite()}>
+        <button type="button" onClick={() => c.sites.closeSite()}>
           ← All sites
         </button>
         <h1 class="page-title">{site.name || '(unnamed site)'}</h1>
@@ -202,7 +202,7 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
             type="button"
             key={v.id}
             aria-current={s.view === v.id ? 'page' : undefined}
-            onClick={() => c.setView(v.id)}
+            onClick={() => c.sites.setView(v.id)}
           >
             {v.label}
           </button>
@@ -217,21 +217,21 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
               unit={site.axisUnit}
               selectedId={s.selectedPickId}
               undo={s.undo}
-              onEdit={(r, col, t) => c.editCell(r, col, t)}
-              onCommit={(r, force) => void c.commitRow(r, force)}
-              onKind={(r, k) => void c.setKind(r, k)}
-              onDelete={(id) => void c.deletePick(id)}
-              onDiscard={(r) => c.discardDraft(r)}
-              onSelect={(id) => c.selectPick(id)}
-              onUnit={(u) => void c.setAxisUnit(u)}
-              onUndo={() => void c.undo()}
+              onEdit={(r, col, t) => c.picks.editCell(r, col, t)}
+              onCommit={(r, force) => void c.picks.commitRow(r, force)}
+              onKind={(r, k) => void c.picks.setKind(r, k)}
+              onDelete={(id) => void c.picks.deletePick(id)}
+              onDiscard={(r) => c.picks.discardDraft(r)}
+              onSelect={(id) => c.picks.selectPick(id)}
+              onUnit={(u) => void c.settings.setAxisUnit(u)}
+              onUndo={() => void c.picks.undo()}
             />
             <ImportPanel
               state={s.importState}
-              onText={(t) => c.setImportText(t)}
-              onReplace={(r) => c.setImportReplace(r)}
-              onImport={(t, src) => void c.importCsv(t, src)}
-              onFile={(f) => void c.importFile(f)}
+              onText={(t) => c.imports.setImportText(t)}
+              onReplace={(r) => c.imports.setImportReplace(r)}
+              onImport={(t, src) => void c.imports.importCsv(t, src)}
+              onFile={(f) => void c.imports.importFile(f)}
             />
           </div>
           <PlotPanel
@@ -243,8 +243,8 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
             selectedId={s.selectedPickId}
             settings={s.plot}
             theme={s.theme}
-            onSelect={(id) => c.selectPick(id)}
-            onSettings={(p) => c.setPlot(p)}
+            onSelect={(id) => c.picks.selectPick(id)}
+            onSettings={(p) => c.settings.setPlot(p)}
           />
         </div>
       ) : s.view !== 'details' && !views ? (
@@ -257,10 +257,10 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
           estimate={s.estimate}
           pickCount={s.picks.length}
           theme={s.theme}
-          onEdit={(k, t) => c.editSetting(k, t)}
-          onCommit={(k) => void c.commitSetting(k)}
-          onKnown={(w, known, sug) => void c.setKnown(w, known, sug)}
-          onRun={() => void c.estimateNow()}
+          onEdit={(k, t) => c.settings.editSetting(k, t)}
+          onCommit={(k) => void c.settings.commitSetting(k)}
+          onKnown={(w, known, sug) => void c.settings.setKnown(w, known, sug)}
+          onRun={() => void c.estimates.estimateNow()}
         />
       ) : s.view === 'figures' && views ? (
         <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />
@@ -272,22 +272,22 @@ function SiteWork({ s, c }: { s: AppState; c: Controller }) {
           selectedId={s.selectedPickId}
           plot={s.plot}
           theme={s.theme}
-          onModel={(m) => c.setWhatIf(m)}
-          onSelect={(id) => c.selectPick(id)}
-          onPlot={(p) => c.setPlot(p)}
+          onModel={(m) => c.settings.setWhatIf(m)}
+          onSelect={(id) => c.picks.selectPick(id)}
+          onPlot={(p) => c.settings.setPlot(p)}
         />
       ) : s.view === 'survey' && views ? (
-        <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.setSurveyDepth(t)} />
+        <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.settings.setSurveyDepth(t)} />
       ) : (
         <SiteDetails
           site={site}
           drafts={s.siteDraft}
           error={s.siteError}
           locating={s.locating}
-          onEdit={(f, t) => c.editSiteField(f, t)}
-          onCommit={(f) => void c.commitSiteField(f)}
-          onLocate={() => c.locate()}
-          onDelete={() => void c.deleteOpenSite()}
+          onEdit={(f, t) => c.sites.editSiteField(f, t)}
+          onCommit={(f) => void c.sites.commitSiteField(f)}
+          onLocate={() => c.sites.locate()}
+          onDelete={() => void c.sites.deleteOpenSite()}
         />
       )}
     </>

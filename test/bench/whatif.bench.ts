@@ -2,7 +2,7 @@
  * What-if slider redraw (issue 4 §5: ≤ 16 ms median, one display frame at
  * 60 Hz): the work done per slider step before uPlot draws, in Node without
  * a DOM. That is the model's curves for every (mode, kind) the picks hold
- * (core/dispersion/curve.ts loveCurves through pwa/ui/chart-data.ts curveColumns, on
+ * (core/dispersion/curve.ts loveCurves through pwa/ui/charts/chart-data.ts curveColumns, on
  * the plot's 160-point band) and the pick columns. Each step moves H a
  * little, as a dragged slider does. uPlot's own canvas drawing is not
  * included (it needs a browser).
@@ -11,7 +11,7 @@ import { demoPicks, DEMO_MODEL } from '../../core/exchange/demo';
 import type { LayeredModel } from '../../core/dispersion/model';
 import type { Pick } from '../../core/picks/picks';
 import { chi2At, prepareEstimate } from '../../core/estimate/estimate';
-import { curveColumns, curveKeysOf, pickColumns, plotBand } from '../../pwa/ui/chart-data';
+import { curveColumns, curveKeysOf, pickColumns, plotBand } from '../../pwa/ui/charts/chart-data';
 import { bench, type BenchResult } from './harness';
 
 function modelAt(h: number): LayeredModel {
@@ -33,7 +33,7 @@ function step(picks: Pick[]) {
   };
 }
 
-/** The what-if misfit readout per step: the estimate's χ² of the slider model (as pwa/ui/whatif-view.tsx does). */
+/** The what-if misfit readout per step: the estimate's χ² of the slider model (as pwa/ui/views/whatif-view.tsx does). */
 function misfitStep(picks: Pick[]) {
   let k = 0;
   return () => {

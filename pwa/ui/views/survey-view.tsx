@@ -3,9 +3,9 @@
  * what the spread and source must reach (core/site/survey.ts, common practice),
  * and what to change before leaving the site.
  */
-import type { EstimateResult } from '../../core/estimate/estimate';
-import type { PickRecord } from '../../core/exchange/records';
-import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../core/site/survey';
+import type { EstimateResult } from '../../../core/estimate/estimate';
+import type { PickRecord } from '../../../core/exchange/records';
+import { pickWavelengths, surveyAdvice, type SurveyAdvice } from '../../../core/site/survey';
 import { Caution } from './estimate-view';
 import { num, span } from './format';
 

@@ -3,10 +3,10 @@
  * lazily loaded uPlot engine (plot-engine.ts).
  */
 import { useEffect, useRef, useState } from 'preact/hooks';
-import type { LayeredModel } from '../../core/dispersion/model';
-import type { PickRecord } from '../../core/exchange/records';
+import type { LayeredModel } from '../../../core/dispersion/model';
+import type { PickRecord } from '../../../core/exchange/records';
 import type { DispersionPlot } from './plot-engine';
-import type { PlotSettings } from './state';
+import type { PlotSettings } from '../controllers/app-state';
 
 export interface PlotPanelProps {
   picks: readonly PickRecord[];

@@ -1,14 +1,14 @@
 /**
- * What-if helpers (pwa/ui/whatif-view.tsx): the misfit readout is the
+ * What-if helpers (pwa/ui/views/whatif-view.tsx): the misfit readout is the
  * estimate's own χ², so at the best fit it equals the estimate's χ²; a
  * model that cannot trap Love waves draws no curves and says why. Picks:
  * the invented demo site (core/exchange/demo.ts).
  */
 import { describe, expect, it } from 'vitest';
-import { demoPicks } from '../../../../core/exchange/demo';
-import { estimateLayer } from '../../../../core/estimate/estimate';
-import type { PickRecord } from '../../../../core/exchange/records';
-import { layeredOf, startingModel, whatIfMisfit } from '../../../../pwa/ui/whatif-view';
+import { demoPicks } from '../../../../../core/exchange/demo';
+import { estimateLayer } from '../../../../../core/estimate/estimate';
+import type { PickRecord } from '../../../../../core/exchange/records';
+import { layeredOf, startingModel, whatIfMisfit } from '../../../../../pwa/ui/views/whatif-view';
 
 const picks = demoPicks().map(
   (p, i) => ({ ...p, id: `p${i}`, rev: 1, updatedAt: '2026-01-01T00:00:00.000Z', type: 'pick', siteId: 's', order: i }) as PickRecord,

@@ -1,8 +1,8 @@
 /** A site's details: name, date, crew, notes and location. Each field saves when it changes. */
 import { useState } from 'preact/hooks';
-import type { SiteRecord } from '../../core/exchange/records';
-import type { SiteTextField } from './controller';
-import type { SiteFormError } from './state';
+import type { SiteRecord } from '../../../core/exchange/records';
+import type { SiteTextField } from '../controllers/form-text';
+import type { SiteFormError } from '../controllers/app-state';
 
 export interface SiteDetailsProps {
   site: SiteRecord;

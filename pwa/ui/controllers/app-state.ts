@@ -1,12 +1,13 @@
 /**
  * The app's state: one immutable object, replaced (never mutated) on every
- * change. Pure helpers here; the async work that changes it lives in
- * controller.ts.
+ * change (state-hub.ts). Each concern's controller in this folder owns its
+ * slices and their async work. Pure helpers here.
  */
-import type { PickCells, PickKind, PickProblem } from '../../core/picks/picks';
-import type { PickRecord, SiteRecord } from '../../core/exchange/records';
-import type { AxisQuantity } from './chart-data';
-import type { MisfitSlice } from '../../core/estimate/misfit-slice';
+import type { PickCells, PickKind, PickProblem } from '../../../core/picks/picks';
+import type { AnyRecord, PickRecord, SiteRecord } from '../../../core/exchange/records';
+import type { SyncStatus } from '../../sync/client';
+import type { AxisQuantity } from '../charts/chart-data';
+import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
 
 export type ViewName = 'picks' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
@@ -71,6 +72,24 @@ export interface SiteFormError {
   text: string;
 }
 
+/** What the sync panel shows (sync-controller.ts). */
+export interface SyncPanelState {
+  /** The sync client's status; undefined while the panel's connection opens. */
+  status?: SyncStatus;
+  /** The outcome of the panel's last action, in plain words. */
+  message?: { tone: 'ok' | 'error'; text: string };
+  /** An action of the panel is running: its buttons wait. */
+  busy: boolean;
+  /** Why the office address and token were not saved. */
+  formError: string;
+  /** Records edited in two places, waiting for a choice. */
+  conflicted: readonly AnyRecord[];
+  /** Site names by id, to name the site of a conflicted pick or estimate. */
+  siteNames: Readonly<Record<string, string>>;
+  /** The office address this page was installed from, offered in the form. */
+  suggestedUrl?: string;
+}
+
 export interface AppState {
   ready: boolean;
   /** A failure that stops the app (the database could not open). */
@@ -100,6 +119,7 @@ export interface AppState {
   /** Set when a new version of the app is ready: calling it reloads into the new version. */
   updateReady?: () => void;
   locating: boolean;
+  sync: SyncPanelState;
 }
 
 /** The estimate of the open site, as the worker last answered. */
@@ -132,6 +152,7 @@ export const initialState: AppState = {
   siteDraft: {},
   estimate: { status: 'idle' },
   locating: false,
+  sync: { busy: false, formError: '', conflicted: [], siteNames: {} },
 };
 
 /** Sites matching the search text (name, crew, notes, date), in the chosen order. */

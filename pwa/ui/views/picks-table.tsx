@@ -5,10 +5,10 @@
  */
 import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
-import { morePickProblemsNote, type PickKind } from '../../core/picks/picks';
-import type { PickRecord } from '../../core/exchange/records';
-import { cellText, type PickTextColumn } from './controller';
-import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from './state';
+import { morePickProblemsNote, type PickKind } from '../../../core/picks/picks';
+import type { PickRecord } from '../../../core/exchange/records';
+import { cellText, type PickTextColumn } from '../controllers/form-text';
+import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from '../controllers/app-state';
 
 export interface PicksTableProps {
   picks: readonly PickRecord[];

@@ -3,14 +3,14 @@
  * intervals, the speeds, the alternatives, the diagnostics in plain words
  * and the misfit map. The caution text stands on every result.
  */
-import { CAUTION } from '../../core/shared/caution';
-import type { EstimateResult, ParameterEstimate } from '../../core/estimate/estimate';
-import type { MisfitSlice } from '../../core/estimate/misfit-slice';
-import type { SiteRecord } from '../../core/exchange/records';
-import { settingText, SETTING_FIELDS, type SettingKey } from './controller';
+import { CAUTION } from '../../../core/shared/caution';
+import type { EstimateResult, ParameterEstimate } from '../../../core/estimate/estimate';
+import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
+import type { SiteRecord } from '../../../core/exchange/records';
+import { settingText, SETTING_FIELDS, type SettingKey } from '../controllers/form-text';
 import { num } from './format';
-import { MisfitMapView } from './misfit-map';
-import type { EstimateState, SiteFormError } from './state';
+import { MisfitMapView } from '../charts/misfit-map';
+import type { EstimateState, SiteFormError } from '../controllers/app-state';
 
 export interface EstimateViewProps {
   site: SiteRecord;

@@ -8,9 +8,9 @@
  * uPlot needs), and one y column per (mode, kind) with NaN where the mode
  * does not exist (below its cutoff).
  */
-import { logBand, loveCurves, loveCutoffFrequencies } from '../../core/dispersion/curve';
-import type { LayeredModel } from '../../core/dispersion/model';
-import { effectiveSd, type PickKind } from '../../core/picks/picks';
+import { logBand, loveCurves, loveCutoffFrequencies } from '../../../core/dispersion/curve';
+import type { LayeredModel } from '../../../core/dispersion/model';
+import { effectiveSd, type PickKind } from '../../../core/picks/picks';
 
 /** Which abscissa the plot shows. */
 export type AxisQuantity = 'frequency' | 'period';

@@ -2,13 +2,13 @@
  * What-if: sliders for H, β1, β2 and the densities move the model curves
  * against the picks, redrawn once per animation frame (plot-engine.ts).
  */
-import { chi2At, prepareEstimate, type EstimateResult } from '../../core/estimate/estimate';
-import type { LayeredModel } from '../../core/dispersion/model';
-import type { PickRecord } from '../../core/exchange/records';
+import { chi2At, prepareEstimate, type EstimateResult } from '../../../core/estimate/estimate';
+import type { LayeredModel } from '../../../core/dispersion/model';
+import type { PickRecord } from '../../../core/exchange/records';
 import { Caution } from './estimate-view';
 import { num } from './format';
-import { PlotPanel } from './plot';
-import type { PlotSettings, WhatIfModel } from './state';
+import { PlotPanel } from '../charts/plot-panel';
+import type { PlotSettings, WhatIfModel } from '../controllers/app-state';
 
 export interface WhatIfViewProps {
   model?: WhatIfModel;

@@ -1,8 +1,8 @@
 /** The list of sites: search, sort, create, the demo site; a site opens to its work. */
 import { useState } from 'preact/hooks';
-import type { SiteRecord } from '../../core/exchange/records';
-import type { SiteFormError, SiteSort } from './state';
-import { visibleSites } from './state';
+import type { SiteRecord } from '../../../core/exchange/records';
+import type { SiteFormError, SiteSort } from '../controllers/app-state';
+import { visibleSites } from '../controllers/app-state';
 
 export interface SitesViewProps {
   sites: readonly SiteRecord[];

@@ -4,8 +4,8 @@
  * and the impedance ratio. Computed by core/site/site.ts siteFiguresOfEstimate
  * over the 95 % intervals.
  */
-import type { EstimateResult } from '../../core/estimate/estimate';
-import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../core/site/site';
+import type { EstimateResult } from '../../../core/estimate/estimate';
+import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../../core/site/site';
 import { Caution } from './estimate-view';
 import { num } from './format';
 

@@ -3,11 +3,11 @@
  * runs off the main thread and every call carries the AbortSignal of the
  * input it answers, so a newer input aborts it.
  */
-import type { EstimateResult } from '../../core/estimate/estimate';
-import type { Pick } from '../../core/picks/picks';
-import type { EstimateSettings } from '../../core/exchange/records';
-import type { MisfitSlice } from '../../core/estimate/misfit-slice';
-import { computeEstimate, computeMisfitSlice, type WorkerEstimateOptions } from '../worker/bridge';
+import type { EstimateResult } from '../../../core/estimate/estimate';
+import type { Pick } from '../../../core/picks/picks';
+import type { EstimateSettings } from '../../../core/exchange/records';
+import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
+import { computeEstimate, computeMisfitSlice, type WorkerEstimateOptions } from '../../worker/bridge';
 
 /** What the estimate view shows: the core's result as it comes back from the worker. */
 export type EstimateOutcome = EstimateResult;

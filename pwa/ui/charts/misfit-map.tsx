@@ -14,9 +14,9 @@
  * The 95 % intervals from the profile likelihood are drawn as a dashed box.
  */
 import { useEffect, useRef } from 'preact/hooks';
-import type { MisfitMap } from '../../core/estimate/estimate';
-import type { MisfitSlice } from '../../core/estimate/misfit-slice';
-import { num } from './format';
+import type { MisfitMap } from '../../../core/estimate/estimate';
+import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
+import { num } from '../views/format';
 
 const SPAN_TEXT = 'six';
 

@@ -1,5 +1,5 @@
 /**
- * The app controller (pwa/ui/controller.ts) on the real field store over
+ * The app controller (pwa/ui/controllers/) on the real field store over
  * fake-indexeddb: typed rows save at once and are checked by the core's
  * pick rules; a refused or failed write keeps the typed text on screen with
  * its message; undo takes back the last change; CSV import is all or
@@ -8,13 +8,14 @@
  */
 import 'fake-indexeddb/auto';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
-import { estimateLayer, type EstimateResult } from '../../../../core/estimate/estimate';
-import { CAUTION } from '../../../../core/shared/caution';
-import { loveVelocities } from '../../../../core/dispersion/love-layer';
-import { openFieldStore, StoreError, type FieldStore } from '../../../../pwa/store';
-import { Controller, type EstimateRunner, type SliceRunner } from '../../../../pwa/ui/controller';
-import type { MisfitSlice } from '../../../../core/estimate/misfit-slice';
-import { NEW_ROW } from '../../../../pwa/ui/state';
+import { estimateLayer, type EstimateResult } from '../../../../../core/estimate/estimate';
+import { CAUTION } from '../../../../../core/shared/caution';
+import { loveVelocities } from '../../../../../core/dispersion/love-layer';
+import { openFieldStore, StoreError, type FieldStore } from '../../../../../pwa/store';
+import { AppController } from '../../../../../pwa/ui/controllers/app-controller';
+import type { EstimateRunner, SliceRunner } from '../../../../../pwa/ui/controllers/estimate-controller';
+import type { MisfitSlice } from '../../../../../core/estimate/misfit-slice';
+import { NEW_ROW } from '../../../../../pwa/ui/controllers/app-state';
 
 let dbCount = 0;
 let store: FieldStore;
@@ -29,8 +30,8 @@ const pendingRunner: EstimateRunner = (_picks, _settings, signal) => {
   return new Promise<EstimateResult>((_ok, fail) => signal.addEventListener('abort', () => fail(new DOMException('aborted', 'AbortError'))));
 };
 
-async function started(estimate: EstimateRunner = pendingRunner, slice?: SliceRunner): Promise<Controller> {
-  const c = new Controller(estimate, slice);
+async function started(estimate: EstimateRunner = pendingRunner, slice?: SliceRunner): Promise<AppController> {
+  const c = new AppController(estimate, slice);
   await c.start(async () => {
     const real = await openFieldStore(`controller-test-${++dbCount}`);
     store = real;
@@ -52,15 +53,15 @@ async function started(estimate: EstimateRunner = pendingRunner, slice?: SliceRu
       },
     });
   });
-  await c.createSite('Test site (invented)');
+  await c.sites.createSite('Test site (invented)');
   return c;
 }
 
-async function typeRow(c: Controller, f: string, v: string, sd?: string): Promise<void> {
-  c.editCell(NEW_ROW, 'frequency_hz', f);
-  c.editCell(NEW_ROW, 'velocity_m_s', v);
-  if (sd !== undefined) c.editCell(NEW_ROW, 'sd_m_s', sd);
-  await c.commitRow(NEW_ROW, true);
+async function typeRow(c: AppController, f: string, v: string, sd?: string): Promise<void> {
+  c.picks.editCell(NEW_ROW, 'frequency_hz', f);
+  c.picks.editCell(NEW_ROW, 'velocity_m_s', v);
+  if (sd !== undefined) c.picks.editCell(NEW_ROW, 'sd_m_s', sd);
+  await c.picks.commitRow(NEW_ROW, true);
 }
 
 beforeEach(() => {
@@ -78,7 +79,7 @@ describe('typed picks', () => {
     expect(c.current.drafts[NEW_ROW]).toBeUndefined();
     expect((await store.listPicks(c.current.openSiteId!)).length).toBe(1);
     expect(c.current.undo?.label).toBe('adding pick 1');
-    await c.undo();
+    await c.picks.undo();
     expect(c.current.picks).toEqual([]);
     expect(await store.listPicks(c.current.openSiteId!)).toEqual([]);
   });
@@ -87,14 +88,14 @@ describe('typed picks', () => {
     const c = await started();
     let open!: () => void;
     slowPickWrites = new Promise<void>((resolve) => (open = resolve));
-    c.editCell(NEW_ROW, 'frequency_hz', '12');
-    c.editCell(NEW_ROW, 'velocity_m_s', '180');
-    c.editCell(NEW_ROW, 'sd_m_s', '5');
-    const first = c.commitRow(NEW_ROW, true);
+    c.picks.editCell(NEW_ROW, 'frequency_hz', '12');
+    c.picks.editCell(NEW_ROW, 'velocity_m_s', '180');
+    c.picks.editCell(NEW_ROW, 'sd_m_s', '5');
+    const first = c.picks.commitRow(NEW_ROW, true);
     // The crew types the next pick and presses Enter before the first write ends.
-    c.editCell(NEW_ROW, 'frequency_hz', '15');
-    c.editCell(NEW_ROW, 'velocity_m_s', '170');
-    await c.commitRow(NEW_ROW, true);
+    c.picks.editCell(NEW_ROW, 'frequency_hz', '15');
+    c.picks.editCell(NEW_ROW, 'velocity_m_s', '170');
+    await c.picks.commitRow(NEW_ROW, true);
     expect(c.current.drafts[NEW_ROW]?.cells).toEqual({ frequency_hz: '15', velocity_m_s: '170' });
     open();
     await first;
@@ -132,8 +133,8 @@ describe('typed picks', () => {
     const c = await started();
     await typeRow(c, '12', '180');
     failPickWrites = true;
-    c.editCell(c.current.picks[0].id, 'velocity_m_s', '222');
-    await c.commitRow(c.current.picks[0].id);
+    c.picks.editCell(c.current.picks[0].id, 'velocity_m_s', '222');
+    await c.picks.commitRow(c.current.picks[0].id);
     const d = c.current.drafts[c.current.picks[0].id];
     expect(d.cells.velocity_m_s).toBe('222');
     expect(d.error).toBe('The device storage is full, so the pick was not saved. Nothing was changed. Your input is kept on screen.');
@@ -143,7 +144,7 @@ describe('typed picks', () => {
     expect((await store.listPicks(c.current.openSiteId!))[0].velocity).toBe(180);
     // once the storage works again, the same text saves
     failPickWrites = false;
-    await c.commitRow(c.current.picks[0].id);
+    await c.picks.commitRow(c.current.picks[0].id);
     expect((await store.listPicks(c.current.openSiteId!))[0].velocity).toBe(222);
   });
 
@@ -151,30 +152,30 @@ describe('typed picks', () => {
     const c = await started();
     await typeRow(c, '12', '180');
     const id = c.current.picks[0].id;
-    c.editCell(id, 'velocity_m_s', '200');
-    await c.commitRow(id);
-    await c.undo();
+    c.picks.editCell(id, 'velocity_m_s', '200');
+    await c.picks.commitRow(id);
+    await c.picks.undo();
     expect((await store.listPicks(c.current.openSiteId!))[0].velocity).toBe(180);
-    await c.deletePick(id);
+    await c.picks.deletePick(id);
     expect(await store.listPicks(c.current.openSiteId!)).toEqual([]);
-    await c.undo();
+    await c.picks.undo();
     expect((await store.listPicks(c.current.openSiteId!)).map((p) => p.velocity)).toEqual([180]);
   });
 
   it('shows periods when the site is switched to seconds and takes a typed period', async () => {
     const c = await started();
-    await c.setAxisUnit('s');
-    c.editCell(NEW_ROW, 'period_s', '0.25');
-    c.editCell(NEW_ROW, 'velocity_m_s', '300');
-    await c.commitRow(NEW_ROW, true);
+    await c.settings.setAxisUnit('s');
+    c.picks.editCell(NEW_ROW, 'period_s', '0.25');
+    c.picks.editCell(NEW_ROW, 'velocity_m_s', '300');
+    await c.picks.commitRow(NEW_ROW, true);
     expect(c.current.picks[0].period).toBe(0.25);
     expect(c.current.picks[0].frequency).toBe(4);
     expect(c.current.plot.axis).toBe('period');
     // the site keeps its choice: reopened, the plot shows periods again
     const id = c.current.openSiteId!;
-    c.closeSite();
-    c.setPlot({ axis: 'frequency' });
-    c.openSite(id);
+    c.sites.closeSite();
+    c.settings.setPlot({ axis: 'frequency' });
+    c.sites.openSite(id);
     expect(c.current.plot.axis).toBe('period');
   });
 });
@@ -183,8 +184,8 @@ describe('CSV import', () => {
   it('imports nothing from a file with a bad row, and says which row and column', async () => {
     const c = await started();
     await typeRow(c, '12', '180');
-    c.setImportReplace(true);
-    await c.importCsv('frequency_hz,velocity_m_s\n5,300\n6,-4\n');
+    c.imports.setImportReplace(true);
+    await c.imports.importCsv('frequency_hz,velocity_m_s\n5,300\n6,-4\n');
     expect(c.current.importState.error).toBe(
       'Nothing was imported from the pasted text. Row 2 (line 3), column velocity_m_s: must be greater than 0 m/s, but it is -4.',
     );
@@ -194,20 +195,20 @@ describe('CSV import', () => {
   it('writes a good file in one go (replacing when asked) and undo brings the old table back', async () => {
     const c = await started();
     await typeRow(c, '12', '180');
-    c.setImportReplace(true);
-    await c.importCsv('frequency_hz,velocity_m_s,sd_m_s\n5,300,9\n6,280,\n');
+    c.imports.setImportReplace(true);
+    await c.imports.importCsv('frequency_hz,velocity_m_s,sd_m_s\n5,300,9\n6,280,\n');
     expect((await store.listPicks(c.current.openSiteId!)).map((p) => p.velocity)).toEqual([300, 280]);
     expect(c.current.importState.info).toBe(
       'Imported 2 pick(s) from the pasted text, replacing 1. 1 of 2 picks gave no sd_m_s; each uses 3 % of its velocity (common practice for surface-wave picks, not a published standard).',
     );
-    await c.undo();
+    await c.picks.undo();
     expect((await store.listPicks(c.current.openSiteId!)).map((p) => p.velocity)).toEqual([180]);
   });
 
   it('leaves the table unchanged when the write itself fails', async () => {
     const c = await started();
     failPickWrites = true;
-    await c.importCsv('frequency_hz,velocity_m_s\n5,300\n');
+    await c.imports.importCsv('frequency_hz,velocity_m_s\n5,300\n');
     expect(c.current.importState.error).toBe(
       'Nothing was imported from the pasted text. The device storage is full, so the pick was not saved. Nothing was changed.',
     );
@@ -220,16 +221,16 @@ describe('sites, demo, update and estimate', () => {
   it('keeps a note holding markup exactly as typed', async () => {
     const c = await started();
     const note = '<img src=x onerror=alert(1)><b>x</b>';
-    c.editSiteField('notes', note);
-    await c.commitSiteField('notes');
+    c.sites.editSiteField('notes', note);
+    await c.sites.commitSiteField('notes');
     expect((await store.listSites())[0].notes).toBe(note);
   });
 
   it('refuses a latitude out of range with a sentence naming it, and keeps the text', async () => {
     const c = await started();
-    c.editSiteField('lat', '95');
-    c.editSiteField('lon', '10');
-    await c.commitSiteField('lon');
+    c.sites.editSiteField('lat', '95');
+    c.sites.editSiteField('lon', '10');
+    await c.sites.commitSiteField('lon');
     expect(c.current.siteError).toEqual({ field: 'lat', text: 'Latitude must be a number of degrees from -90 to 90, but it is "95".' });
     expect(c.current.siteDraft.lat).toBe('95');
     expect((await store.listSites())[0].location).toBeUndefined();
@@ -237,7 +238,7 @@ describe('sites, demo, update and estimate', () => {
 
   it('installs the invented demo site with its 23 picks', async () => {
     const c = await started();
-    await c.loadDemo();
+    await c.sites.loadDemo();
     const demo = c.current.sites.find((s) => s.name.startsWith('Invented demo'))!;
     expect(demo.notes).toMatch(/INVENTED SCENARIO/);
     expect((await store.listPicks(demo.id)).length).toBe(23);
@@ -246,15 +247,15 @@ describe('sites, demo, update and estimate', () => {
   it('holds the update back while a typed row is not saved, then applies it', async () => {
     const c = await started();
     let applied = 0;
-    c.offerUpdate(() => applied++);
-    c.editCell(NEW_ROW, 'frequency_hz', '10');
-    c.editCell(NEW_ROW, 'velocity_m_s', 'abc');
-    await c.applyUpdate();
+    c.settings.offerUpdate(() => applied++);
+    c.picks.editCell(NEW_ROW, 'frequency_hz', '10');
+    c.picks.editCell(NEW_ROW, 'velocity_m_s', 'abc');
+    await c.settings.applyUpdate();
     expect(applied).toBe(0);
     expect(c.current.drafts[NEW_ROW].cells.velocity_m_s).toBe('abc');
     expect(c.current.notices.at(-1)?.text).toMatch(/^The update waits: 1 typed value\(s\) are not saved yet\./);
-    c.editCell(NEW_ROW, 'velocity_m_s', '150');
-    await c.applyUpdate();
+    c.picks.editCell(NEW_ROW, 'velocity_m_s', '150');
+    await c.settings.applyUpdate();
     expect(applied).toBe(1);
     expect((await store.listPicks(c.current.openSiteId!)).length).toBe(1);
   });
@@ -262,8 +263,8 @@ describe('sites, demo, update and estimate', () => {
   it('aborts the stale estimate when a new one starts', async () => {
     const c = await started();
     await typeRow(c, '12', '180');
-    void c.estimateNow();
-    void c.estimateNow();
+    void c.estimates.estimateNow();
+    void c.estimates.estimateNow();
     expect(signals.length).toBeGreaterThanOrEqual(2);
     expect(signals.at(-2)!.aborted).toBe(true);
     expect(signals.at(-1)!.aborted).toBe(false);
@@ -284,12 +285,12 @@ describe('sites, demo, update and estimate', () => {
       }
       return undefined;
     };
-    await c.estimateNow();
+    await c.estimates.estimateNow();
     const first = await kept();
     expect(first?.rev).toBe(1);
     expect(first?.summary.caution).toBe(CAUTION);
     expect((first?.summary.thickness_m as { best: number }).best).toBeCloseTo(c.current.estimate.result!.thickness.best, 12);
-    await c.estimateNow(); // the same picks give the same result: no new revision
+    await c.estimates.estimateNow(); // the same picks give the same result: no new revision
     await new Promise((r) => setTimeout(r, 50));
     expect((await store.latestEstimate(siteId))?.rev).toBe(1);
     const outboxIds = (await store.outbox()).map((e) => e.recordId);
@@ -309,11 +310,11 @@ describe('sites, demo, update and estimate', () => {
     );
     await typeRow(c, '12', '180');
     expect(c.current.estimate.status).toBe('running');
-    await c.estimateNow();
+    await c.estimates.estimateNow();
     expect(c.current.estimate).toEqual({ status: 'done', result: fake, slice: picture });
     expect(asked).toEqual([fake, false]);
-    c.editCell(c.current.picks[0].id, 'velocity_m_s', '190');
-    await c.commitRow(c.current.picks[0].id);
+    c.picks.editCell(c.current.picks[0].id, 'velocity_m_s', '190');
+    await c.picks.commitRow(c.current.picks[0].id);
     expect(c.current.estimate.status).toBe('running');
     expect(c.current.estimate.result).toBe(fake);
   });

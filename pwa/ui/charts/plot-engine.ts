@@ -10,7 +10,7 @@
  */
 import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
-import type { LayeredModel } from '../../core/dispersion/model';
+import type { LayeredModel } from '../../../core/dispersion/model';
 import {
   curveColumns,
   curveKeysOf,

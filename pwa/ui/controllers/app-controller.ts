@@ -1,0 +1,86 @@
+/**
+ * The app: one small object composing the controllers of each concern over
+ * one state hub. The views read the state (`current`, `subscribe`) and call
+ * the controller of the concern they act on; they never await anything.
+ *
+ * Rules every controller keeps:
+ * - Every edit saves at once through the store (no save button).
+ * - A refused or failed write tells the crew, and the typed text stays on
+ *   screen (drafts), so nothing typed is lost.
+ * - A new input aborts the stale estimate (AbortController per run).
+ */
+import type { FieldStore } from '../../store';
+import type { AppState, Theme } from './app-state';
+import { EstimateController, type EstimateRunner, type SliceRunner } from './estimate-controller';
+import { ImportController } from './import-controller';
+import { PicksController } from './picks-controller';
+import { SettingsController } from './settings-controller';
+import { SitesController } from './sites-controller';
+import { messageOf, StateHub } from './state-hub';
+import { SyncController } from './sync-controller';
+
+/** How long the store may take to open before the crew is told, ms. */
+const STORE_OPEN_PATIENCE_MS = 8000;
+
+export class AppController {
+  private readonly hub = new StateHub();
+  /** Estimate runs of the open site. */
+  readonly estimates: EstimateController;
+  /** The picks table: typed rows, commits, deletions, undo. */
+  readonly picks: PicksController;
+  /** CSV import into the picks table. */
+  readonly imports: ImportController;
+  /** The site list, the open site, its details and the demo. */
+  readonly sites: SitesController;
+  /** Estimate settings, units, plot, what-if, survey depth, theme, update prompt. */
+  readonly settings: SettingsController;
+  /** Network state, office sync and bundles. */
+  readonly sync: SyncController;
+
+  constructor(estimate?: EstimateRunner, slice?: SliceRunner) {
+    this.estimates = new EstimateController(this.hub, estimate, slice);
+    this.picks = new PicksController(this.hub, this.estimates);
+    this.imports = new ImportController(this.hub, this.picks, this.estimates);
+    this.sites = new SitesController(this.hub, this.picks, this.estimates);
+    this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
+    this.sync = new SyncController(this.hub, this.sites, this.picks);
+  }
+
+  get current(): AppState {
+    return this.hub.current;
+  }
+
+  subscribe(fn: (s: AppState) => void): () => void {
+    return this.hub.subscribe(fn);
+  }
+
+  /** Takes a message off the screen. */
+  dismiss(id: number): void {
+    this.hub.dismiss(id);
+  }
+
+  /** Opens the app on a store: reads the sites and the saved theme. */
+  async start(openStore: () => Promise<FieldStore>): Promise<void> {
+    const online = typeof navigator !== 'undefined' ? navigator.onLine : true;
+    this.sync.watchNetwork();
+    // If the database does not answer (another tab holding an old version open), say so while waiting.
+    const slow = setTimeout(
+      () =>
+        this.hub.notify(
+          'error',
+          'The on-device store is taking long to open. If Shearfield is open in another tab or window, close it; otherwise reload the page.',
+        ),
+      STORE_OPEN_PATIENCE_MS,
+    );
+    try {
+      const store = await openStore();
+      this.hub.store = store;
+      const [sites, theme] = await Promise.all([store.listSites(), store.getSetting<Theme>('theme')]);
+      this.hub.set({ ready: true, online, sites, theme: theme === 'sun' ? 'sun' : 'standard' });
+    } catch (e) {
+      this.hub.set({ ready: true, online, fatal: messageOf(e) });
+    } finally {
+      clearTimeout(slow);
+    }
+  }
+}

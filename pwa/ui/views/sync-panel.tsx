@@ -1,0 +1,231 @@
+/**
+ * Office sync and site bundles, on the tablet: the office address and
+ * device token (set once), the sync status in plain words (changes waiting,
+ * last success, last problem), a sync-now button, records edited in two
+ * places (with a choice of which version to keep), and bundle export and
+ * import. The sync client runs in the background once this panel has been
+ * shown (pwa/sync/client.ts); the bundle code loads only when used. The
+ * async work lives in controllers/sync-controller.ts; the panel keeps only
+ * the form's typed text.
+ */
+import { useEffect, useState } from 'preact/hooks';
+import type { AnyRecord } from '../../../core/exchange/records';
+import type { SyncPanelState } from '../controllers/app-state';
+import { differing, type SyncController } from '../controllers/sync-controller';
+import '../styles/sync-panel.css';
+
+export interface SyncPanelProps {
+  /** What the panel shows (the `sync` slice of the app state). */
+  state: SyncPanelState;
+  sync: SyncController;
+}
+
+function when(iso: string | undefined): string {
+  if (!iso) return 'never';
+  const d = new Date(iso);
+  return Number.isNaN(d.getTime()) ? iso : d.toLocaleString();
+}
+
+function show(v: unknown): string {
+  if (v === undefined) return '(empty)';
+  return typeof v === 'string' ? v : JSON.stringify(v);
+}
+
+function recordLabel(r: AnyRecord, sites: Readonly<Record<string, string>>): string {
+  if (r.type === 'site') return `Site “${r.name}”`;
+  const site = sites[r.siteId] ?? 'an unknown site';
+  return r.type === 'pick' ? `Pick at ${r.frequency} Hz of “${site}”` : `Estimate of “${site}”`;
+}
+
+export function SyncPanel({ state, sync }: SyncPanelProps) {
+  const { status, message, busy, formError, conflicted, siteNames } = state;
+  const [editing, setEditing] = useState(false);
+  const [url, setUrl] = useState('');
+  const [token, setToken] = useState('');
+
+  // Shown: the background sync client starts (once) and the status is re-read.
+  useEffect(() => sync.attach(), [sync]);
+  // Installed from the office server itself: offer its address in an empty form.
+  useEffect(() => {
+    if (state.suggestedUrl) setUrl((u) => u || state.suggestedUrl!);
+  }, [state.suggestedUrl]);
+
+  if (!status) {
+    return (
+      <section class="panel sync" aria-labelledby="sync-h">
+        <h2 id="sync-h">Office sync and bundles</h2>
+        <p class="status" role="status">
+          {message?.text ?? 'Opening…'}
+        </p>
+      </section>
+    );
+  }
+  const configured = status.state !== 'not-set-up' && !!status.serverUrl;
+
+  const saveSettings = (e: Event) => {
+    e.preventDefault();
+    void sync.connect(url, token, () => {
+      setEditing(false);
+      setToken('');
+    });
+  };
+
+  const importFile = (input: HTMLInputElement) => {
+    const file = input.files?.[0];
+    input.value = '';
+    if (file) void sync.importBundle(file);
+  };
+
+  const stateText =
+    status.state === 'syncing'
+      ? 'Syncing…'
+      : status.state === 'offline'
+        ? 'Offline: changes wait on this tablet.'
+        : status.state === 'error'
+          ? 'The last sync did not finish; it will be tried again.'
+          : status.state === 'not-set-up'
+            ? 'Not set up: enter the office address and this tablet’s token.'
+            : 'Up to date as of the last sync.';
+
+  return (
+    <section class="panel sync" aria-labelledby="sync-h">
+      <h2 id="sync-h">Office sync and bundles</h2>
+      <dl class="sync-status" aria-live="polite">
+        <div>
+          <dt>State</dt>
+          <dd data-testid="sync-state">{stateText}</dd>
+        </div>
+        <div>
+          <dt>Changes waiting to be sent</dt>
+          <dd data-testid="sync-pending">{status.pending}</dd>
+        </div>
+        <div>
+          <dt>Last successful sync</dt>
+          <dd data-testid="sync-last-success">{when(status.lastSuccess)}</dd>
+        </div>
+        {status.lastError ? (
+          <div>
+            <dt>Last problem</dt>
+            <dd class="error" data-testid="sync-last-error">
+              {status.lastError}
+            </dd>
+          </div>
+        ) : null}
+        <div>
+          <dt>Records edited in two places</dt>
+          <dd data-testid="sync-conflicts">{status.conflicts}</dd>
+        </div>
+      </dl>
+
+      {configured && !editing ? (
+        <div class="row-form">
+          <p class="caption">
+            Office: <span data-testid="sync-server">{status.serverUrl}</span>
+          </p>
+          <button type="button" class="primary" disabled={busy || status.state === 'syncing'} onClick={() => void sync.syncNow()}>
+            Sync now
+          </button>
+          <button
+            type="button"
+            onClick={() => {
+              setUrl(status.serverUrl ?? '');
+              setEditing(true);
+            }}
+          >
+            Change office or token
+          </button>
+        </div>
+      ) : (
+        <form class="form-grid" onSubmit={saveSettings} aria-describedby={formError ? 'sync-form-err' : undefined}>
+          <label class="field wide">
+            <span>Office server address</span>
+            <input name="sync-url" inputMode="url" autoComplete="off" placeholder="http://192.168.1.20:8750" value={url} onInput={(e) => setUrl(e.currentTarget.value)} />
+          </label>
+          <label class="field wide">
+            <span>Device token (from “shearfield device add”)</span>
+            <input name="sync-token" type="password" autoComplete="off" value={token} onInput={(e) => setToken(e.currentTarget.value)} />
+          </label>
+          <button type="submit" class="primary" disabled={busy}>
+            Save and connect
+          </button>
+          {configured ? (
+            <button type="button" onClick={() => setEditing(false)}>
+              Cancel
+            </button>
+          ) : null}
+          {formError ? (
+            <p id="sync-form-err" class="error wide" role="alert">
+              {formError}
+            </p>
+          ) : null}
+        </form>
+      )}
+
+      {message ? (
+        <p class={message.tone === 'ok' ? 'ok' : 'error'} role={message.tone === 'ok' ? 'status' : 'alert'} data-testid="sync-message">
+          {message.text}
+        </p>
+      ) : null}
+
+      {conflicted.length > 0 ? (
+        <section class="conflicts" aria-labelledby="conflicts-h">
+          <h3 id="conflicts-h">Edited in two places: choose the version to keep</h3>
+          <ul>
+            {conflicted.map((r) => (
+              <li key={r.id} data-testid="sync-conflict">
+                <p>
+                  <strong>{recordLabel(r, siteNames)}</strong>
+                </p>
+                {(r.conflicts ?? []).map((c) => (
+                  <div key={c.key} class="conflict-versions">
+                    <table>
+                      <caption class="sr-only">Differences between the two versions</caption>
+                      <thead>
+                        <tr>
+                          <th scope="col">Field</th>
+                          <th scope="col">Shown now (saved {when(r.updatedAt)})</th>
+                          <th scope="col">Other version{c.from ? ` (from ${c.from})` : ''}, saved {when(c.record.updatedAt)}</th>
+                        </tr>
+                      </thead>
+                      <tbody>
+                        {differing(r, c.record).map((k) => (
+                          <tr key={k}>
+                            <th scope="row">{k}</th>
+                            <td>{show((r as unknown as Record<string, unknown>)[k])}</td>
+                            <td>{show((c.record as unknown as Record<string, unknown>)[k])}</td>
+                          </tr>
+                        ))}
+                      </tbody>
+                    </table>
+                    <div class="row-form">
+                      <button type="button" disabled={busy} onClick={() => void sync.resolve(r, undefined)}>
+                        Keep the shown version
+                      </button>
+                      <button type="button" disabled={busy} onClick={() => void sync.resolve(r, c)}>
+                        Use the other version
+                      </button>
+                    </div>
+                  </div>
+                ))}
+              </li>
+            ))}
+          </ul>
+        </section>
+      ) : null}
+
+      <div class="row-form bundles">
+        <button type="button" disabled={busy} onClick={() => void sync.exportAll()}>
+          Export all sites as a bundle file
+        </button>
+        <label class="button">
+          Import a bundle file
+          <input type="file" accept=".json,application/json" class="sr-only" disabled={busy} onChange={(e) => importFile(e.currentTarget)} />
+        </label>
+      </div>
+      <p class="caption">
+        A bundle (JSON) carries sites with their picks, estimates and notes, for moving them without a network. Importing
+        never duplicates a record and never replaces a newer version with an older one.
+      </p>
+    </section>
+  );
+}
