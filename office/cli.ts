@@ -8,6 +8,7 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { InputError } from '../core/shared/errors';
 import type { Command, CommandIO } from './command';
+import { busyMessage, isBusyError } from './store';
 
 const commandsDir = join(dirname(fileURLToPath(import.meta.url)), 'commands');
 
@@ -105,6 +106,11 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
     const fsMessage = fileSystemMessage(e);
     if (fsMessage) {
       io.err(`shearfield ${name}: ${fsMessage}\n`);
+      return 1;
+    }
+    // Another writer kept the store locked past the busy timeout: nothing was written by the failed step.
+    if (isBusyError(e)) {
+      io.err(`shearfield ${name}: ${busyMessage()}\n`);
       return 1;
     }
     // Option-parser errors (node:util parseArgs) are usage errors.

@@ -24,7 +24,7 @@ import {
   type StatusResponse,
 } from '../core/exchange/sync-protocol';
 import { checkPullQuery, checkPushBody } from '../core/exchange/sync-protocol-check';
-import { DEFAULT_DATA_DIR, OfficeStore } from './store';
+import { DEFAULT_DATA_DIR, isBusyError, OfficeStore } from './store';
 
 /** Defaults of `npm run office`. */
 export const DEFAULT_PORT = 8750;
@@ -40,6 +40,8 @@ export interface OfficeServerOptions {
   dataDir?: string;
   /** Built app to serve. @default 'dist' */
   distDir?: string;
+  /** How long a push waits for another writer before answering 503, ms. @default DEFAULT_WRITE_WAIT_MS */
+  writeWaitMs?: number;
 }
 
 export interface RunningOffice {
@@ -55,6 +57,7 @@ class HttpError extends Error {
   constructor(
     readonly status: number,
     message: string,
+    readonly headers: Record<string, string> = {},
   ) {
     super(message);
   }
@@ -137,7 +140,38 @@ function notBuiltPage(distDir: string): string {
 <p>The field app is not built yet (no ${distDir}/index.html). Run <code>npm run build</code> in the Shearfield folder, then restart the office server. The sync API works meanwhile.</p>`;
 }
 
-async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, store: OfficeStore): Promise<void> {
+/** How long a push waits for another writer (a bundle import, say) before the answer is 503, ms. */
+export const DEFAULT_WRITE_WAIT_MS = 20_000;
+/** The server's SQLite busy timeout, ms: short, because it blocks every request; longer waits retry without blocking. */
+const SERVER_BUSY_TIMEOUT_MS = 50;
+/** Retry-After of a 503 when the store stayed busy, s. */
+const BUSY_RETRY_AFTER_S = 5;
+
+/**
+ * Runs a store write, retrying while another process holds the write lock
+ * (SQLITE_BUSY), with pauses that leave the event loop free, for at most
+ * `budgetMs`; then a 503 with Retry-After. Nothing is written by a failed try.
+ */
+async function whenStoreFree<T>(write: () => T, budgetMs: number): Promise<T> {
+  const deadline = Date.now() + budgetMs;
+  for (let pause = 10; ; pause = Math.min(pause * 2, 250)) {
+    try {
+      return write();
+    } catch (e) {
+      if (!isBusyError(e)) throw e;
+      if (Date.now() + pause > deadline) {
+        throw new HttpError(
+          503,
+          `The office store stayed busy with another writer (a bundle import or another push) for ${Math.round(budgetMs / 1000)} s; nothing was saved. Try again in ${BUSY_RETRY_AFTER_S} s.`,
+          { 'Retry-After': String(BUSY_RETRY_AFTER_S) },
+        );
+      }
+      await new Promise((ok) => setTimeout(ok, pause));
+    }
+  }
+}
+
+async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, store: OfficeStore, writeWaitMs: number): Promise<void> {
   // Authentication comes first: without a valid token nothing is read or written.
   const token = bearer(req);
   const device = token === undefined ? undefined : store.authenticate(token);
@@ -174,7 +208,7 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, st
       throw new HttpError(400, 'The request body is not valid JSON; nothing was saved.');
     }
     const push = checkPushBody(data);
-    const result = store.applyBatch(push.records, { batchId: push.batchId, source: device.name, deviceId: device.id });
+    const result = await whenStoreFree(() => store.applyBatch(push.records, { batchId: push.batchId, source: device.name, deviceId: device.id }), writeWaitMs);
     const conflictIds = new Set(result.plan.outcomes.filter((o) => o.action === 'conflict').map((o) => o.id));
     const body: PushResponse = {
       batchId: push.batchId,
@@ -192,7 +226,7 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, st
   if (path === '/pull' && req.method === 'GET') {
     const q = checkPullQuery(url.searchParams);
     const page = store.pull(q.since, q.limit);
-    const body: PullResponse = { records: page.records, cursor: String(page.cursor), more: page.more };
+    const body: PullResponse = { records: page.records, cursor: String(page.cursor), more: page.more, seqs: page.seqs.map(String) };
     sendJson(res, 200, body);
     return;
   }
@@ -255,7 +289,7 @@ export async function startOfficeServer(options: OfficeServerOptions = {}): Prom
   const port = options.port ?? DEFAULT_PORT;
   const host = options.host ?? DEFAULT_HOST;
   const distDir = options.distDir ?? DEFAULT_DIST_DIR;
-  const store = OfficeStore.open(options.dataDir ?? DEFAULT_DATA_DIR, { create: true });
+  const store = OfficeStore.open(options.dataDir ?? DEFAULT_DATA_DIR, { create: true, busyTimeoutMs: SERVER_BUSY_TIMEOUT_MS });
   const server = createServer((req, res) => {
     let url: URL;
     try {
@@ -272,9 +306,9 @@ export async function startOfficeServer(options: OfficeServerOptions = {}): Prom
       res.writeHead(204, CORS_HEADERS).end();
       return;
     }
-    handleApi(req, res, url, store).catch((e: unknown) => {
+    handleApi(req, res, url, store, options.writeWaitMs ?? DEFAULT_WRITE_WAIT_MS).catch((e: unknown) => {
       if (e instanceof HttpError) {
-        if (!res.headersSent && !res.destroyed) sendJson(res, e.status, { error: e.message });
+        if (!res.headersSent && !res.destroyed) sendJson(res, e.status, { error: e.message }, e.headers);
       } else if (e instanceof InputError) {
         sendJson(res, 400, { error: `${e.message} Nothing was saved.`, field: e.field });
       } else {

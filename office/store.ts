@@ -14,18 +14,36 @@
  * - `batches`: one row per push or import (its id, source, counts), for the
  *   review trail.
  *
+ * Version 2 scopes batch ids by device: a batch is known by (scope, batch
+ * id, SHA-256 of its records), the scope being `device:ID` for a push and
+ * `import` for a bundle. Only an identical batch from the same device is a
+ * replay; a reused id with other records is a batch of its own in the trail.
+ *
  * Every batch is merged with the core rules (core/exchange/sync.ts) and written in
- * ONE transaction: all of it or none of it. A batch seen before changes
- * nothing (its records merge as "already have", its batch row exists).
+ * ONE `BEGIN IMMEDIATE` transaction: all of it or none of it, and a writer
+ * that finds another one busy waits for it (the busy timeout here, plus the
+ * server's own retries) instead of failing half-way with "database is
+ * locked". A batch seen before changes nothing.
+ *
+ * Every version of a record that a batch carries, its own and the versions
+ * its `conflicts` list passes on, goes into `versions` stamped with the
+ * batch's source (the authenticated device or the bundle file), never with
+ * a name the sender claims: a passed-on version reads "passed on by NAME".
+ *
+ * Durability: WAL with `synchronous = FULL`, so an acknowledged batch
+ * survives a power cut, not only a crash of the process.
+ *
+ * Files: the data folder is created 0700 and the SQLite files 0600.
  */
 import Database from 'better-sqlite3';
 import { createHash, randomBytes } from 'node:crypto';
-import { existsSync, mkdirSync } from 'node:fs';
+import { chmodSync, closeSync, existsSync, mkdirSync, openSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { InputError, describeValue } from '../core/shared/errors';
 import type { AnyRecord } from '../core/exchange/records';
 import { revisionKey } from '../core/exchange/revision';
 import { planMerge, type MergePlan } from '../core/exchange/sync';
+import { checkSiteReferences } from '../core/exchange/bundle';
 
 /** Default data folder (relative to the working directory); gitignored. */
 export const DEFAULT_DATA_DIR = '.office-data';
@@ -75,6 +93,26 @@ const MIGRATIONS: readonly string[] = [
     conflicts INTEGER NOT NULL
   );
   `,
+  `
+  CREATE TABLE batches_v2 (
+    scope TEXT NOT NULL,
+    batch_id TEXT NOT NULL,
+    content_sha256 TEXT NOT NULL,
+    device_id INTEGER REFERENCES devices (id),
+    source TEXT NOT NULL,
+    received_at TEXT NOT NULL,
+    records INTEGER NOT NULL,
+    accepted INTEGER NOT NULL,
+    ignored INTEGER NOT NULL,
+    conflicts INTEGER NOT NULL,
+    PRIMARY KEY (scope, batch_id, content_sha256)
+  ) WITHOUT ROWID;
+  INSERT INTO batches_v2 (scope, batch_id, content_sha256, device_id, source, received_at, records, accepted, ignored, conflicts)
+    SELECT CASE WHEN device_id IS NULL THEN 'import' ELSE 'device:' || device_id END, batch_id, '', device_id, source, received_at, records, accepted, ignored, conflicts
+    FROM batches;
+  DROP TABLE batches;
+  ALTER TABLE batches_v2 RENAME TO batches;
+  `,
 ];
 
 /** The schema version this code writes. */
@@ -95,6 +133,8 @@ export interface PullPage {
   cursor: number;
   /** True when more changes wait after this page. */
   more: boolean;
+  /** The change counter of each record (the cursor just after it). */
+  seqs: number[];
 }
 
 export interface BatchResult {
@@ -122,6 +162,42 @@ function checkDeviceName(name: unknown): string {
   return name;
 }
 
+/** How long a command waits for another writer (the server, another command) before giving up, ms. */
+export const DEFAULT_BUSY_TIMEOUT_MS = 30_000;
+
+export interface StoreOpenOptions {
+  /** Create the folder and the file when missing. @default false */
+  create?: boolean;
+  /**
+   * How long one statement waits for another writer, ms (SQLite's busy
+   * timeout; the wait blocks the thread). The server keeps this short and
+   * retries without blocking (office/server.ts). @default DEFAULT_BUSY_TIMEOUT_MS
+   */
+  busyTimeoutMs?: number;
+}
+
+/** True for SQLite's "another connection holds the lock" errors (SQLITE_BUSY…, SQLITE_LOCKED…). */
+export function isBusyError(e: unknown): boolean {
+  const code = (e as { code?: unknown } | null)?.code;
+  return typeof code === 'string' && (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED'));
+}
+
+/** The sentence a command prints when the store stayed locked by another writer past the busy timeout. */
+export function busyMessage(waitMs = DEFAULT_BUSY_TIMEOUT_MS): string {
+  return `The office store stayed busy with another writer (the office server or another shearfield command) for ${Math.round(waitMs / 1000)} s, so this step saved nothing; try again.`;
+}
+
+/** Makes the store file and its -wal and -shm files readable by their owner only, where they exist and we may. */
+function tightenModes(file: string): void {
+  for (const f of [file, `${file}-wal`, `${file}-shm`]) {
+    try {
+      if ((statSync(f).mode & 0o077) !== 0) chmodSync(f, 0o600);
+    } catch {
+      /* missing, or not ours to change: SQLite reports what matters when it opens */
+    }
+  }
+}
+
 export class OfficeStore {
   private constructor(
     readonly db: Database.Database,
@@ -133,14 +209,22 @@ export class OfficeStore {
    * the current schema. Throws InputError when it is missing and `create`
    * is false, or when it was written by a newer version.
    */
-  static open(dir: string, options: { create?: boolean } = {}): OfficeStore {
+  static open(dir: string, options: StoreOpenOptions = {}): OfficeStore {
     const folder = resolve(dir);
     const file = join(folder, DB_FILE_NAME);
     if (!existsSync(file)) {
       if (!options.create) {
         throw new InputError('--data', `There is no office store in ${folder} yet; add a device (shearfield device add NAME --data ${dir}) or start the server there first.`);
       }
-      mkdirSync(folder, { recursive: true });
+      // Only this user may read the store: the folder 0700 when we make it,
+      // the file 0600 (an empty file is an empty SQLite database; SQLite gives
+      // its -wal and -shm files the mode of the database file).
+      mkdirSync(folder, { recursive: true, mode: 0o700 });
+      try {
+        closeSync(openSync(file, 'wx', 0o600));
+      } catch (e) {
+        if ((e as { code?: string }).code !== 'EEXIST') throw e;
+      }
     }
     const db = new Database(file);
     try {
@@ -152,8 +236,10 @@ export class OfficeStore {
       }
       throw e;
     }
-    db.pragma('synchronous = NORMAL');
-    db.pragma('busy_timeout = 5000');
+    tightenModes(file);
+    // FULL: an acknowledged batch is on disk before the answer goes out, even across a power cut.
+    db.pragma('synchronous = FULL');
+    db.pragma(`busy_timeout = ${Math.max(0, Math.round(options.busyTimeoutMs ?? DEFAULT_BUSY_TIMEOUT_MS))}`);
     db.pragma('foreign_keys = ON');
     const version = db.pragma('user_version', { simple: true }) as number;
     if (version > MIGRATIONS.length) {
@@ -241,6 +327,7 @@ export class OfficeStore {
     const getBody = this.db.prepare('SELECT body FROM records WHERE id = ?');
     const seen = this.db.prepare('SELECT 1 FROM versions WHERE record_id = ? AND rev_key = ?');
     const sourceOf = this.db.prepare('SELECT source FROM versions WHERE record_id = ? AND rev_key = ?');
+    const isSite = this.db.prepare("SELECT 1 FROM records WHERE id = ? AND type = 'site'");
     const upsert = this.db.prepare(
       `INSERT INTO records (id, type, site_id, rev, rev_key, updated_at, deleted, conflicts, seq, body)
        VALUES (@id, @type, @siteId, @rev, @key, @updatedAt, @deleted, @conflicts, @seq, @body)
@@ -252,58 +339,82 @@ export class OfficeStore {
       'INSERT OR IGNORE INTO versions (record_id, rev_key, source, received_at, body) VALUES (?, ?, ?, ?, ?)',
     );
     const logBatch = this.db.prepare(
-      `INSERT OR IGNORE INTO batches (batch_id, device_id, source, received_at, records, accepted, ignored, conflicts)
-       VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+      `INSERT OR IGNORE INTO batches (scope, batch_id, content_sha256, device_id, source, received_at, records, accepted, ignored, conflicts)
+       VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
     );
-    const batchKnown = this.db.prepare('SELECT 1 FROM batches WHERE batch_id = ?');
-    return { getBody, seen, sourceOf, upsert, keepVersion, logBatch, batchKnown };
+    const batchKnown = this.db.prepare('SELECT 1 FROM batches WHERE scope = ? AND batch_id = ? AND content_sha256 = ?');
+    return { getBody, seen, sourceOf, isSite, upsert, keepVersion, logBatch, batchKnown };
   }
 
   /**
    * Merges a batch of checked records with the core rules and writes the
-   * outcome in one transaction. `source` names where it came from (a device
-   * name or a bundle) for kept conflicts and the review trail.
+   * outcome in one `BEGIN IMMEDIATE` transaction. `source` names where it
+   * came from (the authenticated device's name, or a bundle) for the review
+   * trail and kept conflicts; `deviceId` scopes the batch id (a push), its
+   * absence marks an import.
+   *
+   * Checks first, inside the transaction so that they see what is stored:
+   * every pick and estimate must belong to a site in the batch or in the
+   * store (core/exchange/bundle.ts checkSiteReferences), the same rule for
+   * a push and a bundle. A refused batch writes nothing.
+   *
+   * The `conflicts` list a record carries is not taken on trust: each
+   * version in it is merged as a version passed on by `source` (its claimed
+   * `from` is dropped) and written into the trail like every other version.
+   *
+   * Throws InputError for a bad batch, and SQLite's SQLITE_BUSY error when
+   * another writer kept the store locked past the busy timeout (nothing is
+   * written then either; see isBusyError).
    */
   applyBatch(records: readonly AnyRecord[], meta: { batchId: string; source: string; deviceId?: number }, now = new Date()): BatchResult {
-    const { getBody, seen, sourceOf, upsert, keepVersion, logBatch, batchKnown } = this.statements();
+    const { getBody, seen, sourceOf, isSite, upsert, keepVersion, logBatch, batchKnown } = this.statements();
     const at = now.toISOString();
+    const scope = meta.deviceId === undefined ? 'import' : `device:${meta.deviceId}`;
+    const contentHash = createHash('sha256').update(JSON.stringify(records), 'utf8').digest('hex');
+    const passedOn = `passed on by ${meta.source}`.slice(0, 200);
+    const incoming = records.map((rec) => (rec.conflicts === undefined ? rec : ({ ...rec, conflicts: rec.conflicts.map((c) => ({ key: c.key, from: passedOn, record: c.record })) } as AnyRecord)));
 
-    return this.db.transaction((): BatchResult => {
-      const replay = batchKnown.get(meta.batchId) !== undefined;
-      const lookup = (id: string): AnyRecord | undefined => {
-        const row = getBody.get(id) as { body: string } | undefined;
-        return row ? (JSON.parse(row.body) as AnyRecord) : undefined;
-      };
-      const seenPlan = planMerge(records, lookup, {
-        from: meta.source,
-        seen: (key, id) => seen.get(id, key) !== undefined,
-        sourceOf: (key, id) => (sourceOf.get(id, key) as { source: string } | undefined)?.source,
-      });
-      let seq = this.cursor();
-      for (const rec of seenPlan.writes) {
-        seq += 1;
-        upsert.run({
-          id: rec.id,
-          type: rec.type,
-          siteId: rec.type === 'site' ? rec.id : rec.siteId,
-          rev: rec.rev,
-          key: revisionKey(rec),
-          updatedAt: rec.updatedAt,
-          deleted: rec.deleted ? 1 : 0,
-          conflicts: rec.conflicts?.length ?? 0,
-          seq,
-          body: JSON.stringify(rec),
+    return this.db
+      .transaction((): BatchResult => {
+        checkSiteReferences(incoming, (id) => isSite.get(id) !== undefined);
+        const replay = batchKnown.get(scope, meta.batchId, contentHash) !== undefined;
+        const lookup = (id: string): AnyRecord | undefined => {
+          const row = getBody.get(id) as { body: string } | undefined;
+          return row ? (JSON.parse(row.body) as AnyRecord) : undefined;
+        };
+        const plan = planMerge(incoming, lookup, {
+          from: meta.source,
+          seen: (key, id) => seen.get(id, key) !== undefined,
+          sourceOf: (key, id) => (sourceOf.get(id, key) as { source: string } | undefined)?.source,
         });
-      }
-      for (const rec of records) {
-        const { conflicts: _c, ...version } = rec;
-        keepVersion.run(rec.id, revisionKey(rec), meta.source, at, JSON.stringify(version));
-      }
-      if (!replay) {
-        logBatch.run(meta.batchId, meta.deviceId ?? null, meta.source, at, records.length, seenPlan.accepted, seenPlan.ignored, seenPlan.conflicts);
-      }
-      return { plan: seenPlan, cursor: seq, replay };
-    })();
+        let seq = this.cursor();
+        for (const rec of plan.writes) {
+          seq += 1;
+          upsert.run({
+            id: rec.id,
+            type: rec.type,
+            siteId: rec.type === 'site' ? rec.id : rec.siteId,
+            rev: rec.rev,
+            key: revisionKey(rec),
+            updatedAt: rec.updatedAt,
+            deleted: rec.deleted ? 1 : 0,
+            conflicts: rec.conflicts?.length ?? 0,
+            seq,
+            body: JSON.stringify(rec),
+          });
+        }
+        // Every version received goes into the trail; the first source to deliver a version keeps it.
+        for (const rec of incoming) {
+          const { conflicts: carried, ...own } = rec;
+          keepVersion.run(rec.id, revisionKey(rec), meta.source, at, JSON.stringify(own));
+          for (const c of carried ?? []) keepVersion.run(rec.id, c.key, passedOn, at, JSON.stringify(c.record));
+        }
+        if (!replay) {
+          logBatch.run(scope, meta.batchId, contentHash, meta.deviceId ?? null, meta.source, at, records.length, plan.accepted, plan.ignored, plan.conflicts);
+        }
+        return { plan, cursor: seq, replay };
+      })
+      .immediate();
   }
 
   /** Changes after `since`, oldest first, at most `limit`. */
@@ -316,6 +427,7 @@ export class OfficeStore {
     const page = more ? rows.slice(0, limit) : rows;
     return {
       records: page.map((r) => JSON.parse(r.body) as AnyRecord),
+      seqs: page.map((r) => r.seq),
       cursor: page.length > 0 ? page[page.length - 1].seq : since,
       more,
     };

@@ -33,6 +33,7 @@ import { InputError, describeValue } from '../shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../dispersion/model';
 import { validatePick } from '../picks/picks';
 import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordType, SiteRecord } from './records';
+import { checkDocumentDepth, checkRecordLimits } from './record-limits';
 import { revisionKey } from './revision';
 import { planMerge, type MergePlan } from './sync';
 
@@ -215,6 +216,7 @@ export function checkRecord(value: unknown, where: string): AnyRecord {
   if (value === null || typeof value !== 'object' || Array.isArray(value)) {
     throw new InputError(where, `${lead}: ${where} must be an object, but it is ${describeValue(value)}.`);
   }
+  checkRecordLimits(value, where);
   const type = (value as { type?: unknown }).type;
   if (type !== 'site' && type !== 'pick' && type !== 'estimate') {
     throw new InputError(`${where}.type`, `${lead}: ${where}.type must be "site", "pick" or "estimate", but it is ${describeValue(type)}.`);
@@ -226,6 +228,27 @@ export function checkRecord(value: unknown, where: string): AnyRecord {
   rec.conflicts?.forEach((c, k) => checkRules(c.record as AnyRecord, `${where}.conflicts[${k}].record`, lead));
   checkConflictKeys(rec, where);
   return rec;
+}
+
+/**
+ * The reference rule every batch from outside meets, a sync push and a
+ * bundle alike: a pick or an estimate (and each version its conflicts list
+ * carries) belongs to a site that is in the same batch or already stored
+ * (`siteStored`). Throws an InputError naming the first record that breaks
+ * it (`records[i]`, its type and id) and the missing site.
+ */
+export function checkSiteReferences(records: readonly AnyRecord[], siteStored: (id: string) => boolean): void {
+  const inBatch = new Set(records.filter((r) => r.type === 'site').map((r) => r.id));
+  records.forEach((rec, i) => {
+    const versions = [rec, ...(rec.conflicts ?? []).map((c) => c.record as AnyRecord)];
+    for (const v of versions) {
+      if (v.type === 'site' || inBatch.has(v.siteId) || siteStored(v.siteId)) continue;
+      throw new InputError(
+        `records[${i}].siteId`,
+        `The record records[${i}] (${rec.type} ${JSON.stringify(rec.id)}) belongs to site ${describeValue(v.siteId)}, which is neither in this batch nor in the office store; send the site with it.`,
+      );
+    }
+  });
 }
 
 /**
@@ -260,6 +283,12 @@ export function parseBundle(text: unknown): SiteBundle {
     throw new InputError('file', `The bundle file must hold a JSON object, but it holds ${describeValue(data)}.`);
   }
   const obj = data as Record<string, unknown>;
+  // The depth and size bound first, record by record (so the message names the record), then the whole file.
+  for (const list of ['sites', 'picks', 'estimates']) {
+    const items = obj[list];
+    if (Array.isArray(items)) items.forEach((rec, i) => checkRecordLimits(rec, whereRecord(list, i)));
+  }
+  checkDocumentDepth(data, 2, 'file', 'The bundle file');
   if (obj.format !== BUNDLE_FORMAT) {
     throw new InputError('format', `This is not a Shearfield site bundle: its format field is ${describeValue(obj.format)}, expected "${BUNDLE_FORMAT}".`);
   }
@@ -332,9 +361,24 @@ export function makeBundle(records: readonly AnyRecord[], options: BundleOptions
   return bundle;
 }
 
-/** The bundle as JSON text (two-space indent, a final newline). */
+/**
+ * The bundle as JSON text: compact JSON with each top-level field and each
+ * record on a line of its own (and a final newline), so that the size grows
+ * with the data only, never with indentation, and a file the bundle check
+ * accepts is as small as it can be while still readable line by line.
+ */
 export function bundleToJson(bundle: SiteBundle): string {
-  return JSON.stringify(bundle, null, 2) + '\n';
+  const lines: string[] = [];
+  const entries = Object.entries(bundle);
+  entries.forEach(([key, value], i) => {
+    const end = i === entries.length - 1 ? '' : ',';
+    if (Array.isArray(value) && value.length > 0) {
+      lines.push(`${JSON.stringify(key)}:[`, value.map((r) => JSON.stringify(r)).join(',\n'), `]${end}`);
+    } else {
+      lines.push(`${JSON.stringify(key)}:${JSON.stringify(value)}${end}`);
+    }
+  });
+  return `{\n${lines.join('\n')}\n}\n`;
 }
 
 /** A file name for a bundle: `shearfield-sites-YYYY-MM-DD.json`, or with the site's name (whole words, up to 40 characters) when it holds one site. */

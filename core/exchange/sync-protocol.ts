@@ -15,7 +15,7 @@
  *   record that ended in conflict, so the tablet can show it at once.
  *   The same batch again changes nothing (all outcomes "ignore").
  * GET  /api/v1/pull?since=CURSOR&limit=N
- *   → 200 {records: AnyRecord[], cursor, more}
+ *   → 200 {records: AnyRecord[], cursor, more, seqs}
  *   Every record changed after CURSOR ("0" or absent = from the start),
  *   oldest change first, at most N (default 2000, at most 10,000). Pass the
  *   returned cursor back; `more` says another page waits. The tablet merges
@@ -63,6 +63,12 @@ export interface PullResponse {
   records: AnyRecord[];
   cursor: string;
   more: boolean;
+  /**
+   * The cursor just after each record (same order as `records`), so a
+   * tablet that cannot store records[i] keeps its cursor at seqs[i - 1] and
+   * skips nothing. Absent from servers before this field was added.
+   */
+  seqs?: string[];
 }
 
 export interface StatusResponse {

@@ -9,7 +9,7 @@ import { randomUUID } from 'node:crypto';
 import { importSummary, MAX_BUNDLE_CHARS, parseBundle, bundleRecords } from '../../core/exchange/bundle';
 import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
-import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
+import { busyMessage, DEFAULT_BUSY_TIMEOUT_MS, DEFAULT_DATA_DIR, isBusyError, OfficeStore } from '../store';
 
 const HELP = `Usage: shearfield bundle-import FILE.json [FILE.json ...] [--data DIR]
 
@@ -22,9 +22,12 @@ nothing the second time.
 
 Options:
   --data DIR  Folder of the office store (created if missing). Default ${DEFAULT_DATA_DIR}.
+  --wait S    How long to wait, in seconds, while another writer (the office server, another
+              command) holds the store, before giving up on a file. Default ${DEFAULT_BUSY_TIMEOUT_MS / 1000}.
   -h, --help  Show this help.
 
-Exit status: 0 all files imported; 1 a file was refused (files before it stay imported).`;
+Exit status: 0 all files imported; 1 a file was refused or the store stayed busy (files before
+it stay imported).`;
 
 /** Reads and checks one bundle file; throws InputError naming the file. */
 export function readBundleFile(path: string) {
@@ -49,14 +52,33 @@ const bundleImport: Command = {
   summary: 'Merge site bundle files into the office store (same rules as sync).',
   help: HELP,
   async run(args: string[], io: CommandIO): Promise<number> {
-    const { values, positionals } = parseArgs({ args, options: { data: { type: 'string', default: DEFAULT_DATA_DIR } }, allowPositionals: true, strict: true });
+    const { values, positionals } = parseArgs({
+      args,
+      options: { data: { type: 'string', default: DEFAULT_DATA_DIR }, wait: { type: 'string', default: String(DEFAULT_BUSY_TIMEOUT_MS / 1000) } },
+      allowPositionals: true,
+      strict: true,
+    });
     if (positionals.length === 0) throw new InputError('FILE', 'Give at least one bundle file, e.g. shearfield bundle-import sites.json.');
+    const wait = Number(values.wait);
+    if (!/^\d+(\.\d+)?$/.test(values.wait!) || wait > 3600) {
+      throw new InputError('--wait', `--wait must be a number of seconds from 0 to 3600, but it is ${JSON.stringify(values.wait)}.`);
+    }
+    const waitMs = Math.round(wait * 1000);
     const bundles = positionals.map((p) => [p, readBundleFile(p)] as const);
-    const store = OfficeStore.open(values.data!, { create: true });
+    const store = OfficeStore.open(values.data!, { create: true, busyTimeoutMs: waitMs });
     try {
       for (const [path, bundle] of bundles) {
-        const source = `bundle ${basename(path)}${bundle.exportedBy ? ` from ${bundle.exportedBy}` : ''}`.slice(0, 200);
-        const result = store.applyBatch(bundleRecords(bundle), { batchId: `bundle-${randomUUID()}`, source });
+        // The file's own claim of who exported it is shown as a claim, never as a device of this office.
+        const source = `bundle ${basename(path)}${bundle.exportedBy ? ` (says exported by ${bundle.exportedBy})` : ''}`.slice(0, 200);
+        let result;
+        try {
+          result = store.applyBatch(bundleRecords(bundle), { batchId: `bundle-${randomUUID()}`, source });
+        } catch (e) {
+          const earlier = bundles.findIndex(([p]) => p === path) > 0 ? ' (the files before it are imported)' : '';
+          if (isBusyError(e)) throw new InputError(path, `${basename(path)}: ${busyMessage(waitMs)} Nothing was imported from it${earlier}.`);
+          if (e instanceof InputError) throw new InputError(e.field, `${basename(path)}: ${e.message} Nothing was imported from it${earlier}.`);
+          throw e;
+        }
         io.out(`${basename(path)}: ${importSummary(bundle, result.plan)}\n`);
       }
     } finally {

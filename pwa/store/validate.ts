@@ -8,6 +8,7 @@
  *
  * Text limits are common practice for this tool (no published source).
  */
+import { checkRecordLimits } from '../../core/exchange/record-limits';
 import { InputError, describeValue } from '../../core/shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../../core/dispersion/model';
 import { validatePick, type Pick } from '../../core/picks/picks';
@@ -184,6 +185,8 @@ export function checkEstimate(e: EstimateRecord): void {
 /** Checks any record by its type; returns the record as it will be stored. */
 export function checkRecord(r: AnyRecord): AnyRecord {
   if (!r || typeof r !== 'object') throw new InputError('record', 'A record must be an object.');
+  // The bound the office keeps too (core/exchange/record-limits.ts): what one end cannot keep, neither takes.
+  checkRecordLimits(r, '');
   switch (r.type) {
     case 'site':
       checkSite(r);

@@ -12,7 +12,9 @@
  * 2. Pull: every change after the saved cursor, page by page; each page is
  *    merged locally with the same rules and written in one transaction (a
  *    record edited on the tablet meanwhile is left alone; the office merges
- *    that edit when it is pushed). The cursor is saved after each page.
+ *    that edit when it is pushed). The cursor is saved after each page, and
+ *    never past a record the tablet could not store: sync stops there and
+ *    says which record it is and whether retrying can help.
  *
  * When: on demand (`syncNow`), when the browser comes back online, and on a
  * timer while online: every INTERVAL_MS after a success, and after a
@@ -31,9 +33,12 @@
  */
 import { isDemoSite } from '../../core/exchange/demo';
 import type { AnyRecord } from '../../core/exchange/records';
+import { recordLabel } from '../../core/exchange/record-limits';
+import { InputError } from '../../core/shared/errors';
 import { hasConflicts, planMerge } from '../../core/exchange/sync';
 import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/exchange/sync-protocol';
-import type { FieldStore } from '../store';
+import { StoreError, type FieldStore } from '../store';
+import { checkRecord as checkFieldRecord } from '../store/validate';
 
 /** Settings keys in the field store. */
 export const SYNC_KEYS = {
@@ -485,28 +490,55 @@ export class SyncClient {
     return { pushed, conflicts };
   }
 
-  /** Merges records from the office into the tablet store; returns how many ended in conflict. */
+  /** Merges records from the office into the tablet store; returns how many ended in conflict. Throws SyncError naming the first record it could not store. */
   private async mergeIncoming(incoming: AnyRecord[]): Promise<number> {
+    const { conflicts, failed } = await this.storeIncoming(incoming);
+    if (failed) throw refusedRecord(failed);
+    return conflicts;
+  }
+
+  /**
+   * Merges and stores records from the office, as many as can be stored:
+   * each is first checked with the store's own rules (the shared depth and
+   * size bound included), the good ones are written in one transaction, and
+   * if that fails, one by one. Returns the conflicts and, if any record
+   * could not be stored, the first such (by its place in `incoming`).
+   */
+  private async storeIncoming(incoming: AnyRecord[]): Promise<{ conflicts: number; failed?: RefusedRecord }> {
+    let failed: RefusedRecord | undefined;
+    const note = (index: number, e: unknown) => {
+      if (failed === undefined || index < failed.index) failed = { index, record: incoming[index], ...refusalOf(e) };
+    };
+    const good: AnyRecord[] = [];
+    const indexOf = new Map<string, number>();
+    incoming.forEach((r, i) => {
+      try {
+        checkFieldRecord(r);
+        good.push(r);
+        if (!indexOf.has(r.id)) indexOf.set(r.id, i);
+      } catch (e) {
+        note(i, e);
+      }
+    });
     const all = await this.store.allRecords();
     const byId = new Map(all.map((r) => [r.id, r]));
-    const plan = planMerge(incoming, (id) => byId.get(id));
-    if (plan.writes.length === 0) return plan.conflicts;
-    const expectedRevs = new Map(plan.writes.map((w) => [w.id, byId.get(w.id)?.rev ?? 0]));
-    try {
-      await this.store.putIncoming(plan.writes, { expectedRevs });
-    } catch (e) {
-      // One record the tablet refuses must not block the rest: write them one by one, report the first refusal.
-      let first: string | undefined;
-      for (const w of plan.writes) {
-        try {
-          await this.store.putIncoming([w], { expectedRevs });
-        } catch (err) {
-          first ??= (err as Error).message;
+    const plan = planMerge(good, (id) => byId.get(id));
+    if (plan.writes.length > 0) {
+      const expectedRevs = new Map(plan.writes.map((w) => [w.id, byId.get(w.id)?.rev ?? 0]));
+      try {
+        await this.store.putIncoming(plan.writes, { expectedRevs });
+      } catch {
+        // One record the tablet cannot store must not block the rest: write them one by one.
+        for (const w of plan.writes) {
+          try {
+            await this.store.putIncoming([w], { expectedRevs });
+          } catch (err) {
+            note(indexOf.get(w.id) ?? 0, err);
+          }
         }
       }
-      throw new SyncError(`Some records from the office could not be stored on this tablet: ${first ?? (e as Error).message}`, false);
     }
-    return plan.conflicts;
+    return { conflicts: plan.conflicts, failed };
   }
 
   private async pull(serverUrl: string, token: string): Promise<{ pulled: number; conflicts: number }> {
@@ -518,18 +550,57 @@ export class SyncClient {
       if (!Array.isArray(reply.records) || typeof reply.cursor !== 'string') {
         throw new SyncError(`${serverUrl} answered the pull in an unknown form; check that it is a Shearfield office server.`, false);
       }
-      let pageError: unknown;
-      try {
-        conflicts += await this.mergeIncoming(reply.records);
-      } catch (e) {
-        pageError = e;
+      const stored = await this.storeIncoming(reply.records);
+      conflicts += stored.conflicts;
+      if (stored.failed) {
+        // Never move the cursor past a record that is not stored: the next
+        // pull starts at it again. Records before it are stored; with the
+        // per-record cursors the cursor moves up to just before it.
+        const seqs = Array.isArray(reply.seqs) && reply.seqs.length === reply.records.length ? reply.seqs : undefined;
+        const i = stored.failed.index;
+        if (seqs && i > 0) await this.store.putSetting(SYNC_KEYS.cursor, seqs[i - 1]);
+        pulled += i;
+        throw refusedRecord(stored.failed);
       }
       pulled += reply.records.length;
       cursor = reply.cursor;
       await this.store.putSetting(SYNC_KEYS.cursor, cursor);
-      if (pageError) throw pageError;
       if (!reply.more) break;
     }
     return { pulled, conflicts };
   }
+}
+
+/** A record from the office this tablet could not store, and why. */
+interface RefusedRecord {
+  /** Its place in the page. */
+  index: number;
+  record: AnyRecord;
+  reason: string;
+  /** Whether a later try can succeed (storage full, an interrupted write) or not (the record itself is refused). */
+  retryHelps: boolean;
+}
+
+/** Reason and retry hint of a store failure: bad records and data IndexedDB cannot hold do not get better by retrying. */
+function refusalOf(e: unknown): { reason: string; retryHelps: boolean } {
+  const reason = (e as Error)?.message ?? String(e);
+  if (e instanceof InputError) return { reason, retryHelps: false };
+  if (e instanceof StoreError) {
+    if (e.field !== undefined) return { reason, retryHelps: false };
+    const name = (e.cause as { name?: string } | undefined)?.name ?? '';
+    return { reason, retryHelps: name !== 'DataError' && name !== 'DataCloneError' };
+  }
+  const name = (e as { name?: string } | null)?.name ?? '';
+  return { reason, retryHelps: name !== 'DataError' && name !== 'DataCloneError' };
+}
+
+function refusedRecord(f: RefusedRecord): SyncError {
+  const label = recordLabel(f.record, '');
+  const reason = f.reason.trim().replace(/\.$/, '');
+  return new SyncError(
+    f.retryHelps
+      ? `This tablet could not store the ${label} from the office: ${reason}. Sync will try it again; nothing after it is skipped.`
+      : `This tablet cannot store the ${label} from the office: ${reason}. Retrying will not help: the office must correct or delete that record. Sync stops at it, so nothing after it is skipped.`,
+    f.retryHelps,
+  );
 }

@@ -1,0 +1,52 @@
+/**
+ * Office figures (issue 11):
+ * - the cost of `synchronous = FULL` (the store's setting: an acknowledged
+ *   batch survives a power cut) against NORMAL, per committed batch, for a
+ *   one-record push and a 1,000-pick push, on a real SQLite file in the
+ *   temporary folder (its disk decides the fsync time);
+ * - start-up of the command line: `node bin/shearfield.mjs --help` as a
+ *   new process, as `npx shearfield --help` runs it (target: well under
+ *   300 ms).
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { dirname, join, resolve } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import type { AnyRecord } from '../../core/exchange/records';
+import { OfficeStore } from '../../office/store';
+import { bench, type BenchResult } from './harness';
+
+const T = '2026-05-04T08:00:00.000Z';
+const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
+
+function picks(tag: string, n: number): AnyRecord[] {
+  return Array.from({ length: n }, (_, k) => ({ type: 'pick', id: `${tag}-${k}`, rev: 1, updatedAt: T, siteId: 'bench-site', order: k, frequency: 2 + (k % 400) * 0.1, velocity: 180 + (k % 97), sd: 6, kind: 'group', mode: 0 }) as AnyRecord);
+}
+
+export default async function (): Promise<BenchResult[]> {
+  const results: BenchResult[] = [];
+
+  for (const size of [1, 1000]) {
+    for (const mode of ['FULL', 'NORMAL'] as const) {
+      const dir = mkdtempSync(join(tmpdir(), 'shearfield-bench-sync-'));
+      const store = OfficeStore.open(dir, { create: true });
+      store.db.pragma(`synchronous = ${mode}`);
+      store.applyBatch([{ type: 'site', id: 'bench-site', rev: 1, updatedAt: T, name: 'Invented bench site', date: '2026-05-04', crew: '', notes: '', axisUnit: 'hz', settings: {} }], { batchId: 'site', source: 'bench' });
+      let n = 0;
+      const r = await bench(
+        `office commit, ${size === 1 ? 'one-record push' : '1,000-pick push'}, synchronous = ${mode}`,
+        () => {
+          n++;
+          store.applyBatch(picks(`${mode}-${size}-${n}`, size), { batchId: `b${n}`, source: 'bench' });
+        },
+        { samples: size === 1 ? 41 : 15, warmup: 3, note: mode === 'FULL' ? 'the store\'s setting: one more fsync per commit' : 'for comparison only' },
+      );
+      results.push(r);
+      store.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }
+
+  return results;
+}
