@@ -66,7 +66,7 @@ export interface SegyWriteOptions {
   patchBinaryHeader?: (header: DataView) => void;
 }
 
-const DEFAULT_LINES = ['Synthetic record written by Shearfield (invented data, not a field recording).'];
+const DEFAULT_LINES = ['Synthetic record by Shearfield: invented data, not a field recording.'];
 
 function textBlock(text: string, encoding: 'ebcdic' | 'ascii'): Uint8Array {
   const padded = text.padEnd(TEXT_HEADER_BYTES, ' ').slice(0, TEXT_HEADER_BYTES);
