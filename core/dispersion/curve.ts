@@ -1,5 +1,5 @@
 /**
- * Love-wave dispersion curves over a set of frequencies, columnar.
+ * Love- and Rayleigh-wave dispersion curves over a set of frequencies, columnar.
  *
  * What: per mode, the frequency, period, phase velocity and group velocity
  * at each requested frequency where that mode exists (above its cutoff),
@@ -11,7 +11,13 @@
  * Seismology*, 2nd ed. 2002, §7.2–7.3), each root started from the previous
  * frequency's (safeguarded Newton, love-layer.ts). N layers use the Thomson–Haskell
  * propagator with the Sturm-count root isolation of love-stack.ts and the
- * energy-integral group velocity of group-velocity.ts.
+ * energy-integral group velocity of group-velocity.ts. Rayleigh waves
+ * (option `wave: 'rayleigh'`, the model carrying P speeds) use the
+ * compound-matrix secular function and scanned root isolation of
+ * rayleigh-stack.ts (Dunkin 1965, BSSA 55:335), with U from implicit
+ * differentiation of the secular function; modes are numbered by order of
+ * phase velocity at each frequency, and places where two branches come
+ * close (osculate or cross) are listed in `approaches`.
  *
  * Units: SI in and out (Hz, s, m/s). Accuracy: phase velocity to about
  * 1e-15 relative, group velocity to about 1e-12 relative.
@@ -30,7 +36,8 @@ import {
   type TwoLayer,
 } from './love-layer';
 import { LoveStackSolver, loveStackCutoff, prepareLoveStack } from './love-stack';
-import type { LayeredModel } from './model';
+import { checkRayleighModel, type LayeredModel } from './model';
+import { CLOSE_ROOTS_RTOL, RayleighStackSolver, prepareRayleighStack, rayleighStackGroupVelocity } from './rayleigh-stack';
 
 export interface ModeCurve {
   /** Mode number: 0 is the fundamental. */
@@ -53,21 +60,52 @@ export interface CurveFailure {
   status: string;
 }
 
+/** The wave type of a dispersion curve. */
+export type Wave = 'love' | 'rayleigh';
+
+/**
+ * Two neighbouring modes (numbered by order) that come close at one
+ * frequency: their branches osculate or cross there, so a mode number can
+ * pass from one branch to the other (Rayleigh waves only; Love modes never
+ * meet).
+ */
+export interface BranchApproach {
+  /** The lower mode of the pair (mode, mode + 1). */
+  mode: number;
+  /** Hz. */
+  frequency: number;
+  /** Smallest phase-velocity gap between the two there, m/s. */
+  gap: number;
+}
+
 export interface DispersionCurves {
-  wave: 'love';
+  wave: Wave;
   /** Mode 0 first; a mode absent at every frequency has empty columns. */
   modes: ModeCurve[];
   /** Roots that did not converge (normally empty). */
   failures: CurveFailure[];
+  /** Where neighbouring modes come within APPROACH_RTOL of each other (empty for Love waves). */
+  approaches: BranchApproach[];
+  /** Warnings about the model, one sentence each (e.g. a Poisson's ratio below 0). */
+  warnings: string[];
 }
 
 export interface CurveOptions {
   /** Number of modes to compute, from the fundamental up. @default 1 */
   modes?: number;
+  /** Wave type; Rayleigh waves need a P speed in every layer and the half-space. @default 'love' */
+  wave?: Wave;
 }
 
 /** Defaults of CurveOptions, resolved once. */
-export const CURVE_DEFAULTS: Required<CurveOptions> = { modes: 1 };
+export const CURVE_DEFAULTS: Required<CurveOptions> = { modes: 1, wave: 'love' };
+
+/**
+ * Relative phase-velocity gap below which two neighbouring modes are
+ * reported as meeting (a local minimum of the gap over frequency, or two
+ * roots this close at one frequency): our threshold, not a published one.
+ */
+export const APPROACH_RTOL = 0.01;
 
 /** Upper limit on the number of modes asked for (common practice: nobody picks more). */
 export const MAX_MODES = 100;
@@ -167,7 +205,94 @@ export function loveCurves(
     const [fc, tc, pc, gc] = cols[m];
     out.push({ mode: m, frequency: fc.subarray(0, n), period: tc.subarray(0, n), phase: pc.subarray(0, n), group: gc.subarray(0, n) });
   }
-  return { wave: 'love', modes: out, failures };
+  return { wave: 'love', modes: out, failures, approaches: [], warnings: [] };
+}
+
+function checkWave(wave: unknown): Wave {
+  if (wave !== 'love' && wave !== 'rayleigh') {
+    throw new InputError('wave', `wave must be "love" or "rayleigh", but it is ${JSON.stringify(wave)}.`);
+  }
+  return wave;
+}
+
+/**
+ * Dispersion curves of the wave type in `options.wave` (Love by default):
+ * loveCurves or rayleighCurves.
+ */
+export function dispersionCurves(
+  model: LayeredModel,
+  frequencies: ArrayLike<number>,
+  options: CurveOptions = {},
+): DispersionCurves {
+  const wave = checkWave(options.wave ?? CURVE_DEFAULTS.wave);
+  return wave === 'love' ? loveCurves(model, frequencies, options) : rayleighCurves(model, frequencies, options);
+}
+
+/**
+ * Rayleigh-wave dispersion curves of a validated model with P speeds, at
+ * the given frequencies (Hz, any order; returned ascending). Throws
+ * InputError for a model without usable P speeds (checkRayleighModel), a
+ * frequency that is not finite and positive, or a bad mode count.
+ */
+export function rayleighCurves(
+  model: LayeredModel,
+  frequencies: ArrayLike<number>,
+  options: CurveOptions = {},
+): DispersionCurves {
+  const warnings = checkRayleighModel(model);
+  const modes = checkModes(options.modes ?? CURVE_DEFAULTS.modes);
+  const freq = sortedFrequencies(frequencies);
+  const nf = freq.length;
+  const cols = emptyColumns(modes, nf);
+  const counts = new Int32Array(modes);
+  // Per frequency index, each mode's phase velocity (NaN when absent), to find where neighbours meet.
+  const grid = new Float64Array(modes * nf).fill(NaN);
+  const failures: CurveFailure[] = [];
+  const approaches: BranchApproach[] = [];
+  const stack = prepareRayleighStack(model);
+  const solver = new RayleighStackSolver(stack);
+  const roots = new Float64Array(modes);
+  for (let i = 0; i < nf; i++) {
+    const f = freq[i];
+    const omega = 2 * Math.PI * f;
+    const found = solver.solve(omega, modes, roots);
+    for (let m = 0; m < found; m++) {
+      const c = roots[m];
+      if (Number.isNaN(c)) {
+        failures.push({ mode: m, frequency: f, status: solver.outcome.status });
+        continue;
+      }
+      grid[m * nf + i] = c;
+      const k = counts[m]++;
+      const col = cols[m];
+      col[0][k] = f;
+      col[1][k] = 1 / f;
+      col[2][k] = c;
+      col[3][k] = rayleighStackGroupVelocity(stack, omega, c);
+    }
+    for (const a of solver.outcome.close) {
+      if (a.mode >= 0 && a.mode + 1 < modes) approaches.push({ mode: a.mode, frequency: f, gap: a.gap });
+    }
+  }
+  // Local minima over frequency of the relative gap between neighbouring modes.
+  for (let m = 0; m + 1 < modes; m++) {
+    const gap = (i: number): number => (grid[(m + 1) * nf + i] - grid[m * nf + i]) / grid[(m + 1) * nf + i];
+    for (let i = 0; i < nf; i++) {
+      const g = gap(i);
+      if (!(g < APPROACH_RTOL) || g <= CLOSE_ROOTS_RTOL) continue; // very close pairs are already listed
+      if (i === 0 || i + 1 === nf) continue;
+      if (!(g <= gap(i - 1)) || !(g <= gap(i + 1))) continue;
+      approaches.push({ mode: m, frequency: freq[i], gap: g * grid[(m + 1) * nf + i] });
+    }
+  }
+  approaches.sort((a, b) => a.frequency - b.frequency || a.mode - b.mode);
+  const out: ModeCurve[] = [];
+  for (let m = 0; m < modes; m++) {
+    const n = counts[m];
+    const [fc, tc, pc, gc] = cols[m];
+    out.push({ mode: m, frequency: fc.subarray(0, n), period: tc.subarray(0, n), phase: pc.subarray(0, n), group: gc.subarray(0, n) });
+  }
+  return { wave: 'rayleigh', modes: out, failures, approaches, warnings };
 }
 
 /**

@@ -1,15 +1,18 @@
 /**
- * `shearfield curve MODEL.json`: Love-wave dispersion curves of a layered
- * model, as JSON (default) or CSV, for the office's batch work.
+ * `shearfield curve MODEL.json`: Love- or Rayleigh-wave dispersion curves
+ * of a layered model, as JSON (default) or CSV, for the office's batch work.
  *
  * Output contract (read by other tools, keep it exact):
  *   {"wave":"love","modes":[{"mode":0,"points":[{"frequency_hz":…,"period_s":…,
  *     "phase_velocity_m_s":…,"group_velocity_m_s":…}]}]}
+ * with "wave":"rayleigh" for --wave rayleigh. Notes (model warnings, modes
+ * that meet) go to stderr, one line each.
  * With --csv: a header `mode,frequency_hz,period_s,phase_velocity_m_s,group_velocity_m_s`
  * and one row per point. Points appear only where the mode exists.
  */
 import { parseArgs } from 'node:util';
-import { loveCurves, logBand, MAX_MODES, type DispersionCurves } from '../../core/dispersion/curve';
+import { APPROACH_RTOL, dispersionCurves, logBand, MAX_MODES, type DispersionCurves, type Wave } from '../../core/dispersion/curve';
+import { checkRayleighModel } from '../../core/dispersion/model';
 import { InputError } from '../../core/shared/errors';
 import { oneModelPath, readModelFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
@@ -17,14 +20,18 @@ import type { Command, CommandIO } from '../command';
 /** Largest number of frequencies accepted in one run (common practice: keeps a typo from filling the disk). */
 const MAX_FREQUENCIES = 100_000;
 
-const HELP = `Usage: shearfield curve MODEL.json (--freq LIST | --band FROM:TO:COUNT) [--modes N] [--csv]
+const HELP = `Usage: shearfield curve MODEL.json (--freq LIST | --band FROM:TO:COUNT) [--modes N] [--wave love|rayleigh] [--csv]
 
-Love-wave dispersion curves (phase and group velocity) of a layered model:
-N layers over a half-space, Thomson–Haskell propagator (closed forms for one layer).
+Love- or Rayleigh-wave dispersion curves (phase and group velocity) of a layered
+model: N layers over a half-space. Love waves: Thomson–Haskell propagator (closed
+forms for one layer). Rayleigh waves: compound matrices (Dunkin 1965), every root
+isolated by a phase-resolved scan; modes numbered by order of phase velocity.
 
 MODEL.json holds, in SI units named in the fields:
-  {"layers":[{"thickness_m":10,"vs_m_s":200,"density_kg_m3":1800}],
-   "halfspace":{"vs_m_s":500,"density_kg_m3":2000}}
+  {"layers":[{"thickness_m":10,"vs_m_s":200,"density_kg_m3":1800,"vp_m_s":600}],
+   "halfspace":{"vs_m_s":500,"density_kg_m3":2000,"vp_m_s":1600}}
+vp_m_s (P-wave speed) is required in every layer and the half-space for
+Rayleigh waves, with vp/vs above √(4/3) ≈ 1.155; Love waves ignore it.
 
 Options:
   --freq LIST            Frequencies in Hz, comma-separated, e.g. --freq 1,2,5.5.
@@ -32,6 +39,7 @@ Options:
                          e.g. --band 1:50:200. Give either --freq or --band, not both.
   --modes N              Number of modes, from the fundamental (mode 0) up, 1 to ${MAX_MODES}.
                          Default: 1.
+  --wave love|rayleigh   Wave type. Default: love.
   --csv                  Print a CSV table (columns mode, frequency_hz, period_s,
                          phase_velocity_m_s, group_velocity_m_s) instead of JSON.
   -h, --help             Show this help.
@@ -39,7 +47,11 @@ Options:
 Output (JSON, default):
   {"wave":"love","modes":[{"mode":0,"points":[{"frequency_hz":…,"period_s":…,
     "phase_velocity_m_s":…,"group_velocity_m_s":…}]}]}
-Points appear only where a mode exists (above its cutoff), in ascending frequency.
+with "wave":"rayleigh" for Rayleigh waves. Points appear only where a mode exists
+(above its cutoff), in ascending frequency. On stderr, one line each: warnings
+about the model (a Poisson's ratio below 0) and, for Rayleigh waves, where two
+neighbouring modes come within ${APPROACH_RTOL * 100} % of each other (their branches
+osculate or cross there, so a mode number may pass from one branch to the other).
 
 Exit status: 0 success; 1 bad file, model or option value (one line on stderr
 naming the field); 2 usage error.`;
@@ -92,6 +104,15 @@ function parseModes(text: string | undefined): number {
   return v;
 }
 
+function parseWave(text: string | undefined): Wave {
+  if (text === undefined) return 'love';
+  const t = text.trim().toLowerCase();
+  if (t !== 'love' && t !== 'rayleigh') {
+    throw new InputError('--wave', `--wave must be love or rayleigh, but it is "${text.trim()}".`);
+  }
+  return t;
+}
+
 function toJson(curves: DispersionCurves): string {
   return JSON.stringify({
     wave: curves.wave,
@@ -122,7 +143,7 @@ function toCsv(curves: DispersionCurves): string {
 
 const curve: Command = {
   name: 'curve',
-  summary: 'Love-wave dispersion curves (phase and group velocity) of a layered model.',
+  summary: 'Love- or Rayleigh-wave dispersion curves (phase and group velocity) of a layered model.',
   help: HELP,
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({
@@ -131,6 +152,7 @@ const curve: Command = {
         freq: { type: 'string' },
         band: { type: 'string' },
         modes: { type: 'string' },
+        wave: { type: 'string' },
         csv: { type: 'boolean', default: false },
       },
       allowPositionals: true,
@@ -141,9 +163,25 @@ const curve: Command = {
       throw new InputError('--freq', 'Give either --freq LIST or --band FROM:TO:COUNT (exactly one of them).');
     }
     const modes = parseModes(values.modes);
+    const wave = parseWave(values.wave);
     const frequencies = values.freq !== undefined ? parseFreq(values.freq) : parseBand(values.band as string);
     const model = readModelFile(path);
-    const curves = loveCurves(model, frequencies, { modes });
+    let warnings: string[] = [];
+    if (wave === 'rayleigh') {
+      try {
+        warnings = checkRayleighModel(model, 'file');
+      } catch (e) {
+        if (e instanceof InputError) throw new InputError(e.field, `The model file "${path}" is invalid: ${e.message}`);
+        throw e;
+      }
+    }
+    const curves = dispersionCurves(model, frequencies, { modes, wave });
+    for (const w of warnings) io.err(`shearfield curve: warning: ${w}\n`);
+    for (const a of curves.approaches) {
+      io.err(
+        `shearfield curve: note: modes ${a.mode} and ${a.mode + 1} come within ${a.gap.toPrecision(3)} m/s of each other near ${a.frequency.toPrecision(4)} Hz; their branches osculate or cross there, and modes are numbered by order of phase velocity.\n`,
+      );
+    }
     for (const f of curves.failures) {
       io.err(`shearfield curve: warning: mode ${f.mode} at ${f.frequency} Hz left out, the root search ended with "${f.status}".\n`);
     }

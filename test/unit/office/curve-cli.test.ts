@@ -68,7 +68,25 @@ const scenarios: Record<string, string[]> = {
   valueMissing: ['model.json', '--freq'],
   valueDash: ['model.json', '--freq', '-1'],
   switchValue: ['model.json', '--freq', '1', '--csv=yes'],
+  rayleigh: ['with-vp.json', '--freq', '4000,2000', '--modes', '2', '--wave', 'rayleigh'],
+  rayleighCsv: ['with-vp.json', '--band', '1:10:3', '--wave', 'RAYLEIGH', '--csv'],
+  loveIgnoresVp: ['with-vp.json', '--freq', '5'],
+  waveBad: ['model.json', '--freq', '1', '--wave', 'shear'],
+  vpMissing: ['model.json', '--freq', '1', '--wave', 'rayleigh'],
+  vpLow: ['low-vp.json', '--freq', '1', '--wave', 'rayleigh'],
+  negativePoisson: ['negative-poisson.json', '--freq', '5', '--wave', 'rayleigh'],
 };
+
+/**
+ * Invented model with P speeds, Poisson's ratio 1/4 (vp = √3·vs) in both: at high frequency (k·H ≈ 300 and more)
+ * the fundamental Rayleigh mode travels at the top layer's Rayleigh speed √(2 − 2/√3)·β1 (closed-form limit,
+ * exponentially close), and so does its group velocity.
+ */
+const WITH_VP = {
+  layers: [{ thickness_m: 8, vs_m_s: 200, density_kg_m3: 1800, vp_m_s: 200 * Math.sqrt(3) }],
+  halfspace: { vs_m_s: 400, density_kg_m3: 2000, vp_m_s: 400 * Math.sqrt(3) },
+};
+const TOP_RAYLEIGH = Math.sqrt(2 - 2 / Math.sqrt(3)) * 200;
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'shearfield-curve-'));
@@ -83,6 +101,9 @@ beforeAll(async () => {
       halfspace: { vs_m_s: 500, density_kg_m3: 2000 },
     }),
   );
+  writeFileSync(join(dir, 'with-vp.json'), JSON.stringify(WITH_VP));
+  writeFileSync(join(dir, 'low-vp.json'), JSON.stringify({ ...WITH_VP, layers: [{ ...WITH_VP.layers[0], vp_m_s: 230 }] }));
+  writeFileSync(join(dir, 'negative-poisson.json'), JSON.stringify({ ...WITH_VP, layers: [{ ...WITH_VP.layers[0], vp_m_s: 260 }] }));
   writeFileSync(join(dir, 'broken.json'), '{"layers": [');
   writeFileSync(join(dir, 'list.json'), '[1, 2, 3]');
   writeFileSync(join(dir, 'km.json'), MODEL.replace('"vs_m_s":200', '"vs_m_s":0.2'));
@@ -167,9 +188,53 @@ describe('shearfield curve: output contract', () => {
   it('--help documents every option', () => {
     const r = get('help');
     expect(r.code).toBe(0);
-    for (const word of ['MODEL.json', '--freq', '--band', '--modes', '--csv', '--help', 'Default: 1', 'frequency_hz']) {
+    for (const word of ['MODEL.json', '--freq', '--band', '--modes', '--wave', 'rayleigh', 'vp_m_s', '√(4/3)', '--csv', '--help', 'Default: 1', 'Default: love', 'frequency_hz']) {
       expect(r.out).toContain(word);
     }
+  });
+});
+
+describe('shearfield curve --wave rayleigh', () => {
+  it('prints the same JSON shape with "wave":"rayleigh"; at high frequency the top layer’s Rayleigh speed √(2 − 2/√3)·β1', () => {
+    const r = get('rayleigh');
+    expect(r.err).toBe('');
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.out);
+    expect(Object.keys(j)).toEqual(['wave', 'modes']);
+    expect(j.wave).toBe('rayleigh');
+    expect(j.modes.map((m: { mode: number }) => m.mode)).toEqual([0, 1]);
+    expect(j.modes[0].points.map((p: { frequency_hz: number }) => p.frequency_hz)).toEqual([2000, 4000]);
+    for (const p of j.modes[0].points) {
+      expect(Object.keys(p)).toEqual(['frequency_hz', 'period_s', 'phase_velocity_m_s', 'group_velocity_m_s']);
+      expect(Math.abs(p.phase_velocity_m_s / TOP_RAYLEIGH - 1)).toBeLessThan(1e-10);
+      expect(Math.abs(p.group_velocity_m_s / TOP_RAYLEIGH - 1)).toBeLessThan(1e-8);
+    }
+    // Mode 1 lies above the fundamental (between β1 and β_H).
+    for (const p of j.modes[1].points) expect(p.phase_velocity_m_s).toBeGreaterThan(TOP_RAYLEIGH);
+  });
+
+  it('takes the wave name in any case and prints the CSV table', () => {
+    const r = get('rayleighCsv');
+    expect(r.code).toBe(0);
+    const lines = r.out.trimEnd().split('\n');
+    expect(lines[0]).toBe('mode,frequency_hz,period_s,phase_velocity_m_s,group_velocity_m_s');
+    expect(lines.length).toBe(4);
+  });
+
+  it('ignores P speeds for Love waves (the default)', () => {
+    const j = JSON.parse(get('loveIgnoresVp').out);
+    expect(j.wave).toBe('love');
+    const v = loveVelocities({ h: 8, vs1: 200, vs2: 400, rho1: 1800, rho2: 2000 }, 5, 0);
+    expect(Math.abs(j.modes[0].points[0].phase_velocity_m_s / v.phase - 1)).toBeLessThan(1e-12);
+  });
+
+  it('warns on stderr, and still answers, for a Poisson ratio below 0', () => {
+    const r = get('negativePoisson');
+    expect(r.code).toBe(0);
+    expect(JSON.parse(r.out).wave).toBe('rayleigh');
+    expect(r.err).toBe(
+      "shearfield curve: warning: layers[0]: vp_m_s / vs_m_s = 1.300 gives a Poisson's ratio of -0.225, below 0, which is rare in soils and rocks; check the P speed.\n",
+    );
   });
 });
 
@@ -198,6 +263,9 @@ describe('shearfield curve: bad input exits non-zero with one line naming the fi
     ['valueMissing', 2, /^shearfield curve: --freq needs a value, but none was given\.\n$/],
     ['valueDash', 2, /^shearfield curve: --freq needs a value, but the next word starts with "-"; to give a value that starts with "-", write --freq=VALUE\.\n$/],
     ['switchValue', 2, /^shearfield curve: --csv is a switch and takes no value; give it alone\.\n$/],
+    ['waveBad', 1, /^shearfield curve: --wave must be love or rayleigh, but it is "shear"\.\n$/],
+    ['vpMissing', 1, /^shearfield curve: The model file "model\.json" is invalid: layers\[0\]\.vp_m_s is missing; Rayleigh waves need the P-wave speed of every layer and of the half-space\.\n$/],
+    ['vpLow', 1, /^shearfield curve: The model file "low-vp\.json" is invalid: layers\[0\]\.vp_m_s is 230 m\/s, but it must be more than √\(4\/3\) ≈ 1\.155 times layers\[0\]\.vs_m_s \(200 m\/s\), since no stable elastic solid has a lower P\/S speed ratio\.\n$/],
   ];
   for (const [name, code, message] of expectations) {
     it(`${name}: exit ${code}, ${message.source.slice(19, 80)}…`, () => {

@@ -1,0 +1,464 @@
+/**
+ * Rayleigh waves (P-SV) in N layers over a half-space: the secular function
+ * by compound matrices, with its exact derivatives in c and k.
+ *
+ * What: F(c, k), a real function whose zeros in c (at fixed ω = ck) are the
+ * phase velocities of the Rayleigh modes of a stack of homogeneous isotropic
+ * layers over a half-space, for β_min·(lower bound) < c ≤ β_H; and ∂F/∂c,
+ * ∂F/∂k at a point, for the group velocity U = c − k·F_k/F_c (implicit
+ * differentiation of F(c, k) = 0 with ω = ck; exact, not a difference).
+ *
+ * Method: compound (delta) matrices, Dunkin 1965, BSSA 55:335–358: the
+ * 2×2 minors of the two surface solutions are propagated instead of the
+ * solutions, so the growing exponentials that ruin plain Thomson–Haskell at
+ * high frequency-thickness cancel analytically. Our derivation of the layer
+ * step (equivalent to Dunkin's, organised differently):
+ *
+ * Motion–stress vector y = (U, W, T, S) with u_x = U e^{i(kx−ωt)},
+ * u_z = iW e^{…}, τ_xz = T e^{…}, τ_zz = iS e^{…} (Aki & Richards,
+ * *Quantitative Seismology*, 2nd ed. 2002, §7.2, eq. 7.28), in the
+ * dimensionless depth ẑ = kz and stresses divided by μ_H k. In a layer with
+ * q = μ/μ_H, p = β²/α², x = c²/β²:
+ *
+ *   dy/dẑ = A y,  A = [[0, 1, 1/q, 0], [−(1−2p), 0, 0, p/q],
+ *                      [4q(1−p) − qx, 0, 0, 1−2p], [0, −qx, −1, 0]].
+ *
+ * A² has the eigenvalues a = 1 − px (P) and b = 1 − x (S), each twice; the
+ * spectral projectors are M_a = (A² − b)/(a − b) and M_b = I − M_a, with
+ * a − b = x(1 − p) > 0 always. In closed form M_a = [[2u, 0, 0, u/q],
+ * [0, 1−2u, −u/q, 0], [0, 2q(2u−1), 2u, 0], [2q(1−2u), 0, 0, 1−2u]], u = 1/x.
+ * With L = kd, C_a = cosh(√a L), S_a = sinh(√a L)/√a (cos and sin/√−a for
+ * a < 0: both entire in a, so nothing is singular at c = α or c = β), the
+ * layer matrix is
+ *
+ *   P = P_a + P_b,  P_a = (C_a + S_a A) M_a,  P_b = (C_b + S_b A) M_b.
+ *
+ * The minors of P act on a bivector m (as an antisymmetric matrix) by
+ * m ↦ P m Pᵀ. P_a maps the P-wave plane to itself with determinant 1, so
+ * P_a m P_aᵀ = M_a m M_aᵀ exactly (no exponentials at all), likewise for b,
+ * and the only growing part is the mixed term, which grows like
+ * e^{(√a + √b)L}, the true growth of the minors:
+ *
+ *   P m Pᵀ = M_a m M_aᵀ + M_b m M_bᵀ + (Z − Zᵀ),  Z = P_a m P_bᵀ.
+ *
+ * The mixed term is evaluated with e^{−√a L}, e^{−√b L} taken out of the
+ * evanescent functions, and the constant terms are multiplied by the same
+ * factor, so nothing overflows; after every layer the six minors are
+ * divided by their largest magnitude (normalisation per layer). Both are
+ * positive factors: they change neither the sign nor the zeros of F.
+ *
+ * Free surface: T = S = 0, so the minors start as m = e_U ∧ e_W. At the
+ * half-space top the two decaying solutions (P: (1, r_α, −2r_α, −g),
+ * S: (r_β, 1, −g, −2r_β), r = √(1 − c²/v²), g = 2 − c²/β_H²) give n = d_P ∧ d_S
+ * and F = det[y₁ y₂ d_P d_S] = Σ ± m_ij n_kl (Laplace expansion). For no
+ * layers F = 4 r_α r_β − g², Rayleigh's function.
+ *
+ * Derivatives: the same recursion carries ∂m/∂c and ∂m/∂k (forward
+ * differentiation of every factor; the positive scale factors are held
+ * fixed, which multiplies F, F_c and F_k by the same factor at a root).
+ *
+ * Domain and units: SI in (m, s, m/s, kg/m³, rad/s); 0 < c ≤ β_H, k > 0;
+ * the model must carry P speeds (validate with model.ts first: these
+ * functions do not validate). Accuracy: F to a few hundred units of
+ * rounding relative to its scale (terms in 1/x² lose up to (β/c)⁴ digits in
+ * layers much stiffer than c); roots to about 1e-14 relative.
+ */
+import type { LayeredModel } from './model';
+
+/** A model prepared for the P-SV propagator: columns of layer properties. */
+export interface RayleighStack {
+  /** Number of layers above the half-space. */
+  readonly count: number;
+  /** Layer thicknesses, m. */
+  readonly thickness: Float64Array;
+  /** Layer shear speeds β, m/s. */
+  readonly vs: Float64Array;
+  /** Layer P speeds α, m/s. */
+  readonly vp: Float64Array;
+  /** Layer densities ρ, kg/m³. */
+  readonly density: Float64Array;
+  /** μ/μ_H per layer (dimensionless). */
+  readonly q: Float64Array;
+  /** β²/α² per layer (dimensionless). */
+  readonly p: Float64Array;
+  /** Half-space shear speed β_H, m/s. */
+  readonly vsH: number;
+  /** Half-space P speed α_H, m/s. */
+  readonly vpH: number;
+  /** Half-space density ρ_H, kg/m³. */
+  readonly densityH: number;
+  /** Half-space β_H²/α_H². */
+  readonly pH: number;
+}
+
+/** Copies a validated model with P speeds into columns (a missing P speed gives NaN results: validate first). */
+export function prepareRayleighStack(model: LayeredModel): RayleighStack {
+  const n = model.layers.length;
+  const thickness = new Float64Array(n);
+  const vs = new Float64Array(n);
+  const vp = new Float64Array(n);
+  const density = new Float64Array(n);
+  const q = new Float64Array(n);
+  const p = new Float64Array(n);
+  const h = model.halfspace;
+  const muH = h.density * h.vs * h.vs;
+  const vpH = h.vp ?? NaN;
+  for (let j = 0; j < n; j++) {
+    const l = model.layers[j];
+    thickness[j] = l.thickness;
+    vs[j] = l.vs;
+    vp[j] = l.vp ?? NaN;
+    density[j] = l.density;
+    q[j] = (l.density * l.vs * l.vs) / muH;
+    p[j] = (l.vs * l.vs) / (vp[j] * vp[j]);
+  }
+  return { count: n, thickness, vs, vp, density, q, p, vsH: h.vs, vpH, densityH: h.density, pH: (h.vs * h.vs) / (vpH * vpH) };
+}
+
+/** Pair index → (i, j) of the minors m_ij, i < j: 01, 02, 03, 12, 13, 23. */
+const PI = [0, 0, 0, 1, 1, 2] as const;
+const PJ = [1, 2, 3, 2, 3, 3] as const;
+
+// Scratch (no per-call allocation). 4×4 matrices row-major.
+const MA = new Float64Array(16);
+const MB = new Float64Array(16);
+const AM = new Float64Array(16); // A·M_a
+const BM = new Float64Array(16); // A·M_b
+const X = new Float64Array(16);
+const Y = new Float64Array(16);
+const dMA = new Float64Array(16);
+const dMB = new Float64Array(16);
+const dAM = new Float64Array(16);
+const dBM = new Float64Array(16);
+const dXc = new Float64Array(16);
+const dYc = new Float64Array(16);
+const dXk = new Float64Array(16);
+const dYk = new Float64Array(16);
+const Amat = new Float64Array(16);
+const dAmat = new Float64Array(16);
+const MM = new Float64Array(16);
+const T = new Float64Array(16);
+const next = new Float64Array(6);
+const nextC = new Float64Array(6);
+const nextK = new Float64Array(6);
+
+/** Entire functions of one wave type in one layer, scaled: see `functions`. */
+const fa = { C: 0, S: 0, expo: 0, dCa: 0, dSa: 0 };
+const fb = { C: 0, S: 0, expo: 0, dCa: 0, dSa: 0 };
+
+/**
+ * C = cosh(√a L), S = sinh(√a L)/√a (or cos, sin/√−a), multiplied by
+ * e^{−√a L} when a > 0 (expo = √a L, else 0); with their derivatives in a
+ * (dC/da = L S/2, dS/da = (L C − S)/(2a), by series for small |a|L²),
+ * scaled alike. Derivatives in L are dC/dL = a S, dS/dL = C.
+ */
+function functions(out: typeof fa, a: number, L: number): void {
+  let scale = 1;
+  if (a > 0) {
+    const r = Math.sqrt(a);
+    const x = r * L;
+    const em = Math.expm1(-2 * x);
+    out.C = 1 + 0.5 * em;
+    out.S = x === 0 ? L : (-0.5 * em) / r;
+    out.expo = x;
+    scale = Math.exp(-x);
+  } else if (a < 0) {
+    const r = Math.sqrt(-a);
+    const x = r * L;
+    out.C = Math.cos(x);
+    out.S = Math.sin(x) / r;
+    out.expo = 0;
+  } else {
+    out.C = 1;
+    out.S = L;
+    out.expo = 0;
+  }
+  out.dCa = 0.5 * L * out.S;
+  const aL2 = a * L * L;
+  if (Math.abs(aL2) < 0.1) {
+    // Σ_{n≥1} a^{n−1} L^{2n+1} n/(2n+1)!
+    const L3 = L * L * L;
+    out.dSa = scale * L3 * (1 / 6 + aL2 * (1 / 60 + aL2 * (1 / 1680 + aL2 * (1 / 90720 + aL2 / 7983360))));
+  } else {
+    out.dSa = (L * out.C - out.S) / (2 * a);
+  }
+}
+
+/** M_a of one layer (closed form in the header) into MA, M_b = I − M_a into MB. */
+function projectors(q: number, u: number): void {
+  MA.fill(0);
+  MA[0] = 2 * u;
+  MA[3] = u / q;
+  MA[5] = 1 - 2 * u;
+  MA[6] = -u / q;
+  MA[9] = 2 * q * (2 * u - 1);
+  MA[10] = 2 * u;
+  MA[12] = 2 * q * (1 - 2 * u);
+  MA[15] = 1 - 2 * u;
+  for (let i = 0; i < 16; i++) MB[i] = (i % 5 === 0 ? 1 : 0) - MA[i];
+}
+
+/** The system matrix A of one layer (header) into Amat. */
+function systemMatrix(q: number, p: number, x: number): void {
+  Amat.fill(0);
+  Amat[1] = 1;
+  Amat[2] = 1 / q;
+  Amat[4] = -(1 - 2 * p);
+  Amat[7] = p / q;
+  Amat[8] = 4 * q * (1 - p) - q * x;
+  Amat[11] = 1 - 2 * p;
+  Amat[13] = -q * x;
+  Amat[14] = -1;
+}
+
+/** out = P·Q (4×4). */
+function mul(P: Float64Array, Q: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < 4; i++) {
+    for (let j = 0; j < 4; j++) {
+      out[4 * i + j] = P[4 * i] * Q[j] + P[4 * i + 1] * Q[4 + j] + P[4 * i + 2] * Q[8 + j] + P[4 * i + 3] * Q[12 + j];
+    }
+  }
+}
+
+/** out[r] += w·(Z_ij − Z_ji) for Z = P·m·Qᵀ, m the bivector (6 minors) as an antisymmetric matrix. */
+function sandwich(P: Float64Array, m: Float64Array, Q: Float64Array, w: number, out: Float64Array): void {
+  const M = MM;
+  M[0] = 0;
+  M[1] = m[0];
+  M[2] = m[1];
+  M[3] = m[2];
+  M[4] = -m[0];
+  M[5] = 0;
+  M[6] = m[3];
+  M[7] = m[4];
+  M[8] = -m[1];
+  M[9] = -m[3];
+  M[10] = 0;
+  M[11] = m[5];
+  M[12] = -m[2];
+  M[13] = -m[4];
+  M[14] = -m[5];
+  M[15] = 0;
+  mul(P, M, T);
+  for (let r = 0; r < 6; r++) {
+    const i = PI[r];
+    const j = PJ[r];
+    const zij = T[4 * i] * Q[4 * j] + T[4 * i + 1] * Q[4 * j + 1] + T[4 * i + 2] * Q[4 * j + 2] + T[4 * i + 3] * Q[4 * j + 3];
+    const zji = T[4 * j] * Q[4 * i] + T[4 * j + 1] * Q[4 * i + 1] + T[4 * j + 2] * Q[4 * i + 2] + T[4 * j + 3] * Q[4 * i + 3];
+    out[r] += w * (zij - zji);
+  }
+}
+
+/** Divides the minors (and derivative rows, when given) by the largest |m_ij|. */
+function normalise(m: Float64Array, dc: Float64Array | null, dk: Float64Array | null): void {
+  let big = 0;
+  for (let r = 0; r < 6; r++) {
+    const v = Math.abs(m[r]);
+    if (v > big) big = v;
+  }
+  if (!(big > 0) || !Number.isFinite(big)) return;
+  const s = 1 / big;
+  for (let r = 0; r < 6; r++) {
+    m[r] *= s;
+    if (dc) dc[r] *= s;
+    if (dk) dk[r] *= s;
+  }
+}
+
+/** Minors at the surface: e_U ∧ e_W. */
+function start(m: Float64Array): void {
+  m.fill(0);
+  m[0] = 1;
+}
+
+/** Carries the minors m through layer j at (c, k). */
+function step(s: RayleighStack, j: number, c: number, k: number, m: Float64Array): void {
+  const beta = s.vs[j];
+  const x = (c * c) / (beta * beta);
+  const u = 1 / x;
+  const q = s.q[j];
+  const p = s.p[j];
+  const L = k * s.thickness[j];
+  functions(fa, 1 - p * x, L);
+  functions(fb, 1 - x, L);
+  projectors(q, u);
+  systemMatrix(q, p, x);
+  mul(Amat, MA, AM);
+  for (let i = 0; i < 16; i++) {
+    BM[i] = Amat[i] - AM[i];
+    X[i] = fa.C * MA[i] + fa.S * AM[i];
+    Y[i] = fb.C * MB[i] + fb.S * BM[i];
+  }
+  const w = 0.5 * Math.exp(-(fa.expo + fb.expo));
+  next.fill(0);
+  sandwich(MA, m, MA, w, next);
+  sandwich(MB, m, MB, w, next);
+  sandwich(X, m, Y, 1, next);
+  m.set(next);
+  normalise(m, null, null);
+}
+
+/** The half-space's bivector n = d_P ∧ d_S at c, into out; with dn/dc into dOut when given. */
+function halfspaceMinors(s: RayleighStack, c: number, out: Float64Array, dOut: Float64Array | null): void {
+  const xH = (c * c) / (s.vsH * s.vsH);
+  const ra = Math.sqrt(Math.max(0, 1 - s.pH * xH));
+  const rb = Math.sqrt(Math.max(0, 1 - xH));
+  const g = 2 - xH;
+  const rr = ra * rb;
+  out[0] = 1 - rr;
+  out[1] = 2 * rr - g;
+  out[2] = -rb * xH;
+  out[3] = ra * xH;
+  out[4] = g - 2 * rr;
+  out[5] = 4 * rr - g * g;
+  if (dOut) {
+    const dx = (2 * c) / (s.vsH * s.vsH);
+    const dra = (-s.pH * dx) / (2 * ra);
+    const drb = -dx / (2 * rb);
+    const dg = -dx;
+    const drr = dra * rb + ra * drb;
+    dOut[0] = -drr;
+    dOut[1] = 2 * drr - dg;
+    dOut[2] = -drb * xH - rb * dx;
+    dOut[3] = dra * xH + ra * dx;
+    dOut[4] = dg - 2 * drr;
+    dOut[5] = 4 * drr - 2 * g * dg;
+  }
+}
+
+/** det[y₁ y₂ d_P d_S] from the minors m of the surface solutions and n of the decaying ones. */
+function pairing(m: Float64Array, n: Float64Array): number {
+  return m[0] * n[5] - m[1] * n[4] + m[2] * n[3] + m[3] * n[2] - m[4] * n[1] + m[5] * n[0];
+}
+
+const minors = new Float64Array(6);
+const nH = new Float64Array(6);
+
+/**
+ * The secular function at angular frequency ω (rad/s) and phase velocity
+ * c (m/s), scaled by a positive factor (its sign and zeros are those of
+ * the unscaled F). Continuous in c on (0, β_H].
+ */
+export function rayleighSecular(s: RayleighStack, omega: number, c: number): number {
+  const k = omega / c;
+  start(minors);
+  for (let j = 0; j < s.count; j++) step(s, j, c, k, minors);
+  halfspaceMinors(s, c, nH, null);
+  return pairing(minors, nH);
+}
+
+/** F and its partial derivatives, scaled alike by one positive factor. */
+export interface SecularDerivatives {
+  value: number;
+  /** ∂F/∂c at fixed k. */
+  dc: number;
+  /** ∂F/∂k at fixed c. */
+  dk: number;
+}
+
+const dmc = new Float64Array(6);
+const dmk = new Float64Array(6);
+const dnH = new Float64Array(6);
+
+/**
+ * F, ∂F/∂c (fixed k) and ∂F/∂k (fixed c) at (ω, c), k = ω/c, by forward
+ * differentiation of the compound-matrix recursion (see the header).
+ * Writes into `out` and returns it.
+ */
+export function rayleighSecularDerivatives(
+  s: RayleighStack,
+  omega: number,
+  c: number,
+  out: SecularDerivatives = { value: 0, dc: 0, dk: 0 },
+): SecularDerivatives {
+  const k = omega / c;
+  start(minors);
+  dmc.fill(0);
+  dmk.fill(0);
+  for (let j = 0; j < s.count; j++) {
+    const beta = s.vs[j];
+    const d = s.thickness[j];
+    const x = (c * c) / (beta * beta);
+    const dx = (2 * c) / (beta * beta); // ∂x/∂c
+    const u = 1 / x;
+    const du = -u * u * dx;
+    const q = s.q[j];
+    const p = s.p[j];
+    const L = k * d;
+    const a = 1 - p * x;
+    const b = 1 - x;
+    functions(fa, a, L);
+    functions(fb, b, L);
+    projectors(q, u);
+    systemMatrix(q, p, x);
+    mul(Amat, MA, AM);
+    // ∂M_a/∂c from the closed form; ∂M_b = −∂M_a; ∂A/∂c has −q·dx at (2,0) and (3,1).
+    dMA.fill(0);
+    dMA[0] = 2 * du;
+    dMA[3] = du / q;
+    dMA[5] = -2 * du;
+    dMA[6] = -du / q;
+    dMA[9] = 4 * q * du;
+    dMA[10] = 2 * du;
+    dMA[12] = -4 * q * du;
+    dMA[15] = -2 * du;
+    dAmat.fill(0);
+    dAmat[8] = -q * dx;
+    dAmat[13] = -q * dx;
+    mul(Amat, dMA, dAM);
+    mul(dAmat, MA, T);
+    for (let i = 0; i < 16; i++) dAM[i] += T[i];
+    // Function derivatives: along c (through a, b at fixed L) and along k (through L).
+    const daC = -p * dx;
+    const dbC = -dx;
+    const dCaC = fa.dCa * daC;
+    const dSaC = fa.dSa * daC;
+    const dCbC = fb.dCa * dbC;
+    const dSbC = fb.dSa * dbC;
+    const dCaK = a * fa.S * d;
+    const dSaK = fa.C * d;
+    const dCbK = b * fb.S * d;
+    const dSbK = fb.C * d;
+    for (let i = 0; i < 16; i++) {
+      dMB[i] = -dMA[i];
+      BM[i] = Amat[i] - AM[i];
+      dBM[i] = dAmat[i] - dAM[i];
+      X[i] = fa.C * MA[i] + fa.S * AM[i];
+      Y[i] = fb.C * MB[i] + fb.S * BM[i];
+      dXc[i] = dCaC * MA[i] + fa.C * dMA[i] + dSaC * AM[i] + fa.S * dAM[i];
+      dYc[i] = dCbC * MB[i] + fb.C * dMB[i] + dSbC * BM[i] + fb.S * dBM[i];
+      dXk[i] = dCaK * MA[i] + dSaK * AM[i];
+      dYk[i] = dCbK * MB[i] + dSbK * BM[i];
+    }
+    const w = 0.5 * Math.exp(-(fa.expo + fb.expo));
+    next.fill(0);
+    nextC.fill(0);
+    nextK.fill(0);
+    sandwich(MA, minors, MA, w, next);
+    sandwich(MB, minors, MB, w, next);
+    sandwich(X, minors, Y, 1, next);
+    // ∂/∂c
+    sandwich(dMA, minors, MA, 2 * w, nextC);
+    sandwich(MA, dmc, MA, w, nextC);
+    sandwich(dMB, minors, MB, 2 * w, nextC);
+    sandwich(MB, dmc, MB, w, nextC);
+    sandwich(dXc, minors, Y, 1, nextC);
+    sandwich(X, dmc, Y, 1, nextC);
+    sandwich(X, minors, dYc, 1, nextC);
+    // ∂/∂k
+    sandwich(MA, dmk, MA, w, nextK);
+    sandwich(MB, dmk, MB, w, nextK);
+    sandwich(dXk, minors, Y, 1, nextK);
+    sandwich(X, dmk, Y, 1, nextK);
+    sandwich(X, minors, dYk, 1, nextK);
+    minors.set(next);
+    dmc.set(nextC);
+    dmk.set(nextK);
+    normalise(minors, dmc, dmk);
+  }
+  halfspaceMinors(s, c, nH, dnH);
+  out.value = pairing(minors, nH);
+  out.dc = pairing(dmc, nH) + pairing(minors, dnH);
+  out.dk = pairing(dmk, nH);
+  return out;
+}

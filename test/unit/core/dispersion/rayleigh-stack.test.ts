@@ -1,0 +1,186 @@
+/**
+ * Rayleigh waves in N layers (core/dispersion/rayleigh-stack.ts,
+ * rayleigh-secular.ts): closed forms and limits.
+ *
+ * Sources beside each check:
+ *  - Half-space: Rayleigh's equation, rationalised to the cubic
+ *    ξ³ − 8ξ² + (24 − 16γ)ξ − 16(1 − γ) = 0, ξ = c²/β², γ = β²/α²
+ *    (Aki & Richards, *Quantitative Seismology*, 2nd ed. 2002, §5.1, with
+ *    the cubic as in Stein & Wysession 2003, §2.7); at Poisson's ratio 1/4
+ *    (α = √3 β) the closed form ξ = 2 − 2/√3, c = 0.9194017·β. The cubic is
+ *    solved here by bisection, independently of the code under test.
+ *  - Limits (closed forms of the above): low frequency → the half-space's
+ *    Rayleigh speed; high frequency → the top layer's; a layer identical to
+ *    the half-space → the half-space speed at every frequency, with U = c.
+ *  - Splitting a layer into sublayers changes nothing (a homogeneous layer is
+ *    its own sublayers).
+ *  - Group velocity U = c / (1 − (f/c)·dc/df) (definition) with dc/df by a
+ *    central difference of the solver's own phase velocity.
+ * Models are invented for the tests.
+ */
+import { describe, expect, it } from 'vitest';
+import type { LayeredModel } from '../../../../core/dispersion/model';
+import {
+  RayleighStackSolver,
+  prepareRayleighStack,
+  rayleighHalfspaceSpeed,
+  rayleighSecular,
+  rayleighStackGroupVelocity,
+} from '../../../../core/dispersion/rayleigh-stack';
+
+/** Invented site: soft layer over stiffer ground, Poisson's ratio 1/3 in both. */
+const twoLayer: LayeredModel = {
+  layers: [{ thickness: 10, vs: 200, vp: 400, density: 1800 }],
+  halfspace: { vs: 500, vp: 1000, density: 2000 },
+};
+
+/** Invented site with a stiff crust over a soft, low-velocity layer (a water table between them). */
+const stiffCrust: LayeredModel = {
+  layers: [
+    { thickness: 4, vs: 300, vp: 600, density: 1900 },
+    { thickness: 10, vs: 140, vp: 1500, density: 1800 },
+    { thickness: 12, vs: 260, vp: 1600, density: 1900 },
+  ],
+  halfspace: { vs: 600, vp: 1800, density: 2100 },
+};
+
+function roots(model: LayeredModel, f: number, modes = 60): { c: Float64Array; solver: RayleighStackSolver } {
+  const solver = new RayleighStackSolver(prepareRayleighStack(model));
+  const out = new Float64Array(modes);
+  const n = solver.solve(2 * Math.PI * f, modes, out);
+  expect(solver.outcome.status).toBe('converged');
+  return { c: out.slice(0, n), solver };
+}
+
+/** The physical root ξ in (0, 1) of the rationalised Rayleigh cubic, by bisection. */
+function cubicRoot(gamma: number): number {
+  const g = (xi: number) => xi * xi * xi - 8 * xi * xi + (24 - 16 * gamma) * xi - 16 * (1 - gamma);
+  let lo = 0;
+  let hi = 1;
+  for (let i = 0; i < 200; i++) {
+    const mid = 0.5 * (lo + hi);
+    if (g(mid) < 0) lo = mid;
+    else hi = mid;
+  }
+  return 0.5 * (lo + hi);
+}
+
+function splitModel(model: LayeredModel, parts: number): LayeredModel {
+  return {
+    layers: model.layers.flatMap((l) => Array.from({ length: parts }, () => ({ ...l, thickness: l.thickness / parts }))),
+    halfspace: model.halfspace,
+  };
+}
+
+describe('half-space Rayleigh speed', () => {
+  it('is √(2 − 2/√3)·β = 0.9194017·β at Poisson ratio 1/4 (closed form)', () => {
+    const beta = 300;
+    const want = Math.sqrt(2 - 2 / Math.sqrt(3)) * beta;
+    const got = rayleighHalfspaceSpeed(beta, Math.sqrt(3) * beta);
+    expect(Math.abs(got - want), `got ${got}, want ${want}`).toBeLessThan(1e-12 * want);
+    expect(Math.abs(want / beta - 0.9194017)).toBeLessThan(5e-8);
+  });
+
+  it('solves the rationalised cubic for other Poisson ratios (cubic solved here by bisection)', () => {
+    for (const nu of [-0.5, -0.1, 0, 0.1, 1 / 3, 0.4, 0.45, 0.49]) {
+      const ratio = Math.sqrt((2 - 2 * nu) / (1 - 2 * nu)); // vp/vs
+      const want = Math.sqrt(cubicRoot(1 / (ratio * ratio)));
+      const got = rayleighHalfspaceSpeed(1, ratio);
+      expect(Math.abs(got - want), `ν ${nu}: got ${got}, want ${want}`).toBeLessThan(1e-12);
+    }
+  });
+
+  it('is NaN for vp/vs at or below √(4/3) (no stable solid)', () => {
+    expect(rayleighHalfspaceSpeed(100, 100 * Math.sqrt(4 / 3))).toBeNaN();
+    expect(rayleighHalfspaceSpeed(100, 100)).toBeNaN();
+  });
+});
+
+describe('N-layer Rayleigh roots: limits', () => {
+  it('a layer identical to the half-space gives the half-space speed at every frequency, as the only mode, with U = c', () => {
+    const hs = { vs: 400, vp: 900, density: 2000 };
+    const model: LayeredModel = { layers: [{ thickness: 7, ...hs }, { thickness: 30, ...hs }], halfspace: hs };
+    const cR = rayleighHalfspaceSpeed(hs.vs, hs.vp);
+    const s = prepareRayleighStack(model);
+    for (const f of [0.05, 1, 10, 100, 2000]) {
+      const { c, solver } = roots(model, f);
+      expect(solver.outcome.complete).toBe(true);
+      expect(c.length, `f ${f}: roots ${Array.from(c)}`).toBe(1);
+      expect(Math.abs(c[0] - cR), `f ${f}: got ${c[0]}, want ${cR}`).toBeLessThan(1e-11 * cR);
+      const u = rayleighStackGroupVelocity(s, 2 * Math.PI * f, c[0]);
+      expect(Math.abs(u - cR), `f ${f}: U ${u}, want ${cR}`).toBeLessThan(1e-9 * cR);
+    }
+  });
+
+  it('tends to the half-space Rayleigh speed at low frequency (error falling with f)', () => {
+    const cR = rayleighHalfspaceSpeed(500, 1000);
+    const e1 = Math.abs(roots(twoLayer, 0.1).c[0] - cR) / cR;
+    const e2 = Math.abs(roots(twoLayer, 0.01).c[0] - cR) / cR;
+    expect(e1).toBeLessThan(2e-2);
+    expect(e2).toBeLessThan(2e-3);
+    expect(e2).toBeLessThan(e1 / 5);
+  });
+
+  it('tends to the top layer’s own Rayleigh speed at high frequency (and stays finite: no overflow at kH ≈ 3e4)', () => {
+    const cR1 = rayleighHalfspaceSpeed(200, 400);
+    for (const f of [200, 1000, 100_000]) {
+      const c0 = roots(twoLayer, f, 1).c[0];
+      expect(Math.abs(c0 - cR1), `f ${f}: got ${c0}, want ${cR1}`).toBeLessThan(1e-9 * cR1);
+    }
+  });
+
+  it('finds the same roots, every mode, when layers are split into sublayers', () => {
+    for (const model of [twoLayer, stiffCrust]) {
+      for (const f of [2, 9, 35]) {
+        const a = roots(model, f).c;
+        for (const parts of [2, 3]) {
+          const b = roots(splitModel(model, parts), f).c;
+          expect(b.length, `f ${f}, ${parts} parts`).toBe(a.length);
+          for (let i = 0; i < a.length; i++) {
+            expect(Math.abs(b[i] - a[i]), `f ${f}, mode ${i}: ${b[i]} vs ${a[i]}`).toBeLessThan(1e-10 * a[i]);
+          }
+        }
+      }
+    }
+  });
+
+  it('numbers the modes by order and changes sign of F across each root', () => {
+    const s = prepareRayleighStack(stiffCrust);
+    const w = 2 * Math.PI * 25;
+    const { c } = roots(stiffCrust, 25);
+    expect(c.length).toBeGreaterThan(3);
+    for (let i = 0; i < c.length; i++) {
+      if (i > 0) expect(c[i]).toBeGreaterThan(c[i - 1]);
+      const lo = rayleighSecular(s, w, c[i] * (1 - 1e-9));
+      const hi = rayleighSecular(s, w, c[i] * (1 + 1e-9));
+      expect(lo * hi, `mode ${i} at ${c[i]}`).toBeLessThan(0);
+    }
+  });
+
+  it('returns only the requested lowest modes, the same as the full set', () => {
+    const all = roots(stiffCrust, 20).c;
+    const two = roots(stiffCrust, 20, 2).c;
+    expect(Array.from(two)).toEqual(Array.from(all.slice(0, 2)));
+  });
+});
+
+describe('Rayleigh group velocity (implicit differentiation of the secular function)', () => {
+  it('agrees with U = c / (1 − (f/c)·dc/df), dc/df by a central difference of the phase velocity', () => {
+    for (const model of [twoLayer, stiffCrust]) {
+      const s = prepareRayleighStack(model);
+      for (const f of [1.5, 6, 18, 40]) {
+        const { c } = roots(model, f, 4);
+        const h = 1e-4 * f;
+        const up = roots(model, f + h, 4).c;
+        const down = roots(model, f - h, 4).c;
+        for (let m = 0; m < c.length && m < up.length && m < down.length; m++) {
+          const dcdf = (up[m] - down[m]) / (2 * h);
+          const want = c[m] / (1 - (f / c[m]) * dcdf);
+          const got = rayleighStackGroupVelocity(s, 2 * Math.PI * f, c[m]);
+          // Central-difference error O(h²) plus rounding ~1e-14·c/h: about 1e-7 relative here.
+          expect(Math.abs(got - want), `f ${f}, mode ${m}: got ${got}, want ${want}`).toBeLessThan(1e-6 * Math.abs(want));
+        }
+      }
+    }
+  });
+});
