@@ -28,15 +28,21 @@ export function textOfBytes(bytes: Uint8Array): string {
   return s.charCodeAt(0) === 0xef && s.charCodeAt(1) === 0xbb && s.charCodeAt(2) === 0xbf ? s.slice(3) : s;
 }
 
-/** Whether the first bytes look like text: no NUL or control bytes other than tab, CR and LF. */
+/**
+ * Whether the first 4 kB look like text: no NUL or control bytes other than
+ * tab, CR and LF, and at least 90 % ASCII (numbers and separators are ASCII;
+ * a few accented letters in a header are fine).
+ */
 export function looksLikeText(bytes: Uint8Array): boolean {
   const n = Math.min(bytes.length, 4096);
   if (n === 0) return false;
+  let high = 0;
   for (let i = 0; i < n; i++) {
     const b = bytes[i];
     if (b < 0x20 && b !== 0x09 && b !== 0x0a && b !== 0x0d) return false;
+    if (b >= 0x7f) high++;
   }
-  return true;
+  return high <= 0.1 * n;
 }
 
 function delimiterOf(line: string): string {
