@@ -105,7 +105,8 @@ export function readCsvTraces(text: string, name: string): Recording {
       else traces[c - 1][r] = v;
     }
   }
-  const dt = (times[n - 1] - times[0]) / (n - 1);
+  // The mean step, to 12 significant digits: times printed in a CSV carry fewer, and the rounding keeps 0.002 from printing as 0.0020000000000000018.
+  const dt = Number(((times[n - 1] - times[0]) / (n - 1)).toPrecision(12));
   if (!(dt > 0)) fail('column 1', `The times in column 1 must rise, but they run from ${times[0]} s to ${times[n - 1]} s.`);
   for (let r = 1; r < n; r++) {
     const step = times[r] - times[r - 1];

@@ -111,9 +111,10 @@ export function traceIdOfComponent(c: Component): number {
   return { vertical: 12, crossline: 13, inline: 14, transverse: 16, unknown: 1 }[c];
 }
 
-function scalarFactor(raw: number): number {
-  if (raw === 0) return 1;
-  return raw > 0 ? raw : 1 / -raw;
+/** A value times a SEG-Y scalar: positive multiplies, negative divides (dividing keeps −25 / 10 exact), 0 means 1. */
+function scaled(value: number, raw: number): number {
+  if (raw === 0) return value;
+  return raw > 0 ? value * raw : value / -raw;
 }
 
 interface Layout {
@@ -370,7 +371,7 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
       badScalar ||= `Trace ${k + 1}'s time scalar (bytes 215–216) is ${timeScalar}, not one SEG-Y allows; 1 is used.`;
       timeScalar = 1;
     }
-    const d = (view.getInt16(start + T.delay, little) * scalarFactor(timeScalar)) / 1000;
+    const d = scaled(view.getInt16(start + T.delay, little), timeScalar) / 1000;
     if (k === 0) delay = d;
     else if (d !== delay) delaysDiffer = true;
 
@@ -388,8 +389,8 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
     }
     let elevScalar = view.getInt16(start + T.elevationScalar, little);
     if (!ALLOWED_SCALARS.has(elevScalar)) elevScalar = 1;
-    const cf = scalarFactor(coordScalar) * L.lengthFactor;
-    const ef = scalarFactor(elevScalar) * L.lengthFactor;
+    const cf = (v: number) => scaled(v, coordScalar) * L.lengthFactor;
+    const ef = (v: number) => scaled(v, elevScalar) * L.lengthFactor;
     const units = view.getInt16(start + T.coordinateUnits, little);
     if (units > 1) coordinatesUsable = false;
     const sx = view.getInt32(start + T.sourceX, little);
@@ -397,8 +398,8 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
     const rx = view.getInt32(start + T.receiverX, little);
     const ry = view.getInt32(start + T.receiverY, little);
     if (sx !== 0 || sy !== 0 || rx !== 0 || ry !== 0) anyCoordinate = true;
-    sources[k] = place(sx * cf, sy * cf, view.getInt32(start + T.sourceElevation, little) * ef);
-    receivers[k] = place(rx * cf, ry * cf, view.getInt32(start + T.receiverElevation, little) * ef);
+    sources[k] = place(cf(sx), cf(sy), ef(view.getInt32(start + T.sourceElevation, little)));
+    receivers[k] = place(cf(rx), cf(ry), ef(view.getInt32(start + T.receiverElevation, little)));
   }
 
   if (!(Math.abs(delay) <= MAX_ABS_DELAY_S)) {
@@ -429,7 +430,7 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
   return withGeometryQuestions({
     format: 'segy',
     name,
-    sampleInterval: intervalUs * 1e-6,
+    sampleInterval: intervalUs / 1e6,
     samples: longest,
     delay,
     traces,

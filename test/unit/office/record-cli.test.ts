@@ -107,9 +107,7 @@ describe('shearfield record: the geometry JSON', () => {
     expect(r.err).toBe('shearfield record: missing: Give the geophone component (vertical, inline, crossline or transverse): the file does not say which it is.\n');
   });
   it('reads CSV traces with offsets from the header row', () => {
-    const j = JSON.parse(get('csv').out);
-    expect(j).toMatchObject({ format: 'csv', traces: 2, samples: 3, delay_s: 0.1, offsets_m: [12, 14] });
-    expect(j.sample_interval_s).toBeCloseTo(0.002, 12);
+    expect(get('csv').out).toBe('{"format":"csv","traces":2,"samples":3,"sample_interval_s":0.002,"delay_s":0.1,"offsets_m":[12,14],"component":"unknown"}\n');
   });
   it('prints null offsets and asks for them when the file has none (exit 0)', () => {
     const r = get('bare');

@@ -21,7 +21,7 @@ describe('readCsvTraces', () => {
       format: 'csv',
       traces: 3,
       samples: 3,
-      sample_interval_s: expect.closeTo(0.002, 15),
+      sample_interval_s: 0.002,
       delay_s: 0.01,
       offsets_m: [10, 12, 14],
       component: 'unknown',

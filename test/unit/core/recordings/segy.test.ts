@@ -292,6 +292,13 @@ describe('readSegy refuses bad files with one sentence naming the byte offset or
     });
     expect(inputError(() => readSegy(bad, 'f.sgy')).message).toMatch(/sample interval is 0 in the binary header/);
   });
+  it('traces whose lengths vary so much that padding would exceed 16 times the file', () => {
+    const traces = [Array(20000).fill(1), ...Array.from({ length: 200 }, () => [1])];
+    const bytes = writeSegy({ sampleInterval: 0.001, delay: 0, traces }, { format: 8, variableLengths: true });
+    expect(inputError(() => readSegy(bytes, 'f.sgy')).message).toBe(
+      "The traces hold 1 to 20000 samples; padding them to one length would need more than 16 times the file's size.",
+    );
+  });
   it('a trace count larger than the file holds', () => {
     const bad = patched((v) => v.setBigUint64(3512, 5n));
     expect(inputError(() => readSegy(bad, 'f.sgy')).message).toBe('The binary header counts 5 traces, but the file holds 3.');
