@@ -47,6 +47,8 @@ export interface Recording {
   sources: Place[] | null;
   /** Receiver place per trace, or null when the file records none. */
   receivers: Place[] | null;
+  /** The file's own words, for display only: the SEG-Y textual header (its lines, trailing blanks cut) or the SEG-2 NOTE. */
+  textHeader?: string;
   /** True when any trace's offset is unknown: the user must give the geometry before an image can be made. */
   missingGeometry: boolean;
   /** Sentences asking the user for what the file does not say (empty when nothing is missing). */

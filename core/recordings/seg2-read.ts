@@ -252,6 +252,7 @@ export function readSeg2(bytes: Uint8Array, name: string): Recording {
   return withGeometryQuestions({
     format: 'seg2',
     name,
+    ...(fileStrings.has('NOTE') ? { textHeader: fileStrings.get('NOTE') } : {}),
     sampleInterval: interval,
     samples: longest,
     delay,

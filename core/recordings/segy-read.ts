@@ -28,7 +28,7 @@
  * the samples the file really holds (padding is capped, see MAX_PAD_FACTOR).
  */
 import { InputError } from '../shared/errors';
-import { blockContains } from './ebcdic';
+import { blockContains, textOfBlock } from './ebcdic';
 import { MAX_ABS_DELAY_S, withGeometryQuestions, type Component, type Place, type Recording } from './recording';
 import { decodeSamples, isSegyFormatCode, SEGY_FORMATS, type SegyFormatCode } from './segy-formats';
 
@@ -71,6 +71,7 @@ const B = {
 
 /** Trace-header field positions as offsets from the trace's start (standard byte number − 1). */
 const T = {
+  fieldRecord: 8,
   traceId: 28,
   offset: 36,
   receiverElevation: 40,
@@ -338,6 +339,7 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
   const receivers: Place[] = new Array(n);
   const components = new Set<Component>();
   const notSeismic: number[] = [];
+  const fieldRecords = new Set<number>();
   let delay = NaN;
   let delaysDiffer = false;
   let coordinatesUsable = true;
@@ -375,6 +377,7 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
     if (k === 0) delay = d;
     else if (d !== delay) delaysDiffer = true;
 
+    fieldRecords.add(view.getInt32(start + T.fieldRecord, little));
     const id = view.getInt16(start + T.traceId, little);
     const c = componentOfTraceId(id);
     if (c) components.add(c);
@@ -408,6 +411,9 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
   if (badScalar) warnings.push(badScalar);
   if (delaysDiffer) warnings.push(`The traces' delays differ (bytes 109–110); the first trace's ${delay} s is used for all.`);
   if (shortest < longest) warnings.push(`Trace lengths vary from ${shortest} to ${longest} samples; shorter traces are padded with zeros to ${longest}.`);
+  if (fieldRecords.size > 1) {
+    warnings.push(`The file holds ${fieldRecords.size} field records (trace bytes 9–12); all ${n} traces are read as one gather.`);
+  }
   if (notSeismic.length > 0) {
     warnings.push(`Trace${notSeismic.length > 1 ? 's' : ''} ${listOf(notSeismic)} ${notSeismic.length > 1 ? 'are' : 'is'} not marked as seismic data (trace id, bytes 29–30); check before use.`);
   }
@@ -427,8 +433,14 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
     }
   }
 
+  const lines = textOfBlock(bytes.subarray(0, TEXT_HEADER_BYTES)).text.match(/.{1,80}/gs) ?? [];
+  const textHeader = lines
+    .map((l) => l.replace(/[\x00-\x1f\x7f-\x9f]/g, ' ').trimEnd())
+    .join('\n')
+    .trimEnd();
   return withGeometryQuestions({
     format: 'segy',
+    textHeader,
     name,
     sampleInterval: intervalUs / 1e6,
     samples: longest,

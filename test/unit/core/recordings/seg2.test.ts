@@ -65,6 +65,7 @@ describe('readSeg2 on a file assembled from the standard layout', () => {
       component: 'unknown',
     });
     expect(rec.missingGeometry).toBe(false);
+    expect(rec.textHeader).toBe('invented');
     expect(rec.askFor).toEqual(['Give the geophone component (vertical, inline, crossline or transverse): the file does not say which it is.']);
   });
 });

@@ -149,11 +149,19 @@ describe('readSegy reads back every format code in both byte orders', () => {
 });
 
 describe('readSegy: textual headers, revisions and trace layouts', () => {
-  it('reads EBCDIC and ASCII textual headers alike', () => {
+  it('reads EBCDIC and ASCII textual headers alike, keeping their lines for display', () => {
     for (const textEncoding of ['ebcdic', 'ascii'] as const) {
-      const rec = readSegy(writeSegy(input(5), { textEncoding }), 'f.sgy');
+      const rec = readSegy(writeSegy(input(5), { textEncoding, textLines: ['CLIENT invented', 'LINE 7'] }), 'f.sgy');
       expect(rec.traces.length).toBe(3);
+      const lines = rec.textHeader?.split('\n') ?? [];
+      expect(lines.slice(0, 3)).toEqual(['C 1 CLIENT invented', 'C 2 LINE 7', 'C 3']);
+      expect(lines[38]).toBe('C39 SEG Y REV1');
+      expect(lines.length).toBe(40);
     }
+  });
+  it('warns when the traces come from several field records (trace bytes 9–12)', () => {
+    const rec = readSegy(writeSegy(input(5), { patchTraceHeader: (k, h) => h.setInt32(8, k < 2 ? 1 : 2) }), 'f.sgy');
+    expect(rec.warnings).toContain('The file holds 2 field records (trace bytes 9–12); all 3 traces are read as one gather.');
   });
   it('skips extended textual headers given by count', () => {
     const bytes = writeSegy(input(5), { extendedHeaders: ['((SEG: Invented survey ver 1.0))', 'more text'], extendedForm: 'count' });
