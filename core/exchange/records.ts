@@ -7,6 +7,7 @@
  * and a revision counter `rev` that goes up by one on every saved change.
  */
 import type { Pick } from '../picks/picks';
+import type { GeometryOverrides, GeometrySummary, RecordingFormat } from '../recordings/recording';
 import { historyAfter } from './revision';
 
 export interface RecordMeta {
@@ -103,11 +104,48 @@ export type AnyRecord = SiteRecord | PickRecord | EstimateRecord;
 export type RecordType = AnyRecord['type'];
 
 /**
+ * The parsed geometry of a seismograph file as plain JSON, the shape
+ * `shearfield record` prints (core/recordings/recording.ts geometrySummary);
+ * an offset the file does not give is null.
+ */
+export type RecordingGeometryJson = GeometrySummary;
+
+/**
+ * A seismograph file kept with its site (SEG-Y, SEG-2 or CSV traces). The
+ * record holds what the file is and the geometry read from it; the raw
+ * bytes are kept apart (the field store's `recordingBytes`), named by the
+ * record's id and checked by `sha256`. Checked by
+ * core/exchange/recording-record.ts.
+ */
+export interface RecordingRecord extends RecordMeta {
+  type: 'recording';
+  siteId: string;
+  /** The file name as the crew chose it (shown, never parsed). */
+  name: string;
+  format: RecordingFormat;
+  /** Size of the raw file, bytes. */
+  byteLength: number;
+  /** SHA-256 of the raw file (FIPS 180-4), 64 lower-case hex digits. */
+  sha256: string;
+  /** What the reader found in the file. */
+  geometry: RecordingGeometryJson;
+  /** What the crew set over the file's geometry (first offset and spacing, delay, component). */
+  overrides: GeometryOverrides;
+  /** Whether the raw bytes travel with the record to the office and in bundles (the site's choice). */
+  attach: boolean;
+  /** When the file was added to the site, ISO 8601 (UTC). */
+  addedAt: string;
+}
+
+/** Every kind of record the field store keeps. */
+export type StoredRecord = AnyRecord | RecordingRecord;
+
+/**
  * A new revision of a record: same id, rev + 1, fresh time, and `history`
  * extended by the key of the revision it was made from (so sync can tell an
  * edit of what the office has from a concurrent one). Records are immutable.
  */
-export function nextRevision<T extends AnyRecord>(record: T, changes: Partial<Omit<T, 'id' | 'rev' | 'type' | 'history'>>, now = new Date()): T {
+export function nextRevision<T extends StoredRecord>(record: T, changes: Partial<Omit<T, 'id' | 'rev' | 'type' | 'history'>>, now = new Date()): T {
   return {
     ...record,
     ...changes,

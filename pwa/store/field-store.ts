@@ -23,10 +23,15 @@ import {
   type AnyRecord,
   type EstimateRecord,
   type PickRecord,
+  type RecordingGeometryJson,
+  type RecordingRecord,
   type SiteRecord,
+  type StoredRecord,
 } from '../../core/exchange/records';
+import type { GeometryOverrides } from '../../core/recordings/recording';
 import { SCHEMA_VERSION, upgradeTo, type FieldDB, type OutboxEntry } from './schema';
-import { checkEstimate, checkPick, checkRecord, checkSite, pickOf } from './validate';
+import { checkEstimate, checkPick, checkRecord, checkRecording, checkSite, pickOf } from './validate';
+import { recordingOfInput, roomFor, sha256Hex, type StorageEstimate } from './recordings';
 
 /** A store failure, in plain words; `field` names the bad field when the input was at fault. */
 export class StoreError extends Error {
@@ -80,7 +85,45 @@ export interface FieldStore {
    * whose records the office may not have yet).
    */
   putIncoming(records: AnyRecord[], options?: IncomingOptions): Promise<string[]>;
+  /**
+   * Keeps a seismograph file with its site: the record (name, format, size,
+   * SHA-256, the parsed geometry, the crew's overrides, whether the bytes
+   * travel) and the raw bytes, in one transaction with its outbox entry.
+   * Checks the input and the device's free storage first; a refusal names
+   * the field (or says how much room is missing) and writes nothing.
+   * `attach` defaults to the site's choice (its other recordings), else false.
+   */
+  saveRecording(input: SaveRecordingInput): Promise<RecordingRecord>;
+  /** The site's recordings that are not deleted, oldest first. */
+  listRecordings(siteId: string): Promise<RecordingRecord[]>;
+  /** The raw bytes of a recording, or undefined when this device does not hold them. */
+  recordingBytes(id: string): Promise<Uint8Array | undefined>;
+  /** Deletes a recording: a tombstone revision of the record, and its bytes removed, in one transaction. */
+  deleteRecording(id: string): Promise<void>;
+  /** The site's choice whether raw files travel: every live recording of the site gets it (a revision where it changes). Returns how many changed. */
+  setRecordingAttach(siteId: string, attach: boolean): Promise<number>;
   close(): void;
+}
+
+/** @see FieldStore.saveRecording */
+export interface SaveRecordingInput {
+  siteId: string;
+  /** The file name. */
+  name: string;
+  /** The raw file. */
+  bytes: Uint8Array;
+  /** What the reader found (core/recordings/recording.ts geometrySummary). */
+  geometry: RecordingGeometryJson;
+  /** The crew's corrections of the file's geometry. @default none */
+  overrides?: GeometryOverrides;
+  /** Whether the raw bytes travel. @default the site's choice, else false */
+  attach?: boolean;
+}
+
+/** How openFieldStore opens the store. */
+export interface FieldStoreOptions {
+  /** How much storage the device reports (navigator.storage.estimate in the app; tests pass their own). */
+  storageEstimate?: () => Promise<StorageEstimate>;
 }
 
 export type { OutboxEntry } from './schema';
@@ -229,13 +272,16 @@ function checkRevision(stored: AnyRecord | undefined, incoming: AnyRecord, label
   }
 }
 
-function outboxEntry(r: AnyRecord, queuedAt: string): OutboxEntry {
+function outboxEntry(r: StoredRecord, queuedAt: string): OutboxEntry {
   // seq is assigned by the store (auto-increment key path).
   return { recordId: r.id, type: r.type, rev: r.rev, queuedAt } as OutboxEntry;
 }
 
 class IdbFieldStore implements FieldStore {
-  constructor(private readonly db: IDBPDatabase<FieldDB>) {}
+  constructor(
+    private readonly db: IDBPDatabase<FieldDB>,
+    private readonly storageEstimate: () => Promise<StorageEstimate>,
+  ) {}
 
   /**
    * Runs `body` in one read-write transaction. Any failure aborts the
@@ -305,20 +351,24 @@ class IdbFieldStore implements FieldStore {
 
   async deleteSite(id: string): Promise<void> {
     const now = new Date();
-    await this.write(['sites', 'picks', 'estimates', 'outbox'], 'the deletion of the site', async (tx) => {
+    await this.write(['sites', 'picks', 'estimates', 'recordings', 'recordingBytes', 'outbox'], 'the deletion of the site', async (tx) => {
       const site = await tx.objectStore('sites').get(id);
       if (!site) throw new StoreError('This site is not in the store, so it cannot be deleted.', { field: 'id' });
       if (site.deleted) return;
       const queuedAt = now.toISOString();
-      const tombstones: AnyRecord[] = [nextRevision(site, { deleted: true } as Partial<SiteRecord>, now)];
+      const tombstones: StoredRecord[] = [nextRevision(site, { deleted: true } as Partial<SiteRecord>, now)];
       for (const p of await tx.objectStore('picks').index('by-site').getAll(id)) {
         if (!p.deleted) tombstones.push(nextRevision(p, { deleted: true } as Partial<PickRecord>, now));
       }
       for (const e of await tx.objectStore('estimates').index('by-site').getAll(id)) {
         if (!e.deleted) tombstones.push(nextRevision(e, { deleted: true } as Partial<EstimateRecord>, now));
       }
+      for (const r of await tx.objectStore('recordings').index('by-site').getAll(id)) {
+        if (!r.deleted) tombstones.push(nextRevision(r, { deleted: true } as Partial<RecordingRecord>, now));
+        await tx.objectStore('recordingBytes').delete(r.id);
+      }
       for (const t of tombstones) {
-        const store = t.type === 'site' ? 'sites' : t.type === 'pick' ? 'picks' : 'estimates';
+        const store = t.type === 'site' ? 'sites' : t.type === 'pick' ? 'picks' : t.type === 'recording' ? 'recordings' : 'estimates';
         await tx.objectStore(store).put(t as never);
         await tx.objectStore('outbox').add(outboxEntry(t, queuedAt));
       }
@@ -506,6 +556,88 @@ class IdbFieldStore implements FieldStore {
     return skipped;
   }
 
+  async saveRecording(input: SaveRecordingInput): Promise<RecordingRecord> {
+    // Everything that is not IndexedDB happens before the transaction: the checks, the hash, the room.
+    const now = new Date();
+    const draft = check(() => recordingOfInput(input, now));
+    // A private copy: the caller's array may change after the call returns.
+    const bytes = input.bytes.slice();
+    let sha256: string;
+    try {
+      sha256 = await sha256Hex(bytes);
+    } catch (e) {
+      throw new StoreError(`The file "${draft.name}" could not be hashed (${(e as Error)?.message ?? String(e)}), so it was not saved. Nothing was changed.`, { cause: e });
+    }
+    check(() => checkRecording({ ...draft, sha256, attach: input.attach ?? false }));
+    const room = await roomFor(input.bytes.byteLength, this.storageEstimate);
+    if (room) throw new StoreError(`${room} The file "${draft.name}" was not saved; nothing was changed.`, { field: 'bytes' });
+    let saved!: RecordingRecord;
+    await this.write(['sites', 'recordings', 'recordingBytes', 'outbox'], `the recording "${draft.name}"`, async (tx) => {
+      const site = await tx.objectStore('sites').get(draft.siteId);
+      if (!site || site.deleted) {
+        throw new StoreError(`This recording belongs to a site that is ${site ? 'deleted' : 'not in the store'}, so it was not saved.`, {
+          field: 'siteId',
+        });
+      }
+      let attach = input.attach;
+      if (attach === undefined) {
+        const others = (await tx.objectStore('recordings').index('by-site').getAll(draft.siteId)).filter((r) => !r.deleted);
+        attach = others.some((r) => r.attach);
+      }
+      saved = { ...draft, sha256, attach };
+      await tx.objectStore('recordings').put(saved);
+      await tx.objectStore('recordingBytes').put({ id: saved.id, sha256, bytes });
+      await tx.objectStore('outbox').add(outboxEntry(saved, saved.updatedAt));
+    });
+    return saved;
+  }
+
+  async listRecordings(siteId: string): Promise<RecordingRecord[]> {
+    const all = await this.read('the recordings', () => this.db.getAllFromIndex('recordings', 'by-site', siteId));
+    return all
+      .filter((r) => !r.deleted)
+      .sort((a, b) => (a.addedAt < b.addedAt ? -1 : a.addedAt > b.addedAt ? 1 : a.name.localeCompare(b.name)));
+  }
+
+  async recordingBytes(id: string): Promise<Uint8Array | undefined> {
+    const entry = await this.read('the recording file', () => this.db.get('recordingBytes', id));
+    return entry?.bytes;
+  }
+
+  async deleteRecording(id: string): Promise<void> {
+    await this.write(['recordings', 'recordingBytes', 'outbox'], 'the deletion of the recording', async (tx) => {
+      const rec = await tx.objectStore('recordings').get(id);
+      if (!rec) throw new StoreError('This recording is not in the store, so it cannot be deleted.', { field: 'id' });
+      if (rec.deleted) return;
+      const tomb = nextRevision(rec, { deleted: true } as Partial<RecordingRecord>);
+      await tx.objectStore('recordings').put(tomb);
+      await tx.objectStore('recordingBytes').delete(id);
+      await tx.objectStore('outbox').add(outboxEntry(tomb, tomb.updatedAt));
+    });
+  }
+
+  async setRecordingAttach(siteId: string, attach: boolean): Promise<number> {
+    if (typeof attach !== 'boolean') {
+      throw new StoreError('attach must be true or false (whether raw files travel to the office).', { field: 'attach' });
+    }
+    let changed = 0;
+    await this.write(['sites', 'recordings', 'outbox'], "the site's choice for raw files", async (tx) => {
+      const site = await tx.objectStore('sites').get(siteId);
+      if (!site || site.deleted) {
+        throw new StoreError(`This site is ${site ? 'deleted' : 'not in the store'}, so its choice for raw files was not saved.`, { field: 'siteId' });
+      }
+      const now = new Date();
+      for (const r of await tx.objectStore('recordings').index('by-site').getAll(siteId)) {
+        if (r.deleted || r.attach === attach) continue;
+        const next = nextRevision(r, { attach }, now);
+        await tx.objectStore('recordings').put(next);
+        await tx.objectStore('outbox').add(outboxEntry(next, next.updatedAt));
+        changed++;
+      }
+    });
+    return changed;
+  }
+
   close(): void {
     this.db.close();
   }
@@ -524,7 +656,7 @@ function rowOf(stored: PickRecord[], k: number): number {
  * Opens (creating or migrating as needed) the field store. Rejects with a
  * StoreError in plain words when the browser cannot open IndexedDB.
  */
-export async function openFieldStore(name = 'shearfield'): Promise<FieldStore> {
+export async function openFieldStore(name = 'shearfield', options: FieldStoreOptions = {}): Promise<FieldStore> {
   let db: IDBPDatabase<FieldDB>;
   try {
     db = await openDB<FieldDB>(name, SCHEMA_VERSION, {
@@ -542,7 +674,14 @@ export async function openFieldStore(name = 'shearfield'): Promise<FieldStore> {
       { cause: e },
     );
   }
-  return new IdbFieldStore(db);
+  return new IdbFieldStore(db, options.storageEstimate ?? deviceStorageEstimate);
+}
+
+/** The device's own answer (StorageManager.estimate(), WHATWG Storage Standard); empty where the browser has none. */
+async function deviceStorageEstimate(): Promise<StorageEstimate> {
+  const storage = (globalThis as { navigator?: Navigator }).navigator?.storage;
+  if (!storage || typeof storage.estimate !== 'function') return {};
+  return storage.estimate();
 }
 
 /** The answer to the persistent-storage request. */

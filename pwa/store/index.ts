@@ -10,7 +10,19 @@ export {
   type IncomingOptions,
   type NewPickFields,
   type PersistenceAnswer,
+  type SaveRecordingInput,
+  type FieldStoreOptions,
 } from './field-store';
+export { STORAGE_RESERVE_BYTES, type StorageEstimate } from './recordings';
 export { pickOf } from './validate';
-export { SCHEMA_VERSION, type OutboxEntry, type FieldDB, type FieldDBv1 } from './schema';
-export type { AnyRecord, EstimateRecord, PickRecord, SiteRecord, EstimateSettings, SiteLocation } from '../../core/exchange/records';
+export { SCHEMA_VERSION, type OutboxEntry, type FieldDB, type FieldDBv1, type RecordingBytesEntry } from './schema';
+export type {
+  AnyRecord,
+  EstimateRecord,
+  PickRecord,
+  SiteRecord,
+  EstimateSettings,
+  SiteLocation,
+  RecordingRecord,
+  RecordingGeometryJson,
+} from '../../core/exchange/records';

@@ -16,12 +16,16 @@
  *   picks (a site's rows in the crew's order) and the `by-site-computed`
  *   index on estimates (latest estimate first). Every record already held
  *   from v1 is queued in the outbox, because it was never sent anywhere.
+ * - v3: adds `recordings` (seismograph files kept with a site: the record,
+ *   index `by-site`) and `recordingBytes` (the raw file of each recording,
+ *   keyed by the recording's id, kept apart so that lists and sync read
+ *   only the small records). Nothing else changes.
  */
 import type { DBSchema, IDBPDatabase, IDBPTransaction, StoreNames } from 'idb';
-import type { EstimateRecord, PickRecord, RecordType, SiteRecord } from '../../core/exchange/records';
+import type { EstimateRecord, PickRecord, RecordingRecord, SiteRecord, StoredRecord } from '../../core/exchange/records';
 
 /** The current schema version. */
-export const SCHEMA_VERSION = 2;
+export const SCHEMA_VERSION = 3;
 
 /** An entry in the outbox: one saved revision waiting to be sent. */
 export interface OutboxEntry {
@@ -29,7 +33,7 @@ export interface OutboxEntry {
   seq: number;
   /** The id of the record that changed. */
   recordId: string;
-  type: RecordType;
+  type: StoredRecord['type'];
   /** The revision that was saved. */
   rev: number;
   /** When it was queued, ISO 8601 (UTC). */
@@ -44,7 +48,16 @@ export interface FieldDBv1 extends DBSchema {
   settings: { key: string; value: unknown };
 }
 
-/** Schema version 2, the current one. */
+/** The raw bytes of one kept recording. */
+export interface RecordingBytesEntry {
+  /** The recording record's id. */
+  id: string;
+  /** SHA-256 of `bytes`, as the record states it. */
+  sha256: string;
+  bytes: Uint8Array;
+}
+
+/** Schema version 3, the current one (version 2 is the same without the two recording stores). */
 export interface FieldDB extends DBSchema {
   sites: { key: string; value: SiteRecord };
   picks: {
@@ -59,6 +72,8 @@ export interface FieldDB extends DBSchema {
   };
   settings: { key: string; value: unknown };
   outbox: { key: number; value: OutboxEntry; indexes: { 'by-record': string } };
+  recordings: { key: string; value: RecordingRecord; indexes: { 'by-site': string } };
+  recordingBytes: { key: string; value: RecordingBytesEntry };
 }
 
 type UpgradeTx = IDBPTransaction<FieldDB, StoreNames<FieldDB>[], 'versionchange'>;
@@ -100,6 +115,12 @@ const MIGRATIONS: readonly Migration[] = [
         }
       });
     }
+  },
+  // 2 → 3: the recordings and their raw bytes; nothing held changes.
+  (db) => {
+    const recordings = db.createObjectStore('recordings', { keyPath: 'id' });
+    recordings.createIndex('by-site', 'siteId');
+    db.createObjectStore('recordingBytes', { keyPath: 'id' });
   },
 ];
 

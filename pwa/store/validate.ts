@@ -12,7 +12,8 @@ import { checkRecordLimits } from '../../core/exchange/record-limits';
 import { InputError, describeValue } from '../../core/shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../../core/dispersion/model';
 import { validatePick, type Pick } from '../../core/picks/picks';
-import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, SiteRecord } from '../../core/exchange/records';
+import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordingRecord, SiteRecord, StoredRecord } from '../../core/exchange/records';
+import { checkRecordingFields } from '../../core/exchange/recording-record';
 
 /** Text limits for site fields (common practice). */
 export const SITE_TEXT_LIMITS = { name: 200, crew: 200, notes: 10_000, id: 100 } as const;
@@ -57,7 +58,7 @@ function finiteIn(value: unknown, field: string, lo: number, hi: number, unit: s
   }
 }
 
-function checkMeta(r: AnyRecord, expectedType: AnyRecord['type']): void {
+function checkMeta(r: StoredRecord, expectedType: StoredRecord['type']): void {
   if (!r || typeof r !== 'object') throw new InputError('record', `The ${expectedType} record must be an object.`);
   if (r.type !== expectedType) {
     throw new InputError('type', `type must be "${expectedType}", but it is ${describeValue(r.type)}.`);
@@ -180,6 +181,15 @@ export function checkEstimate(e: EstimateRecord): void {
     throw new InputError('summary', `summary must be an object, but it is ${describeValue(e.summary)}.`);
   }
   isoDateTime(e.computedAt, 'computedAt');
+}
+
+/** Checks a recording record (core/exchange/recording-record.ts holds its own rules). */
+export function checkRecording(r: RecordingRecord): void {
+  checkMeta(r, 'recording');
+  text(r.siteId, 'siteId', SITE_TEXT_LIMITS.id, true);
+  checkRecordingFields(r as unknown as Record<string, unknown>);
+  isoDateTime(r.addedAt, 'addedAt');
+  checkRecordLimits(r, '');
 }
 
 /** Checks any record by its type; returns the record as it will be stored. */

@@ -447,6 +447,8 @@ export class SyncClient {
     const orphanSeqs: number[] = [];
     for (const e of entries) {
       if (held.has(e.recordId)) continue;
+      // Recordings wait in the outbox until the office protocol carries them; they are not dropped as orphans.
+      if (e.type === 'recording') continue;
       const rec = byId.get(e.recordId);
       if (!rec || rec.rev < e.rev) {
         // Only possible if the record vanished; nothing to send for this entry.

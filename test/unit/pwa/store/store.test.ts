@@ -113,7 +113,7 @@ describe('round trip of every record type', () => {
 
 describe('migration from schema version 1', () => {
   it('keeps every v1 record, adds the v2 stores and indexes, and queues the old records for sync', async () => {
-    expect(SCHEMA_VERSION).toBe(2);
+    expect(SCHEMA_VERSION).toBe(3);
     const name = `test-${crypto.randomUUID()}`;
     // Build a real v1 database, as an older app version left it.
     const v1 = await openDB<FieldDBv1>(name, 1, { upgrade: upgradeTo(1) as never });
@@ -139,9 +139,9 @@ describe('migration from schema version 1', () => {
     expect(queued.map((q) => q.recordId).sort()).toEqual([site.id, p1.id, p2.id, est.id].sort());
     expect(queued.every((q) => q.rev === 1 && typeof q.seq === 'number')).toBe(true);
 
-    // The v2 shape on disk.
-    const raw = await openDB<FieldDB>(name, 2);
-    expect([...raw.objectStoreNames].sort()).toEqual(['estimates', 'outbox', 'picks', 'settings', 'sites']);
+    // The v2 shape on disk (and the v3 recording stores beside it).
+    const raw = await openDB<FieldDB>(name, SCHEMA_VERSION);
+    expect([...raw.objectStoreNames].sort()).toEqual(['estimates', 'outbox', 'picks', 'recordingBytes', 'recordings', 'settings', 'sites']);
     const tx = raw.transaction(['picks', 'estimates', 'outbox']);
     expect([...tx.objectStore('picks').indexNames].sort()).toEqual(['by-site', 'by-site-order']);
     expect([...tx.objectStore('estimates').indexNames].sort()).toEqual(['by-site', 'by-site-computed']);
