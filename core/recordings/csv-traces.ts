@@ -1,6 +1,8 @@
 /**
- * Reads traces from a CSV text (RFC 4180 without quoted cells; comma,
- * semicolon or tab between cells): the first column is time in seconds,
+ * Reads traces from a CSV text (RFC 4180; comma, semicolon or tab between
+ * cells; a cell may be wrapped in double quotes; semicolon files may use a
+ * decimal comma, as spreadsheets in many countries write them): the first
+ * column is time in seconds,
  * each further column one trace. A first row whose first cell is not a
  * number is a header; its other cells, when all are numbers, are the
  * receivers' offsets in metres (otherwise the offsets are unknown and asked
@@ -51,8 +53,11 @@ function delimiterOf(line: string): string {
   return ',';
 }
 
-function cellNumber(cell: string): number {
-  const t = cell.trim();
+/** A cell's number: surrounding double quotes are dropped; in semicolon files a decimal comma is read as a point. */
+function cellNumber(cell: string, decimalComma = false): number {
+  let t = cell.trim();
+  if (t.length >= 2 && t.startsWith('"') && t.endsWith('"')) t = t.slice(1, -1).trim();
+  if (decimalComma) t = t.replace(',', '.');
   return t === '' ? NaN : Number(t);
 }
 
@@ -65,16 +70,17 @@ export function readCsvTraces(text: string, name: string): Recording {
   });
   if (rows.length === 0) fail('file', `"${name}" holds no rows of numbers.`);
   const delimiter = delimiterOf(rows[0].text);
+  const decimalComma = delimiter === ';';
   let first = rows[0].text.split(delimiter);
   let offsets: Float64Array | null = null;
   let dataStart = 0;
   const warnings: string[] = [];
-  if (!Number.isFinite(cellNumber(first[0]))) {
+  if (!Number.isFinite(cellNumber(first[0], decimalComma))) {
     const timeName = first[0].trim();
     if (/(^|[^a-z])ms([^a-z]|$)|millisec/i.test(timeName)) {
       fail('row 1, column 1', `The time column must be in seconds, but its header says ${JSON.stringify(timeName.slice(0, 40))}.`);
     }
-    const heads = first.slice(1).map(cellNumber);
+    const heads = first.slice(1).map((c) => cellNumber(c, decimalComma));
     if (heads.length > 0 && heads.every(Number.isFinite)) offsets = Float64Array.from(heads);
     else warnings.push('The header row does not give the offsets as numbers (metres); they are unknown.');
     dataStart = 1;
@@ -96,7 +102,7 @@ export function readCsvTraces(text: string, name: string): Recording {
     const cells = row.text.split(delimiter);
     if (cells.length !== columns) fail(`row ${row.line}`, `Row ${row.line} has ${cells.length} columns, but the rows above have ${columns}.`);
     for (let c = 0; c < columns; c++) {
-      const v = cellNumber(cells[c]);
+      const v = cellNumber(cells[c], decimalComma);
       if (!Number.isFinite(v)) {
         const shown = cells[c].trim().slice(0, 40);
         fail(`row ${row.line}, column ${c + 1}`, `Row ${row.line}, column ${c + 1}: ${JSON.stringify(shown)} is not a number.`);

@@ -153,6 +153,7 @@ export function writeSeg2(input: Seg2Input, options: Seg2WriteOptions = {}): Uin
   input.traces.forEach((t, k) => {
     const at = starts[k];
     const size = 32 + traceBlocks[k].length;
+    if (size > 0xffff) throw new InputError(`traces[${k}]`, `The strings of trace ${k + 1} take ${size} bytes; a SEG-2 trace descriptor holds at most 65535.`);
     const dataBytes = seg2DataBytes(format, t.length);
     view.setUint16(at, SEG2_TRACE_ID, little);
     view.setUint16(at + 2, size, little);

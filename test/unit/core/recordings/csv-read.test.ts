@@ -35,6 +35,12 @@ describe('readCsvTraces', () => {
     expect(rec.traces.length).toBe(2);
     expect(rec.missingGeometry).toBe(true);
   });
+  it('reads quoted cells and, in semicolon files, decimal commas', () => {
+    const rec = readCsvTraces('"time_s";"2,5";"4"\n0;1,5;-2\n0,25;"3,0";4\n', 'q.csv');
+    expect(Array.from(rec.offsets)).toEqual([2.5, 4]);
+    expect(rec.sampleInterval).toBe(0.25);
+    expect(Array.from(rec.traces[0])).toEqual([1.5, 3]);
+  });
   it('keeps the offsets unknown, and says so, when the header names the traces instead', () => {
     const rec = readCsvTraces('time_s,geo1,geo2\n0,1,2\n1,3,4\n', 'c.csv');
     expect(rec.missingGeometry).toBe(true);
