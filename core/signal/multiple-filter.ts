@@ -205,9 +205,9 @@ export function multipleFilterImage(gather: Gather, options: MultipleFilterOptio
       // Quadratic (three-point Lagrange) interpolation of the envelope about the nearest sample.
       const mc = Math.min(Math.max(Math.round(mf), 1), m - 2);
       const u = mf - mc;
-      const em = Math.hypot(b[2 * mc - 2], b[2 * mc - 1]);
-      const e0 = Math.hypot(b[2 * mc], b[2 * mc + 1]);
-      const ep = Math.hypot(b[2 * mc + 2], b[2 * mc + 3]);
+      const em = Math.sqrt(b[2 * mc - 2] ** 2 + b[2 * mc - 1] ** 2);
+      const e0 = Math.sqrt(b[2 * mc] ** 2 + b[2 * mc + 1] ** 2);
+      const ep = Math.sqrt(b[2 * mc + 2] ** 2 + b[2 * mc + 3] ** 2);
       const e = e0 + 0.5 * u * (ep - em) + 0.5 * u * u * (ep - 2 * e0 + em);
       power[o + c] = e > 0 ? e * e : 0;
       const pr = b[2 * mc + 2] * b[2 * mc - 2] + b[2 * mc + 3] * b[2 * mc - 1];

@@ -16,10 +16,10 @@
  * coherence of its peak kept in `strength`.
  *
  * Frequencies: each trace is zero-padded (spectrum.ts) so that the spectral
- * lines are at most half the requested frequency step apart, and each row
- * uses the line nearest the requested frequency; the image reports the
- * line's own frequency, so every row's phase is exact at its stated
- * frequency.
+ * lines are at most the requested frequency step apart, and each row uses
+ * the line nearest the requested frequency (so no two rows share a line);
+ * the image reports the line's own frequency, so every row's phase is
+ * exact at its stated frequency.
  *
  * Reliability (shared/PHYSICS.md §10): a wavelength λ = c/f under two
  * receiver spacings is spatially aliased (UNRELIABLE); λ over twice the
@@ -83,10 +83,10 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
     );
   }
 
-  // Spectral lines at most half the smallest requested step apart.
+  // Spectral lines at most the smallest requested step apart.
   let minStep = Infinity;
   for (let i = 1; i < freqsAsked.length; i++) minStep = Math.min(minStep, freqsAsked[i] - freqsAsked[i - 1]);
-  const size = fftSize(Math.max(n, Math.ceil(2 / (minStep * dt))));
+  const size = fftSize(Math.max(n, Math.ceil(1 / (minStep * dt))));
   if (Number.isNaN(size)) {
     throw new InputError('frequency', `The frequency step (${minStep} Hz) is too fine for a ${n * dt} s record; use fewer frequencies.`);
   }
@@ -101,18 +101,20 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
     frequencies[i] = bins[i] * df;
   }
 
-  // Unit phasors per row and trace: re at [i·traces + j], im likewise.
+  // Unit phasors per row and trace, traces in offset order: re at [i·traces + k], im likewise.
+  const order = Array.from(offsets.keys()).sort((a, b) => offsets[a] - offsets[b]);
+  const x = Float64Array.from(order, (j) => offsets[j]);
   const pr = new Float64Array(rows * traces);
   const pi = new Float64Array(rows * traces);
   const spec = new Float64Array(2 * size);
   for (let j = 0; j < traces; j++) {
-    realSpectrum(gather.traces[j], size, spec);
+    realSpectrum(gather.traces[order[j]], size, spec);
     let peak = 0;
-    for (let i = 0; i < rows; i++) peak = Math.max(peak, Math.hypot(spec[2 * bins[i]], spec[2 * bins[i] + 1]));
+    for (let i = 0; i < rows; i++) peak = Math.max(peak, Math.sqrt(spec[2 * bins[i]] ** 2 + spec[2 * bins[i] + 1] ** 2));
     for (let i = 0; i < rows; i++) {
       const re = spec[2 * bins[i]];
       const im = spec[2 * bins[i] + 1];
-      const a = Math.hypot(re, im);
+      const a = Math.sqrt(re * re + im * im);
       if (a > SILENT_LINE * peak && a > 0) {
         pr[i * traces + j] = re / a;
         pi[i * traces + j] = im / a;
@@ -120,9 +122,7 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
     }
   }
 
-  // Traces in offset order, for the rotation recurrence on a regular line.
-  const order = Array.from(offsets.keys()).sort((a, b) => offsets[a] - offsets[b]);
-  const x0 = spread.sorted[0];
+  const x0 = x[0];
   const power = new Float64Array(rows * cols);
   const norm = 1 / (traces * traces);
   for (let i = 0; i < rows; i++) {
@@ -139,9 +139,8 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
         let zr = Math.cos(w * x0 * s);
         let zi = Math.sin(w * x0 * s);
         for (let k = 0; k < traces; k++) {
-          const j = order[k];
-          const ur = pr[o + j];
-          const ui = pi[o + j];
+          const ur = pr[o + k];
+          const ui = pi[o + k];
           vr += zr * ur - zi * ui;
           vi += zr * ui + zi * ur;
           const nr = zr * stepR - zi * stepI;
@@ -150,7 +149,7 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
         }
       } else {
         for (let j = 0; j < traces; j++) {
-          const phase = w * offsets[j] * s;
+          const phase = w * x[j] * s;
           const zr = Math.cos(phase);
           const zi = Math.sin(phase);
           const ur = pr[o + j];
