@@ -47,6 +47,7 @@ function useAppState(c: AppController): AppState {
 
 const VIEWS: { id: ViewName; label: string }[] = [
   { id: 'picks', label: 'Picks & plot' },
+  { id: 'records', label: 'Records' },
   { id: 'estimate', label: 'Estimate' },
   { id: 'figures', label: 'Site figures' },
   { id: 'whatif', label: 'What-if' },
@@ -261,6 +262,18 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           onCommit={(k) => void c.settings.commitSetting(k)}
           onKnown={(w, known, sug) => void c.settings.setKnown(w, known, sug)}
           onRun={() => void c.estimates.estimateNow()}
+        />
+      ) : s.view === 'records' && views ? (
+        <views.RecordsView
+          siteId={site.id}
+          state={s.records}
+          picks={s.picks}
+          model={fitted}
+          estimate={s.estimate}
+          plot={s.plot}
+          theme={s.theme}
+          records={c.records}
+          onPlot={(p) => c.settings.setPlot(p)}
         />
       ) : s.view === 'figures' && views ? (
         <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />

@@ -12,7 +12,7 @@
  * - A worker that crashes rejects its call with a plain-words Error and is
  *   replaced on the next call.
  */
-import { proxy, wrap, type Endpoint, type Remote } from 'comlink';
+import { proxy, transfer, wrap, type Endpoint, type Remote } from 'comlink';
 import type { CurveOptions } from '../../core/dispersion/curve';
 import { InputError } from '../../core/shared/errors';
 import type { EstimateResult } from '../../core/estimate/estimate';
@@ -21,9 +21,13 @@ import type { LayeredModel } from '../../core/dispersion/model';
 import type { Pick } from '../../core/picks/picks';
 import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site/site';
 import type { ProfileResult } from '../../core/profile/profile-estimate';
-import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions, WorkerProfileOptions } from './compute-api';
+import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions, WorkerImageOptions, WorkerProfileOptions } from './compute-api';
+import type { GeometryOverrides, Recording } from '../../core/recordings/recording';
+import type { Gather } from '../../core/signal/gather';
+import type { DispersionImage } from '../../core/signal/image';
+import type { Ridge } from '../../core/signal/ridge';
 
-export type { CurvesResult, WorkerEstimateOptions, WorkerProfileOptions } from './compute-api';
+export type { CurvesResult, WorkerEstimateOptions, WorkerImageOptions, WorkerProfileOptions } from './compute-api';
 
 /** What the bridge needs of a worker: a comlink endpoint that can be terminated. */
 export interface WorkerLike extends Endpoint {
@@ -259,6 +263,29 @@ export function computeProfile(
   signal?: AbortSignal,
 ): Promise<ProfileResult> {
   return computeBridge().call('profile', [picks, options, onProgress ? proxy(onProgress) : undefined], signal);
+}
+
+/**
+ * Reads a seismograph file in the worker (core/recordings/read.ts), with the
+ * crew's geometry overrides; `bytes` null gives the invented demo record.
+ * The bytes are copied and the copy transferred, so the caller keeps its own.
+ */
+export function computeReadRecord(bytes: Uint8Array | null, name: string, overrides: GeometryOverrides = {}, signal?: AbortSignal): Promise<Recording> {
+  const arg = bytes === null ? null : (() => {
+    const copy = bytes.slice();
+    return transfer(copy, [copy.buffer]);
+  })();
+  return computeBridge().call('readRecord', [arg, name, overrides], signal);
+}
+
+/** A dispersion image of a gather in the worker (core/signal); its columns come back transferred. */
+export function computeImage(gather: Gather, options: WorkerImageOptions, signal?: AbortSignal): Promise<DispersionImage> {
+  return computeBridge().call('dispersionImage', [gather, options], signal);
+}
+
+/** The ridge through a tapped point of an image, in the worker (core/signal/ridge.ts). */
+export function computeRidge(image: DispersionImage, tap: { frequency: number; velocity: number }, signal?: AbortSignal): Promise<Ridge> {
+  return computeBridge().call('followRidge', [image, tap], signal);
 }
 
 /** Site figures of a layered model (core/site/site.ts siteFigures). */

@@ -15,6 +15,14 @@ import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentr
 import type { LayeredModel } from '../../core/dispersion/model';
 import { estimateProfile, type ProfileOptions, type ProfileResult } from '../../core/profile/profile-estimate';
 import type { Pick } from '../../core/picks/picks';
+import { readRecording } from '../../core/recordings/read';
+import type { GeometryOverrides, Recording } from '../../core/recordings/recording';
+import { demoRecord } from '../../core/signal/demo-record';
+import type { Gather } from '../../core/signal/gather';
+import type { DispersionImage, ImageMethod } from '../../core/signal/image';
+import { multipleFilterImage, type MultipleFilterOptions } from '../../core/signal/multiple-filter';
+import { phaseShiftImage, type PhaseShiftOptions } from '../../core/signal/phase-shift';
+import { followRidge, type Ridge } from '../../core/signal/ridge';
 import {
   siteFigures,
   siteFiguresForRanges,
@@ -105,6 +113,19 @@ function coreOptions(options: WorkerEstimateOptions): EstimateOptions {
   return core;
 }
 
+/** Image options that cross to the worker: the method and its options. */
+export type WorkerImageOptions =
+  | ({ method: 'phase-shift' } & PhaseShiftOptions)
+  | ({ method: 'multiple-filter' } & MultipleFilterOptions);
+
+/** The buffers of an image's columns (to transfer, not copy). */
+function imageBuffers(r: DispersionImage): ArrayBufferLike[] {
+  const out: ArrayBufferLike[] = [r.frequencies.buffer, r.velocities.buffer, r.power.buffer, r.strength.buffer, r.reliability.buffer];
+  if (r.instantaneousFrequency) out.push(r.instantaneousFrequency.buffer);
+  if (r.alpha) out.push(r.alpha.buffer);
+  return out;
+}
+
 /** Every computation the worker offers, on plain (structured-clone) inputs. */
 export const computeApi = {
   /** Love-wave curves of `model` at `frequencies` (Hz), plus the modes' cutoffs (core/dispersion/curve.ts). */
@@ -182,6 +203,55 @@ export const computeApi = {
         r.pickFit.normalised.buffer,
         r.pickFit.sd.buffer,
       ],
+    );
+  },
+
+  /**
+   * A seismograph file (SEG-Y, SEG-2, CSV traces) read into traces and
+   * geometry with the crew's overrides (core/recordings/read.ts); the
+   * invented demo record when `bytes` is null.
+   */
+  readRecord(bytes: Uint8Array | null, name: string, overrides: GeometryOverrides = {}): Computed<Recording> {
+    return run(
+      () => {
+        if (bytes !== null) return readRecording(bytes, name, overrides);
+        const g = demoRecord();
+        return {
+          format: 'csv' as const,
+          name: g.name ?? name,
+          sampleInterval: g.sampleInterval,
+          samples: g.traces[0].length,
+          delay: g.startTime,
+          traces: [...g.traces],
+          offsets: Float64Array.from(g.offsets),
+          component: 'transverse' as const,
+          sources: null,
+          receivers: null,
+          missingGeometry: false,
+          askFor: [],
+          warnings: ['This record is invented: a synthetic Love-wave gather of an invented site, for trying the app.'],
+        };
+      },
+      (r) => [...r.traces.map((t) => t.buffer), r.offsets.buffer],
+    );
+  },
+
+  /** A dispersion image of a gather (core/signal: phase-shift or multiple-filter). */
+  dispersionImage(gather: Gather, options: WorkerImageOptions): Computed<DispersionImage> {
+    return run(
+      () => {
+        const { method, ...rest } = options;
+        return (method as ImageMethod) === 'phase-shift' ? phaseShiftImage(gather, rest) : multipleFilterImage(gather, rest);
+      },
+      imageBuffers,
+    );
+  },
+
+  /** The ridge through a tapped point of an image (core/signal/ridge.ts). */
+  followRidge(image: DispersionImage, tap: { frequency: number; velocity: number }): Computed<Ridge> {
+    return run(
+      () => followRidge(image, tap),
+      (r) => [r.rows.buffer, r.frequency.buffer, r.velocity.buffer, r.sd.buffer, r.level.buffer],
     );
   },
 

@@ -14,6 +14,7 @@ import type { AppState, Theme } from './app-state';
 import { EstimateController, type EstimateRunner, type SliceRunner } from './estimate-controller';
 import { ImportController } from './import-controller';
 import { PicksController } from './picks-controller';
+import { RecordsController, type RecordsCompute } from './records-controller';
 import { SettingsController } from './settings-controller';
 import { SitesController } from './sites-controller';
 import { messageOf, StateHub } from './state-hub';
@@ -36,14 +37,17 @@ export class AppController {
   readonly settings: SettingsController;
   /** Network state, office sync and bundles. */
   readonly sync: SyncController;
+  /** Seismograph records, their dispersion image and the picks taken from it. */
+  readonly records: RecordsController;
 
-  constructor(estimate?: EstimateRunner, slice?: SliceRunner) {
+  constructor(estimate?: EstimateRunner, slice?: SliceRunner, recordsCompute?: RecordsCompute) {
     this.estimates = new EstimateController(this.hub, estimate, slice);
     this.picks = new PicksController(this.hub, this.estimates);
     this.imports = new ImportController(this.hub, this.picks, this.estimates);
     this.sites = new SitesController(this.hub, this.picks, this.estimates);
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
     this.sync = new SyncController(this.hub, this.sites, this.picks);
+    this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute);
   }
 
   get current(): AppState {

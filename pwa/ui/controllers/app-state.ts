@@ -9,8 +9,9 @@ import type { SyncStatus } from '../../sync/client';
 import type { AxisQuantity } from '../charts/chart-data';
 import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
+import type { RecordsState } from './records-controller';
 
-export type ViewName = 'picks' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
+export type ViewName = 'picks' | 'records' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
 export type SiteSort = 'recent' | 'name' | 'date';
 export type Theme = 'standard' | 'sun';
 
@@ -120,6 +121,8 @@ export interface AppState {
   updateReady?: () => void;
   locating: boolean;
   sync: SyncPanelState;
+  /** Seismograph records of the open site, the dispersion image and its ridge (records-controller.ts). */
+  records: RecordsState;
 }
 
 /** The estimate of the open site, as the worker last answered. */
@@ -153,6 +156,7 @@ export const initialState: AppState = {
   estimate: { status: 'idle' },
   locating: false,
   sync: { busy: false, formError: '', conflicted: [], siteNames: {} },
+  records: { list: [], method: 'phase-shift', overrides: { first: '', spacing: '', delay: '' }, status: 'idle', mode: '0', removed: [] },
 };
 
 /** Sites matching the search text (name, crew, notes, date), in the chosen order. */

@@ -1,0 +1,288 @@
+/**
+ * The records view: a seismograph file from the device (or the invented
+ * demo record), its geometry with the overrides the crew may need to give,
+ * the dispersion image with the site's picks and best-fit curves over it,
+ * the followed ridge's points (trim, delete, mode) and "Add to picks".
+ */
+import { CAUTION } from '../../../core/shared/caution';
+import { MARGINAL } from '../../../core/signal/image';
+import type { LayeredModel } from '../../../core/dispersion/model';
+import type { PickRecord } from '../../../core/exchange/records';
+import type { EstimateState, PlotSettings } from '../controllers/app-state';
+import type { RecordsController, RecordsState } from '../controllers/records-controller';
+import { DispersionImageCanvas } from '../charts/dispersion-image';
+import '../styles/records.css';
+
+export interface RecordsViewProps {
+  siteId: string;
+  state: RecordsState;
+  picks: readonly PickRecord[];
+  model?: LayeredModel;
+  estimate: EstimateState;
+  plot: PlotSettings;
+  theme: string;
+  records: RecordsController;
+  onPlot: (patch: Partial<PlotSettings>) => void;
+}
+
+const fmt = (x: number, digits = 3) => String(Number(x.toPrecision(digits)));
+
+export function RecordsView(p: RecordsViewProps) {
+  const s = p.state;
+  const list = s.list.filter((r) => r.siteId === p.siteId);
+  const rec = list.find((r) => r.id === s.openId);
+  const g = rec?.recording;
+  const ridge = s.ridge;
+  const range = s.range;
+  const busy = s.status === 'reading' || s.status === 'imaging' || s.status === 'following';
+  const result = p.estimate.result;
+  return (
+    <section class="panel records" aria-labelledby="records-h">
+      <div class="panel-head">
+        <h2 id="records-h">Seismograph records</h2>
+      </div>
+      <p class="hint">
+        Read a SEG-Y, SEG-2 or CSV-traces file from this device, see its dispersion image, tap a bright ridge, and add its points to the picks.
+        Records stay on this device for this session only; the picks you add are saved with the site.
+      </p>
+      <div class="record-actions">
+        <label class="file-pick">
+          Import a record from this device
+          <input
+            type="file"
+            accept=".sgy,.segy,.sg2,.seg2,.dat,.csv,.txt"
+            onChange={(e) => {
+              const input = e.currentTarget;
+              const file = input.files?.[0];
+              if (file) void p.records.importFile(file);
+              input.value = '';
+            }}
+          />
+        </label>
+        <button type="button" onClick={() => void p.records.loadDemo()}>
+          Try the invented demo record
+        </button>
+      </div>
+      {list.length > 1 ? (
+        <div class="seg" role="group" aria-label="Records of this site">
+          {list.map((r) => (
+            <button type="button" key={r.id} aria-pressed={r.id === s.openId} onClick={() => void p.records.select(r.id)}>
+              {r.invented ? `${r.name} (invented)` : r.name}
+            </button>
+          ))}
+        </div>
+      ) : null}
+      {s.error ? (
+        <p class="error" role="alert">
+          {s.error}
+        </p>
+      ) : null}
+      {busy ? (
+        <p class="status" role="status">
+          {s.status === 'reading' ? 'Reading the record…' : s.status === 'imaging' ? 'Computing the dispersion image…' : 'Following the ridge…'}
+        </p>
+      ) : null}
+      {rec ? (
+        <>
+          <h3>
+            {rec.name}
+            {rec.invented ? <span class="invented-tag"> INVENTED (synthetic demo, not a real survey)</span> : null}
+          </h3>
+          {g ? (
+            <table class="geometry">
+              <caption>Geometry as read{s.overrides.first || s.overrides.delay ? ' with your values' : ''}</caption>
+              <tbody>
+                <tr>
+                  <th scope="row">Format</th>
+                  <td>{g.format === 'segy' ? 'SEG-Y' : g.format === 'seg2' ? 'SEG-2' : rec.invented ? 'synthetic (invented)' : 'CSV traces'}</td>
+                </tr>
+                <tr>
+                  <th scope="row">Traces × samples</th>
+                  <td>
+                    {g.traces.length} × {g.samples}, every {fmt(g.sampleInterval * 1000)} ms ({fmt(g.samples * g.sampleInterval)} s)
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">First sample after the source</th>
+                  <td>{fmt(g.delay)} s</td>
+                </tr>
+                <tr>
+                  <th scope="row">Offsets</th>
+                  <td>
+                    {g.offsets.length === 1
+                      ? `${fmt(g.offsets[0])} m`
+                      : `${fmt(g.offsets[0])} m to ${fmt(g.offsets[g.offsets.length - 1])} m (${g.offsets.length} receivers)`}
+                  </td>
+                </tr>
+                <tr>
+                  <th scope="row">Component</th>
+                  <td>{g.component}</td>
+                </tr>
+              </tbody>
+            </table>
+          ) : null}
+          {rec.askFor.length > 0 ? (
+            <ul class="ask" role="alert">
+              {rec.askFor.map((a) => (
+                <li key={a}>{a}</li>
+              ))}
+            </ul>
+          ) : null}
+          {rec.warnings.map((w) => (
+            <p key={w} class="hint">
+              {w}
+            </p>
+          ))}
+          <fieldset class="overrides">
+            <legend>Geometry the file lacks or gets wrong</legend>
+            <label>
+              First receiver's offset (m)
+              <input inputMode="decimal" value={s.overrides.first} onInput={(e) => p.records.setOverride('first', e.currentTarget.value)} />
+            </label>
+            <label>
+              Receiver spacing (m)
+              <input inputMode="decimal" value={s.overrides.spacing} onInput={(e) => p.records.setOverride('spacing', e.currentTarget.value)} />
+            </label>
+            <label>
+              Trigger delay (s)
+              <input inputMode="decimal" value={s.overrides.delay} onInput={(e) => p.records.setOverride('delay', e.currentTarget.value)} />
+            </label>
+            <button type="button" onClick={() => void p.records.applyOverrides()}>
+              Use this geometry
+            </button>
+          </fieldset>
+          {g ? (
+            <div class="image-controls">
+              <div class="seg" role="group" aria-label="Image method">
+                <button
+                  type="button"
+                  aria-pressed={s.method === 'phase-shift'}
+                  disabled={g.traces.length < 2}
+                  onClick={() => void p.records.setMethod('phase-shift')}
+                >
+                  Phase velocity (all traces)
+                </button>
+                <button type="button" aria-pressed={s.method === 'multiple-filter'} onClick={() => void p.records.setMethod('multiple-filter')}>
+                  Group velocity (one trace)
+                </button>
+              </div>
+              {s.method === 'multiple-filter' && g.traces.length > 1 ? (
+                <label>
+                  Trace
+                  <select
+                    value={s.trace === undefined ? '' : String(s.trace)}
+                    onChange={(e) => void p.records.setTrace(e.currentTarget.value === '' ? undefined : Number(e.currentTarget.value))}
+                  >
+                    <option value="">farthest</option>
+                    {Array.from(g.offsets, (x, k) => (
+                      <option key={k} value={String(k)}>
+                        {k + 1} ({fmt(x)} m)
+                      </option>
+                    ))}
+                  </select>
+                </label>
+              ) : null}
+              <div class="seg" role="group" aria-label="Horizontal axis quantity">
+                <button type="button" aria-pressed={p.plot.axis === 'frequency'} onClick={() => p.onPlot({ axis: 'frequency' })}>
+                  Frequency (Hz)
+                </button>
+                <button type="button" aria-pressed={p.plot.axis === 'period'} onClick={() => p.onPlot({ axis: 'period' })}>
+                  Period (s)
+                </button>
+              </div>
+            </div>
+          ) : null}
+          {s.image ? (
+            <figure class="image-figure">
+              <DispersionImageCanvas
+                image={s.image}
+                ridge={ridge}
+                range={range}
+                removed={s.removed}
+                picks={p.picks}
+                model={p.model}
+                settings={p.plot}
+                theme={p.theme}
+                onTap={(f, v) => void p.records.tap(f, v)}
+                onDragEnd={(end, f) => p.records.dragEnd(end, f)}
+              />
+              <figcaption>
+                <span class="key key-ridge">◆ ridge points</span> <span class="key">○ the site's {s.image.method === 'phase-shift' ? 'phase' : 'group'} picks</span>{' '}
+                {result ? (
+                  <span
+                    class="key"
+                    data-testid="record-fit"
+                    data-low95={String(result.thickness.low95)}
+                    data-high95={String(result.thickness.high95)}
+                  >
+                    - - best fit (H = {fmt(result.thickness.best)} m, 95 %: {fmt(result.thickness.low95)}–{fmt(result.thickness.high95)} m). {CAUTION}
+                  </span>
+                ) : (
+                  <span class="key">Best-fit curves appear once the site has an estimate.</span>
+                )}
+                <ul class="image-notes">
+                  {s.image.notes.map((n) => (
+                    <li key={n}>{n}</li>
+                  ))}
+                  <li>Grey areas are unreliable and washed-out areas marginal; the picker stops at them.</li>
+                </ul>
+              </figcaption>
+            </figure>
+          ) : null}
+          {s.ridgeNote ? (
+            <p class="status" role="status">
+              {s.ridgeNote}
+            </p>
+          ) : null}
+          {ridge && range && ridge.velocity.length > 0 ? (
+            <div class="ridge">
+              <p class="hint">Drag a ringed end along the ridge to trim it; delete single points below.</p>
+              <label>
+                Mode (0 = fundamental)
+                <input inputMode="numeric" value={s.mode} onInput={(e) => p.records.setMode(e.currentTarget.value)} />
+              </label>
+              <div class="ridge-scroll" tabIndex={0} role="region" aria-label="Ridge points">
+              <table class="ridge-points">
+                <caption>Ridge points ({s.image?.method === 'phase-shift' ? 'phase' : 'group'} velocity)</caption>
+                <thead>
+                  <tr>
+                    <th scope="col">Frequency (Hz)</th>
+                    <th scope="col">Velocity (m/s)</th>
+                    <th scope="col">sd (m/s)</th>
+                    <th scope="col">Band</th>
+                    <th scope="col">
+                      <span class="sr-only">Delete</span>
+                    </th>
+                  </tr>
+                </thead>
+                <tbody>
+                  {Array.from(ridge.velocity, (v, k) => {
+                    if (k < range[0] || k > range[1]) return null;
+                    const gone = s.removed.includes(k);
+                    return (
+                      <tr key={k} class={gone ? 'removed' : ''}>
+                        <td>{fmt(ridge.frequency[k], 4)}</td>
+                        <td>{fmt(v, 4)}</td>
+                        <td>{fmt(ridge.sd[k], 2)}</td>
+                        <td>{ridge.level[k] === MARGINAL ? 'marginal' : 'reliable'}</td>
+                        <td>
+                          <button type="button" onClick={() => p.records.togglePoint(k)}>
+                            {gone ? 'Restore' : 'Delete'}
+                          </button>
+                        </td>
+                      </tr>
+                    );
+                  })}
+                </tbody>
+              </table>
+              </div>
+              <button type="button" class="primary" onClick={() => void p.records.addToPicks()}>
+                Add to picks
+              </button>
+            </div>
+          ) : null}
+        </>
+      ) : null}
+    </section>
+  );
+}
