@@ -101,14 +101,26 @@ export function geometrySummary(rec: Recording): GeometrySummary {
 
 /**
  * Fills in `missingGeometry` and `askFor` from the offsets and component.
- * Readers call it last, and so does applyOverrides.
+ * Offsets beyond ±MAX_ABS_OFFSET_M (junk in a file's header) become unknown,
+ * with a warning, so that the user is asked for them. Readers call it last,
+ * and so does applyOverrides.
  */
 export function withGeometryQuestions(rec: Omit<Recording, 'missingGeometry' | 'askFor'>): Recording {
-  const missingGeometry = rec.offsets.length === 0 || rec.offsets.some((o) => !Number.isFinite(o));
+  let { offsets, warnings } = rec;
+  const absurd: number[] = [];
+  offsets.forEach((o, k) => {
+    if (Math.abs(o) > MAX_ABS_OFFSET_M) absurd.push(k + 1);
+  });
+  if (absurd.length > 0) {
+    offsets = offsets.map((o) => (Math.abs(o) > MAX_ABS_OFFSET_M ? NaN : o));
+    const shown = absurd.length > 10 ? `${absurd.slice(0, 10).join(', ')} and ${absurd.length - 10} more` : absurd.join(', ');
+    warnings = [...warnings, `The offsets of trace${absurd.length > 1 ? 's' : ''} ${shown} lie beyond ±${MAX_ABS_OFFSET_M} m; they are taken as unknown.`];
+  }
+  const missingGeometry = offsets.length === 0 || offsets.some((o) => !Number.isFinite(o));
   const askFor: string[] = [];
   if (missingGeometry) askFor.push(ASK_OFFSETS);
   if (rec.component === 'unknown') askFor.push(ASK_COMPONENT);
-  return { ...rec, missingGeometry, askFor };
+  return { ...rec, offsets, warnings, missingGeometry, askFor };
 }
 
 function checkFinite(value: number, field: string, what: string, limit: number, unit: string): void {

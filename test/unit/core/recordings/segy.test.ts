@@ -229,6 +229,13 @@ describe('readSegy asks for geometry it cannot find, and never guesses silently'
     expect(Array.from(rec.offsets)).toEqual([5, 10, 15]);
     expect(rec.warnings.join(' ')).toMatch(/computed from the source and receiver coordinates/);
   });
+  it('takes offsets beyond ±100 km (junk in bytes 37–40) as unknown, says so, and asks for them', () => {
+    const rec = readSegy(writeSegy(input(5), { patchTraceHeader: (k, h) => k === 1 && h.setInt32(36, 2_000_000_000) }), 'f.sgy');
+    expect(geometrySummary(rec).offsets_m).toEqual([4, null, 8]);
+    expect(rec.warnings).toContain('The offsets of trace 2 lie beyond ±100000 m; they are taken as unknown.');
+    expect(rec.missingGeometry).toBe(true);
+    expect(applyOverrides(rec, { offsets: { first: 4, spacing: 2 } }).missingGeometry).toBe(false);
+  });
   it('applies the user overrides and names what they replace', () => {
     const rec = applyOverrides(readSegy(writeSegy(input(5)), 'f.sgy'), { offsets: { first: 2, spacing: 1.5 }, delay: 0, component: 'transverse' });
     expect(geometrySummary(rec)).toMatchObject({ offsets_m: [2, 3.5, 5], delay_s: 0, component: 'transverse' });
