@@ -15,6 +15,8 @@
 import { InputError } from '../shared/errors';
 import { MAX_ABS_DELAY_S, withGeometryQuestions, type Recording } from './recording';
 
+/** Most trace columns read (common practice: a seismograph records at most a few hundred channels; keeps per-trace overhead small next to the file). */
+export const MAX_CSV_TRACES = 10_000;
 /** Relative tolerance on the even spacing of the time column (common practice: times printed to 4–6 digits). */
 const STEP_TOLERANCE = 0.01;
 
@@ -90,6 +92,9 @@ export function readCsvTraces(text: string, name: string): Recording {
   const columns = first.length;
   const traceCount = columns - 1;
   if (traceCount < 1) fail('row 1', `Row ${rows[dataStart].line} has ${columns} column; a trace file needs a time column and at least one trace column.`);
+  if (traceCount > MAX_CSV_TRACES) {
+    fail(`row ${rows[dataStart].line}`, `Row ${rows[dataStart].line} has ${traceCount} trace columns; at most ${MAX_CSV_TRACES} are read.`);
+  }
   if (offsets && offsets.length !== traceCount) {
     fail('row 1', `The header row gives ${offsets.length} offsets, but row ${rows[dataStart].line} has ${traceCount} trace columns.`);
   }

@@ -46,6 +46,10 @@ describe('readCsvTraces', () => {
     expect(rec.missingGeometry).toBe(true);
     expect(rec.warnings[0]).toMatch(/does not give the offsets as numbers/);
   });
+  it('refuses more than 10 000 trace columns (the per-trace cost would outgrow the file)', () => {
+    const text = `0${',1'.repeat(10_001)}\n1${',1'.repeat(10_001)}\n`;
+    expect(inputError(() => readCsvTraces(text, 'wide.csv')).message).toBe('Row 1 has 10001 trace columns; at most 10000 are read.');
+  });
   it('round-trips through csvOfTraces', () => {
     const rec = readCsvTraces(TEXT, 't.csv');
     const back = readCsvTraces(csvOfTraces(rec), 't.csv');

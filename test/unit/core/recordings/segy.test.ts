@@ -41,8 +41,9 @@ describe('IBM System/360 single-precision floats', () => {
 });
 
 describe('EBCDIC (code page 037)', () => {
-  it('maps the letters, digits and space of a SEG-Y card image (IBM code page 037 chart)', () => {
-    // C = 0xC3, space = 0x40, 0 = 0xF0, 9 = 0xF9, A = 0xC1, a = 0x81 (IBM code page 037 chart).
+  it('maps the letters, digits and space of a SEG-Y card image as code page 037 does', () => {
+    // C = 0xC3, space = 0x40, 0 = 0xF0, 9 = 0xF9, A = 0xC1, a = 0x81 (from memory of the code page 037 chart;
+    // test/reference/ebcdic-cp037.test.ts compares all 256 values with Python's cp037 codec).
     expect(Array.from(ebcdicFromText('C A0 9a'))).toEqual([0xc3, 0x40, 0xc1, 0xf0, 0x40, 0xf9, 0x81]);
     const all = new Uint8Array(256).map((_, i) => i);
     expect(Array.from(ebcdicFromText(textFromEbcdic(all)))).toEqual(Array.from(all));
