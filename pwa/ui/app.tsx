@@ -10,6 +10,7 @@ import { PlotPanel } from './charts/plot-panel';
 import type { AppController } from './controllers/app-controller';
 import type { AppState, ViewName } from './controllers/app-state';
 import { ImportPanel, PicksTable } from './views/picks-table';
+import { RecordingsPanel } from './views/recordings-panel';
 import { SiteDetails } from './views/site-details';
 import { SitesView } from './views/sites-view';
 import { SyncPanel } from './views/sync-panel';
@@ -292,16 +293,19 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
       ) : s.view === 'survey' && views ? (
         <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.settings.setSurveyDepth(t)} />
       ) : (
-        <SiteDetails
-          site={site}
-          drafts={s.siteDraft}
-          error={s.siteError}
-          locating={s.locating}
-          onEdit={(f, t) => c.sites.editSiteField(f, t)}
-          onCommit={(f) => void c.sites.commitSiteField(f)}
-          onLocate={() => c.sites.locate()}
-          onDelete={() => void c.sites.deleteOpenSite()}
-        />
+        <>
+          <SiteDetails
+            site={site}
+            drafts={s.siteDraft}
+            error={s.siteError}
+            locating={s.locating}
+            onEdit={(f, t) => c.sites.editSiteField(f, t)}
+            onCommit={(f) => void c.sites.commitSiteField(f)}
+            onLocate={() => c.sites.locate()}
+            onDelete={() => void c.sites.deleteOpenSite()}
+          />
+          <RecordingsPanel state={s.recordings} recordings={c.recordings} />
+        </>
       )}
     </>
   );

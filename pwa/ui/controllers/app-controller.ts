@@ -15,6 +15,7 @@ import { EstimateController, type EstimateRunner, type SliceRunner } from './est
 import { ImportController } from './import-controller';
 import { PicksController } from './picks-controller';
 import { RecordsController, type RecordsCompute } from './records-controller';
+import { RecordingsController } from './recordings-controller';
 import { SettingsController } from './settings-controller';
 import { SitesController } from './sites-controller';
 import { messageOf, StateHub } from './state-hub';
@@ -31,6 +32,8 @@ export class AppController {
   readonly picks: PicksController;
   /** CSV import into the picks table. */
   readonly imports: ImportController;
+  /** The open site's kept seismograph files and whether they travel. */
+  readonly recordings: RecordingsController;
   /** The site list, the open site, its details and the demo. */
   readonly sites: SitesController;
   /** Estimate settings, units, plot, what-if, survey depth, theme, update prompt. */
@@ -44,7 +47,8 @@ export class AppController {
     this.estimates = new EstimateController(this.hub, estimate, slice);
     this.picks = new PicksController(this.hub, this.estimates);
     this.imports = new ImportController(this.hub, this.picks, this.estimates);
-    this.sites = new SitesController(this.hub, this.picks, this.estimates);
+    this.recordings = new RecordingsController(this.hub);
+    this.sites = new SitesController(this.hub, this.picks, this.estimates, this.recordings);
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
     this.sync = new SyncController(this.hub, this.sites, this.picks);
     this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute);

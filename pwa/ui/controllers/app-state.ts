@@ -4,7 +4,7 @@
  * slices and their async work. Pure helpers here.
  */
 import type { PickCells, PickKind, PickProblem } from '../../../core/picks/picks';
-import type { AnyRecord, PickRecord, SiteRecord } from '../../../core/exchange/records';
+import type { AnyRecord, PickRecord, RecordingRecord, SiteRecord } from '../../../core/exchange/records';
 import type { SyncStatus } from '../../sync/client';
 import type { AxisQuantity } from '../charts/chart-data';
 import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
@@ -91,6 +91,17 @@ export interface SyncPanelState {
   suggestedUrl?: string;
 }
 
+/** The open site's kept seismograph files (recordings-controller.ts). */
+export interface RecordingsState {
+  /** The site the list belongs to. */
+  siteId?: string;
+  list: readonly RecordingRecord[];
+  /** A change is being saved: the buttons wait. */
+  busy: boolean;
+  /** Why the last change was refused (the list shows what is stored). */
+  error?: string;
+}
+
 export interface AppState {
   ready: boolean;
   /** A failure that stops the app (the database could not open). */
@@ -123,6 +134,7 @@ export interface AppState {
   sync: SyncPanelState;
   /** Seismograph records of the open site, the dispersion image and its ridge (records-controller.ts). */
   records: RecordsState;
+  recordings: RecordingsState;
 }
 
 /** The estimate of the open site, as the worker last answered. */
@@ -157,6 +169,7 @@ export const initialState: AppState = {
   locating: false,
   sync: { busy: false, formError: '', conflicted: [], siteNames: {} },
   records: { list: [], method: 'phase-shift', overrides: { first: '', spacing: '', delay: '' }, status: 'idle', mode: '0', removed: [] },
+  recordings: { list: [], busy: false },
 };
 
 /** Sites matching the search text (name, crew, notes, date), in the chosen order. */

@@ -12,6 +12,7 @@ import { replaceById, without, type SiteSort, type ViewName } from './app-state'
 import type { EstimateController } from './estimate-controller';
 import type { SiteTextField } from './form-text';
 import type { PicksController } from './picks-controller';
+import type { RecordingsController } from './recordings-controller';
 import { messageOf, type StateHub } from './state-hub';
 
 export class SitesController {
@@ -19,6 +20,7 @@ export class SitesController {
     private readonly hub: StateHub,
     private readonly picks: PicksController,
     private readonly estimates: EstimateController,
+    private readonly recordings: RecordingsController,
   ) {}
 
   /** Re-reads the site list (records arrived from a sync or a bundle). */
@@ -69,8 +71,10 @@ export class SitesController {
       importState: { text: '', replace: false },
       estimate: { status: 'idle' },
       whatif: undefined,
+      recordings: { siteId: id, list: [], busy: false },
     });
     void this.picks.load(id);
+    void this.recordings.load(id);
   }
 
   closeSite(): void {
