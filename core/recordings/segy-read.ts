@@ -280,8 +280,9 @@ function traceSpans(view: DataView, L: Layout): TraceSpan[] {
     if (p + TRACE_HEADER_BYTES > L.end) {
       fail(`trace ${k}`, `The file ends inside the header of trace ${k}, which starts at byte offset ${p} (${L.end - p} of ${TRACE_HEADER_BYTES} bytes present).`);
     }
-    let n = L.fixed ? L.samples : view.getUint16(p + T.samples, L.little);
-    if (n === 0) n = view.getUint16(p + T.samples, L.little);
+    // Fixed length: the binary header's count, else this trace's; variable length: this trace's, else the binary header's.
+    const own = view.getUint16(p + T.samples, L.little);
+    const n = L.fixed ? L.samples || own : own || L.samples;
     if (n === 0) {
       fail(`trace ${k}`, `Trace ${k} (byte offset ${p}) has 0 samples in both the binary header (bytes 3221–3222) and its own header (bytes 115–116).`);
     }

@@ -203,6 +203,10 @@ describe('readSegy: textual headers, revisions and trace layouts', () => {
     ]);
     expect(rec.warnings.join(' ')).toMatch(/vary from 2 to 5 samples; shorter traces are padded with zeros/);
   });
+  it('takes the binary header\'s sample count for a variable-length trace whose own count (bytes 115–116) is 0', () => {
+    const bytes = writeSegy(input(5), { variableLengths: true, patchTraceHeader: (k, h) => k === 1 && h.setUint16(114, 0) });
+    expect(readSegy(bytes, 'f.sgy').traces[1].length).toBe(17);
+  });
   it('converts feet to metres (binary header 3255–3256 = 2)', () => {
     const rec = readSegy(writeSegy(input(5), { lengthUnit: 2 }), 'f.sgy');
     expect(rec.offsets[1]).toBeCloseTo(6 * 0.3048, 12);
