@@ -78,6 +78,8 @@ export const WAVELENGTHS_MARGINAL = 2;
 export const AIRY_FACTOR = 1.25;
 /** The filter is cut where exp(−α r²) < e^−FILTER_REACH (2e-9 of its peak). */
 const FILTER_REACH = 20;
+/** Rows whose power peak is under this fraction of the strongest (amplitude 10 %) are unreliable throughout (common practice). */
+export const FAINT_ROW = 0.01;
 /** Rows weaker than this fraction of the strongest take no part in finding the Airy minimum. */
 const AIRY_MIN_STRENGTH = 0.01;
 /** The minimum counts as interior when both ends of the curve are this much faster. */
@@ -223,12 +225,17 @@ export function multipleFilterImage(gather: Gather, options: MultipleFilterOptio
   const strength = new Float64Array(rows);
   for (let i = 0; i < rows; i++) strength[i] = top > 0 ? rowPeak[i] / top : 0;
 
-  // Reliability by wavelengths travelled.
+  // Reliability by energy and by wavelengths travelled.
   const reliability = new Uint8Array(rows * cols);
   let short = false;
   let marginal = false;
   let outside = false;
+  let faint = false;
   for (let i = 0; i < rows; i++) {
+    if (strength[i] < FAINT_ROW) {
+      faint = true; // every cell stays UNRELIABLE (0)
+      continue;
+    }
     for (let c = 0; c < cols; c++) {
       const j = i * cols + c;
       const t = distance / velocities[c];
@@ -254,6 +261,7 @@ export function multipleFilterImage(gather: Gather, options: MultipleFilterOptio
   const x = Math.round(distance * 100) / 100;
   if (short) notes.push(`Where the ${x} m travel is under ${WAVELENGTHS_MARGINAL} wavelengths, group velocities are unreliable.`);
   if (marginal) notes.push(`Where the ${x} m travel is ${WAVELENGTHS_MARGINAL}–${WAVELENGTHS_RELIABLE} wavelengths, group velocities are marginal.`);
+  if (faint) notes.push(`Frequencies whose envelope peak is under ${Math.sqrt(FAINT_ROW) * 100} % of the record's strongest carry too little energy: unreliable.`);
   if (outside) notes.push('Velocities whose arrival time falls outside the record are unreliable (no samples there).');
 
   const airy = airyMinimum(frequencies, velocities, power, strength, inst, reliability);

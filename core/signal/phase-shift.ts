@@ -21,7 +21,8 @@
  * the image reports the line's own frequency, so every row's phase is
  * exact at its stated frequency.
  *
- * Reliability (shared/PHYSICS.md §10): a wavelength λ = c/f under two
+ * Reliability (shared/PHYSICS.md §10): a row whose peak coherence is no
+ * more than noise gives (incoherentBelow) is UNRELIABLE throughout; a wavelength λ = c/f under two
  * receiver spacings is spatially aliased (UNRELIABLE); λ over twice the
  * spread length cannot be resolved by the spread (UNRELIABLE); λ between
  * one and two spread lengths is MARGINAL (within about 5 %, common
@@ -167,7 +168,13 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
   let aliased = false;
   let long = false;
   let marginal = false;
+  let incoherent = false;
+  const floor = incoherentBelow(traces, cols);
   for (let i = 0; i < rows; i++) {
+    if (strength[i] < floor) {
+      incoherent = true; // every cell stays UNRELIABLE (0)
+      continue;
+    }
     for (let c = 0; c < cols; c++) {
       const lambda = velocities[c] / frequencies[i];
       let level = RELIABLE;
@@ -189,6 +196,9 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
   const dx = round(spread.spacing);
   if (aliased) notes.push(`Wavelengths under two receiver spacings (2 × ${dx} m) are spatially aliased: unreliable.`);
   if (long) notes.push(`Wavelengths over twice the spread length (2 × ${L} m) cannot be resolved by the spread: unreliable.`);
+  if (incoherent) {
+    notes.push(`Frequencies where the traces hardly agree (coherence under ${floor.toFixed(2)}; noise gives about ${(1 / traces).toFixed(2)}) are unreliable.`);
+  }
   if (marginal) notes.push(`Wavelengths between one and two spread lengths (${L}–${round(2 * spread.length)} m) are marginal (within about 5 %, common practice).`);
 
   return {
@@ -203,6 +213,19 @@ export function phaseShiftImage(gather: Gather, options: PhaseShiftOptions = {})
     resolution: { recordSeconds: n * dt, sampleInterval: dt, spread: spread.length, distance: 0, traces },
     ...(gather.name !== undefined ? { name: gather.name } : {}),
   };
+}
+
+/**
+ * The peak coherence under which a row of `columns` velocities over
+ * `traces` traces is taken for noise. For noise the unit spectra are random
+ * phasors, so N·|V|²/N² at one velocity is exponential with mean 1, and the
+ * largest of M such values exceeds ln M + 5 with probability about e⁻⁵
+ * (0.7 %; the Gumbel limit of the maximum, derived; neighbouring
+ * velocities are correlated, which only makes it rarer). The floor is
+ * (ln M + 5)/N, at most 0.5 (this tool's choice).
+ */
+export function incoherentBelow(traces: number, columns: number): number {
+  return Math.min(0.5, (Math.log(columns) + 5) / traces);
 }
 
 function round(x: number): number {

@@ -20,7 +20,7 @@ import { describe, expect, it } from 'vitest';
 import { loveCurves } from '../../core/dispersion/curve';
 import { loveVelocities } from '../../core/dispersion/love-layer';
 import { linearAxis, UNRELIABLE } from '../../core/signal/image';
-import { AIRY_FACTOR, multipleFilterImage } from '../../core/signal/multiple-filter';
+import { AIRY_FACTOR, FAINT_ROW, multipleFilterImage } from '../../core/signal/multiple-filter';
 import { followRidge, strongestRidgeSeed } from '../../core/signal/ridge';
 import { INVENTED_SOFT_SITE } from '../fixtures';
 import { syntheticLoveGather } from '../../core/signal/synthetic-love';
@@ -112,6 +112,18 @@ describe('multiple-filter ridge on a synthetic Love-wave trace (modal solution o
         }
       }
     }
+  });
+
+  it('marks rows with too little energy (under 10 % of the strongest envelope) as unreliable throughout', () => {
+    const cols = img.velocities.length;
+    let faint = 0;
+    for (let i = 0; i < img.frequencies.length; i++) {
+      if (img.strength[i] >= FAINT_ROW) continue;
+      faint++;
+      for (let c = 0; c < cols; c++) expect(img.reliability[i * cols + c]).toBe(UNRELIABLE);
+    }
+    // The 12 Hz source has little energy near 2 Hz and 60 Hz.
+    expect(faint).toBeGreaterThan(0);
   });
 
   it('marks travel under 2 wavelengths as unreliable', () => {

@@ -20,8 +20,9 @@
 import { describe, expect, it } from 'vitest';
 import { loveVelocities } from '../../core/dispersion/love-layer';
 import { linearAxis, MARGINAL, RELIABLE, UNRELIABLE } from '../../core/signal/image';
-import { phaseShiftImage } from '../../core/signal/phase-shift';
+import { incoherentBelow, phaseShiftImage } from '../../core/signal/phase-shift';
 import { followRidge, strongestRidgeSeed } from '../../core/signal/ridge';
+import { gaussian, mulberry32 } from '../../core/shared/random';
 import { INVENTED_SOFT_SITE } from '../fixtures';
 import { SOFT_GATHER, softSiteGather } from '../signal-fixtures';
 
@@ -116,12 +117,14 @@ describe('phase-shift ridge on a synthetic Love-wave gather (modal solution of c
     expect(checked).toBeGreaterThan(60);
   });
 
-  it('marks aliased, marginal and too-long wavelengths by the spread and spacing', () => {
+  it('marks aliased, marginal and too-long wavelengths by the spread and spacing, and rows of noise', () => {
     const cols = img.velocities.length;
+    const floor = incoherentBelow(SOFT_GATHER.traces, img.velocities.length);
     for (let i = 0; i < img.frequencies.length; i += 7) {
       for (let c = 0; c < cols; c += 13) {
         const lambda = img.velocities[c] / img.frequencies[i];
-        const want = lambda < 2 * SOFT_GATHER.spacing || lambda > 2 * spread ? UNRELIABLE : lambda > spread ? MARGINAL : RELIABLE;
+        const want =
+          img.strength[i] < floor || lambda < 2 * SOFT_GATHER.spacing || lambda > 2 * spread ? UNRELIABLE : lambda > spread ? MARGINAL : RELIABLE;
         expect(img.reliability[i * cols + c]).toBe(want);
       }
     }
@@ -139,5 +142,19 @@ describe('phase-shift ridge on a synthetic Love-wave gather (modal solution of c
       }
       if (m !== 1 || low < 0) throw new Error(`row ${i}: power from ${low} to ${m}, expected 0 to exactly 1`);
     }
+  });
+});
+
+describe('phase-shift image of noise alone', () => {
+  it('marks every row unreliable: random unit spectra agree only by chance (coherence near 1/N)', () => {
+    // Seeded noise; the floor (ln M + 5)/N is passed by a noise row with probability about 0.7 % (derived in phase-shift.ts).
+    const rand = mulberry32(77);
+    const traces = Array.from({ length: 24 }, () => Float64Array.from({ length: 512 }, () => gaussian(rand)));
+    const img = phaseShiftImage(
+      { traces, offsets: traces.map((_, j) => 10 + 2 * j), sampleInterval: 0.001, startTime: 0 },
+      { frequencies: linearAxis(5, 60, 23, 'frequency', 'Hz'), velocities: linearAxis(100, 700, 61, 'velocity', 'm/s') },
+    );
+    expect(img.reliability.every((r) => r === UNRELIABLE)).toBe(true);
+    expect(img.notes.some((n) => n.includes('hardly agree'))).toBe(true);
   });
 });

@@ -13,10 +13,16 @@
  *   rules together with the site's picks, saves them in one transaction
  *   like typed picks, and undo takes the whole addition back.
  *
- * Records are kept for this session only (in memory): the store has no
- * place for recordings yet.
+ * A file read without error is saved with its site in the on-device store
+ * (saveRecording: raw bytes and the geometry read; the store checks the
+ * free space first and refuses with a sentence when the device is full;
+ * the record then stays open for this session only, and the crew is told).
+ * Opening a site lists its stored records; their bytes are read from the
+ * store when one is opened. The invented demo record is made on the fly
+ * and never stored. Geometry typed over a stored file is used for this
+ * session (the store keeps the geometry of the first reading).
  */
-import type { GeometryOverrides, Recording } from '../../../core/recordings/recording';
+import { geometrySummary, type GeometryOverrides, type Recording } from '../../../core/recordings/recording';
 import { checkPickSet, type Pick } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { gatherOfRecording } from '../../../core/signal/gather';
@@ -33,8 +39,10 @@ export interface SessionRecord {
   id: string;
   siteId: string;
   name: string;
-  /** The file's bytes (null for the invented demo record). */
-  bytes: Uint8Array | null;
+  /** The file's bytes: null for the invented demo record; undefined for a stored record not read from the store yet. */
+  bytes: Uint8Array | null | undefined;
+  /** Kept in the on-device store (false: this session only). */
+  stored: boolean;
   /** The record as read with the current overrides; undefined while geometry is missing. */
   recording?: Recording;
   /** Why the record cannot be imaged yet (missing geometry), in the reader's words. */
@@ -64,6 +72,8 @@ export interface RecordsState {
   mode: string;
   /** Where the ridge stopped and why, in words. */
   ridgeNote?: string;
+  /** The site whose stored records are listed. */
+  loadedSiteId?: string;
 }
 
 const STOP_WORDS: Record<Ridge['stops']['low'], string> = {
@@ -118,20 +128,63 @@ export class RecordsController {
       this.set({ status: 'error', error: `The file ${file.name} could not be read: ${messageOf(e)}` });
       return;
     }
-    await this.add({ id: `rec-${++seq}`, siteId: site.id, name: file.name, bytes, askFor: [], warnings: [], invented: false });
+    await this.add({ id: `rec-${++seq}`, siteId: site.id, name: file.name, bytes, stored: false, askFor: [], warnings: [], invented: false }, true);
+  }
+
+  /** Lists the site's stored records (once per opened site). */
+  async loadStored(siteId: string): Promise<void> {
+    const store = this.hub.store;
+    if (!store || this.s.loadedSiteId === siteId) return;
+    this.set({ loadedSiteId: siteId, list: this.s.list.filter((r) => r.siteId === siteId) });
+    try {
+      const stored = await store.listRecordings(siteId);
+      const known = new Set(this.s.list.map((r) => r.id));
+      const more: SessionRecord[] = stored
+        .filter((r) => !known.has(r.id))
+        .map((r) => ({ id: r.id, siteId, name: r.name, bytes: undefined, stored: true, askFor: [], warnings: [], invented: false }));
+      if (more.length > 0) this.set({ list: [...this.s.list, ...more] });
+    } catch (e) {
+      this.set({ error: `The site's records could not be listed: ${messageOf(e)}` });
+    }
+  }
+
+  /** Deletes the open record (from the store too, when it is kept there). */
+  async remove(): Promise<void> {
+    const rec = this.open();
+    if (!rec) return;
+    if (rec.stored && this.hub.store) {
+      try {
+        await this.hub.store.deleteRecording(rec.id);
+      } catch (e) {
+        this.set({ error: `${rec.name} was not removed: ${messageOf(e)}` });
+        return;
+      }
+    }
+    this.latest.cancel();
+    this.set({ list: this.s.list.filter((r) => r.id !== rec.id), openId: undefined, image: undefined, ridge: undefined, range: undefined, removed: [], ridgeNote: undefined, status: 'idle', error: undefined });
   }
 
   /** Opens the invented demo record (synthetic, marked invented). */
   async loadDemo(): Promise<void> {
     const site = this.hub.openSite();
     if (!site) return;
-    await this.add({ id: `rec-${++seq}`, siteId: site.id, name: 'invented demo record', bytes: null, askFor: [], warnings: [], invented: true });
+    await this.add({ id: `rec-${++seq}`, siteId: site.id, name: 'invented demo record', bytes: null, stored: false, askFor: [], warnings: [], invented: true }, false);
   }
 
-  private async add(rec: SessionRecord): Promise<void> {
+  private async add(rec: SessionRecord, keep: boolean): Promise<void> {
     this.set({ status: 'reading', error: undefined, overrides: { first: '', spacing: '', delay: '' } });
-    const read = await this.read(rec, {});
-    if (!read) return;
+    const result = await this.readFull(rec, {});
+    if (!result) return;
+    let read = result.rec;
+    const store = this.hub.store;
+    if (keep && store && rec.bytes) {
+      try {
+        const saved = await store.saveRecording({ siteId: rec.siteId, name: rec.name, bytes: rec.bytes, geometry: geometrySummary(result.recording) });
+        read = { ...read, id: saved.id, stored: true };
+      } catch (e) {
+        this.hub.notify('error', `${rec.name} was not saved on this device: ${messageOf(e)} It stays open for this session only.`);
+      }
+    }
     const list = [...this.s.list.filter((r) => r.siteId === rec.siteId), read];
     this.set({ list, openId: read.id, method: read.recording && read.recording.traces.length === 1 ? 'multiple-filter' : 'phase-shift', trace: undefined });
     await this.makeImage();
@@ -139,14 +192,35 @@ export class RecordsController {
 
   /** Reads (or re-reads with overrides) a record in the worker; a bad file leaves the list as it was. */
   private async read(rec: SessionRecord, overrides: GeometryOverrides): Promise<SessionRecord | undefined> {
+    return (await this.readFull(rec, overrides))?.rec;
+  }
+
+  private async readFull(rec: SessionRecord, overrides: GeometryOverrides): Promise<{ rec: SessionRecord; recording: Recording } | undefined> {
+    let bytes = rec.bytes;
+    if (bytes === undefined) {
+      try {
+        bytes = await this.hub.store?.recordingBytes(rec.id);
+      } catch (e) {
+        this.set({ status: 'error', error: `${rec.name} could not be read from this device: ${messageOf(e)}` });
+        return undefined;
+      }
+      if (!bytes) {
+        this.set({ status: 'error', error: `This device does not hold the file of ${rec.name} (only its description came here).` });
+        return undefined;
+      }
+      rec = { ...rec, bytes };
+    }
     try {
-      const recording = await this.compute.read(rec.bytes, rec.name, overrides, this.latest.next());
+      const recording = await this.compute.read(bytes, rec.name, overrides, this.latest.next());
       return {
-        ...rec,
-        name: recording.name,
-        recording: recording.missingGeometry ? undefined : recording,
-        askFor: recording.askFor,
-        warnings: recording.warnings,
+        rec: {
+          ...rec,
+          name: rec.invented ? recording.name : rec.name,
+          recording: recording.missingGeometry ? undefined : recording,
+          askFor: recording.askFor,
+          warnings: recording.warnings,
+        },
+        recording,
       };
     } catch (e) {
       if (isAbortError(e)) return undefined;
@@ -157,8 +231,15 @@ export class RecordsController {
 
   /** Opens another record of the session. */
   async select(id: string): Promise<void> {
-    const rec = this.s.list.find((r) => r.id === id);
+    let rec = this.s.list.find((r) => r.id === id);
     if (!rec) return;
+    if (rec.bytes === undefined) {
+      this.set({ openId: id, status: 'reading', error: undefined, image: undefined, ridge: undefined });
+      const read = await this.read(rec, {});
+      if (!read) return;
+      this.set({ list: this.s.list.map((r) => (r.id === id ? read : r)) });
+      rec = read;
+    }
     this.set({ openId: id, image: undefined, ridge: undefined, range: undefined, removed: [], trace: undefined, method: rec.recording?.traces.length === 1 ? 'multiple-filter' : 'phase-shift' });
     await this.makeImage();
   }

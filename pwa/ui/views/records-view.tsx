@@ -4,6 +4,7 @@
  * the dispersion image with the site's picks and best-fit curves over it,
  * the followed ridge's points (trim, delete, mode) and "Add to picks".
  */
+import { useEffect } from 'preact/hooks';
 import { CAUTION } from '../../../core/shared/caution';
 import { MARGINAL } from '../../../core/signal/image';
 import type { LayeredModel } from '../../../core/dispersion/model';
@@ -36,6 +37,9 @@ export function RecordsView(p: RecordsViewProps) {
   const range = s.range;
   const busy = s.status === 'reading' || s.status === 'imaging' || s.status === 'following';
   const result = p.estimate.result;
+  useEffect(() => {
+    void p.records.loadStored(p.siteId);
+  }, [p.siteId]);
   return (
     <section class="panel records" aria-labelledby="records-h">
       <div class="panel-head">
@@ -43,7 +47,7 @@ export function RecordsView(p: RecordsViewProps) {
       </div>
       <p class="hint">
         Read a SEG-Y, SEG-2 or CSV-traces file from this device, see its dispersion image, tap a bright ridge, and add its points to the picks.
-        Records stay on this device for this session only; the picks you add are saved with the site.
+        Files are kept with the site on this device; geometry you type is used for this session.
       </p>
       <div class="record-actions">
         <label class="file-pick">
@@ -63,7 +67,7 @@ export function RecordsView(p: RecordsViewProps) {
           Try the invented demo record
         </button>
       </div>
-      {list.length > 1 ? (
+      {list.length > 1 || (list.length === 1 && list[0].id !== s.openId) ? (
         <div class="seg" role="group" aria-label="Records of this site">
           {list.map((r) => (
             <button type="button" key={r.id} aria-pressed={r.id === s.openId} onClick={() => void p.records.select(r.id)}>
@@ -88,6 +92,12 @@ export function RecordsView(p: RecordsViewProps) {
             {rec.name}
             {rec.invented ? <span class="invented-tag"> INVENTED (synthetic demo, not a real survey)</span> : null}
           </h3>
+          <p class="hint">
+            {rec.invented ? 'Made on this device for trying the app; not stored.' : rec.stored ? 'Kept with this site on this device.' : 'Open for this session only (not saved on this device).'}{' '}
+            <button type="button" onClick={() => void p.records.remove()}>
+              Remove this record
+            </button>
+          </p>
           {g ? (
             <table class="geometry">
               <caption>Geometry as read{s.overrides.first || s.overrides.delay ? ' with your values' : ''}</caption>

@@ -119,6 +119,23 @@ describe('records controller', () => {
     expect(await store.listPicks(c.current.openSiteId!)).toHaveLength(before);
   });
 
+  it('keeps an imported file with its site, lists it again when the site reopens, reads its bytes back, and removes it', async () => {
+    const c = await started();
+    await c.records.importFile(file(segy, 'kept.sgy'));
+    const siteId = c.current.openSiteId!;
+    const kept = await store.listRecordings(siteId);
+    expect(kept.map((r) => r.name)).toEqual(['kept.sgy']);
+    expect(kept[0].geometry.traces).toBe(24);
+    c.records.reset();
+    await c.records.loadStored(siteId);
+    expect(c.current.records.list.map((r) => [r.name, r.stored, r.bytes])).toEqual([['kept.sgy', true, undefined]]);
+    await c.records.select(kept[0].id);
+    expect(c.current.records.image?.method).toBe('phase-shift');
+    await c.records.remove();
+    expect(await store.listRecordings(siteId)).toEqual([]);
+    expect(c.current.records.list).toEqual([]);
+  });
+
   it('opens the invented demo record, marked invented', async () => {
     const c = await started();
     await c.records.loadDemo();
