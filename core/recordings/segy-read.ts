@@ -13,8 +13,9 @@
  *   3513 trace count, 3521 byte offset of the first trace, 3529 trailers.
  * - Byte order: the 0x01020304 integer when present, else the format code
  *   (bytes 3225–3226), which reads as 1–16 in one order only.
- * - Traces: 240-byte header (plus the rev 2 additional headers, skipped),
- *   then the samples. With the fixed-length flag 0 each trace's own sample
+ * - Traces: 240-byte header (plus the rev 2 additional headers, skipped
+ *   but for the sample count of extension 1, bytes 137–140, read when
+ *   bytes 115–116 hold 0), then the samples. With the fixed-length flag 0 each trace's own sample
  *   count (115–116) sets its length; shorter traces are padded with zeros to
  *   the longest (said in a warning).
  * - Trace header: 29–30 trace id (12/15 vertical, 13 crossline, 14 inline,
@@ -50,6 +51,9 @@ const MAX_PAD_FACTOR = 16;
 const MAX_EXTRA_HEADERS = 1000;
 const FEET = 0.3048;
 const ALLOWED_SCALARS = new Set([0, 1, 10, 100, 1000, 10000, -1, -10, -100, -1000, -10000]);
+
+/** Rev 2 trace header extension 1, bytes 137–140: the trace's number of samples (uint32), as an offset within that header (SEG-Y_r2.0 Table 4, from memory: verify). */
+export const EXT1_SAMPLES = 136;
 
 /** Binary-header field positions as offsets from the file's start (standard byte number − 1). */
 const B = {
@@ -281,7 +285,9 @@ function traceSpans(view: DataView, L: Layout): TraceSpan[] {
       fail(`trace ${k}`, `The file ends inside the header of trace ${k}, which starts at byte offset ${p} (${L.end - p} of ${TRACE_HEADER_BYTES} bytes present).`);
     }
     // Fixed length: the binary header's count, else this trace's; variable length: this trace's, else the binary header's.
-    const own = view.getUint16(p + T.samples, L.little);
+    let own = view.getUint16(p + T.samples, L.little);
+    // Rev 2: a trace longer than 65535 samples gives its count in bytes 137–140 of trace header extension 1.
+    if (own === 0 && L.extraHeaders > 0 && p + 2 * TRACE_HEADER_BYTES <= L.end) own = view.getUint32(p + TRACE_HEADER_BYTES + EXT1_SAMPLES, L.little);
     const n = L.fixed ? L.samples || own : own || L.samples;
     if (n === 0) {
       fail(`trace ${k}`, `Trace ${k} (byte offset ${p}) has 0 samples in both the binary header (bytes 3221–3222) and its own header (bytes 115–116).`);

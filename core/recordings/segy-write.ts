@@ -16,6 +16,7 @@ import { encodeSamples, integerRange, SEGY_FORMATS, type SegyFormatCode } from '
 import {
   BYTE_ORDER_MARK,
   END_TEXT_STANZA,
+  EXT1_SAMPLES,
   FIRST_TRACE_BYTE,
   TEXT_HEADER_BYTES,
   TRACE_HEADER_BYTES,
@@ -221,6 +222,11 @@ export function writeSegy(input: SegyInput, options: SegyWriteOptions = {}): Uin
     view.setUint16(p + 114, t.length <= 0xffff ? t.length : 0, little);
     view.setUint16(p + 116, usWord, little);
     if (revision >= 1) view.setInt16(p + 214, timeScalar, little);
+    if (extraTraceHeaders > 0) {
+      // Trace header extension 1: the sample count (bytes 137–140) and the header name (233–240).
+      view.setUint32(p + TRACE_HEADER_BYTES + EXT1_SAMPLES, t.length, little);
+      bytes.set(asciiFromText('SEG00001'), p + TRACE_HEADER_BYTES + 232);
+    }
     options.patchTraceHeader?.(k, new DataView(bytes.buffer, p, TRACE_HEADER_BYTES));
     encodeSamples(view, p + headerBytes, format, little, t);
     p += headerBytes + t.length * size;

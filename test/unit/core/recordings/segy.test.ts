@@ -207,6 +207,14 @@ describe('readSegy: textual headers, revisions and trace layouts', () => {
     const bytes = writeSegy(input(5), { variableLengths: true, patchTraceHeader: (k, h) => k === 1 && h.setUint16(114, 0) });
     expect(readSegy(bytes, 'f.sgy').traces[1].length).toBe(17);
   });
+  it('reads a rev 2 variable-length trace of more than 65535 samples from trace header extension 1 (bytes 137–140)', () => {
+    const long = Array.from({ length: 70_000 }, (_, i) => i % 251);
+    const bytes = writeSegy({ sampleInterval: 0.001, delay: 0, traces: [long, [1, 2, 3]] }, { revision: 2, format: 16, variableLengths: true, extraTraceHeaders: 1 });
+    const rec = readSegy(bytes, 'f.sgy');
+    expect(rec.samples).toBe(70_000);
+    expect(rec.traces[0][69_999]).toBe(69_999 % 251);
+    expect(Array.from(rec.traces[1].subarray(0, 4))).toEqual([1, 2, 3, 0]);
+  });
   it('converts feet to metres (binary header 3255–3256 = 2)', () => {
     const rec = readSegy(writeSegy(input(5), { lengthUnit: 2 }), 'f.sgy');
     expect(rec.offsets[1]).toBeCloseTo(6 * 0.3048, 12);
