@@ -13,6 +13,7 @@ import './ui/styles/layout.css';
 import './ui/styles/tables.css';
 import './ui/styles/charts.css';
 import './ui/styles/messages.css';
+import './ui/styles/answer.css';
 
 const controller = new AppController();
 const root = document.getElementById('app');

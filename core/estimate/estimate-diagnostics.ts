@@ -134,7 +134,8 @@ function airyMinimum(m: TwoLayer, mode: number): number {
 export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   const { problem: P, model: m, pickFit, chi2, dof } = input;
   const ranked: Array<{ rank: number; text: string }> = [];
-  const say = (rank: number, text: string) => void ranked.push({ rank, text });
+  // Every sentence starts with a capital, whatever the pick labels look like ("pick 6 …" → "Pick 6 …").
+  const say = (rank: number, text: string) => void ranked.push({ rank, text: text.charAt(0).toUpperCase() + text.slice(1) });
 
   // χ²/dof.
   let fit: EstimateDiagnostics['fit'];

@@ -14,6 +14,7 @@ import { RecordingsPanel } from './views/recordings-panel';
 import { SiteDetails } from './views/site-details';
 import { SitesView } from './views/sites-view';
 import { SyncPanel } from './views/sync-panel';
+import { bestFitCaption } from './views/verdict-text';
 
 type WorkViews = typeof import('./views/work-views');
 let workViews: Promise<WorkViews> | undefined;
@@ -46,14 +47,15 @@ function useAppState(c: AppController): AppState {
   return s;
 }
 
-const VIEWS: { id: ViewName; label: string }[] = [
-  { id: 'picks', label: 'Picks & plot' },
-  { id: 'records', label: 'Records' },
-  { id: 'estimate', label: 'Estimate' },
-  { id: 'figures', label: 'Site figures' },
-  { id: 'whatif', label: 'What-if' },
-  { id: 'survey', label: 'Survey plan' },
-  { id: 'details', label: 'Site details' },
+/** Each view's name, and the short word the phone's one row of tabs shows. */
+const VIEWS: { id: ViewName; label: string; short: string }[] = [
+  { id: 'picks', label: 'Picks & plot', short: 'Picks' },
+  { id: 'records', label: 'Records', short: 'Records' },
+  { id: 'estimate', label: 'Estimate', short: 'Result' },
+  { id: 'figures', label: 'Site figures', short: 'Figures' },
+  { id: 'whatif', label: 'What-if', short: 'What-if' },
+  { id: 'survey', label: 'Survey plan', short: 'Plan' },
+  { id: 'details', label: 'Site details', short: 'Details' },
 ];
 
 function Mark() {
@@ -87,15 +89,24 @@ export function App({ controller: c }: AppProps) {
           <span>Shearfield</span>
         </div>
         <span class={`net ${s.online ? 'on' : 'off'}`} role="status">
-          {s.online ? 'Online' : 'Offline: all work is kept on this device'}
+          {s.online ? (
+            'Online'
+          ) : (
+            <>
+              <span class="long-label">Offline: all work is kept on this device</span>
+              <span class="short-label">Offline: kept here</span>
+            </>
+          )}
         </span>
         <button
           type="button"
           class="theme"
+          aria-label="Sunlight contrast"
           aria-pressed={s.theme === 'sun'}
           onClick={() => void c.settings.setTheme(s.theme === 'sun' ? 'standard' : 'sun')}
         >
-          Sunlight contrast
+          <span class="long-label">Sunlight contrast</span>
+          <span class="short-label">Sunlight</span>
         </button>
       </header>
 
@@ -144,16 +155,17 @@ export function App({ controller: c }: AppProps) {
             <h1 class="page-title">Field sites</h1>
             <SitesView
               sites={s.sites}
+              facts={s.siteFacts}
               query={s.siteQuery}
               sort={s.siteSort}
               error={s.siteError}
               onQuery={(q) => c.sites.setSiteQuery(q)}
               onSort={(x) => c.sites.setSiteSort(x)}
               onCreate={(name) => c.sites.createSite(name)}
-              onOpen={(id) => c.sites.openSite(id)}
+              onOpen={(id, view) => c.sites.openSite(id, view)}
               onDemo={() => void c.sites.loadDemo()}
             />
-            <SyncPanel state={s.sync} sync={c.sync} />
+            <SyncPanel state={s.sync} sync={c.sync} online={s.online} />
           </>
         )}
       </main>
@@ -188,13 +200,14 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
     s.estimate.status === 'running'
       ? 'Best-fit curves: computing…'
       : s.estimate.result
-        ? `Best fit: H = ${Number(s.estimate.result.thickness.best.toPrecision(3))} m. ${CAUTION}`
+        ? `${bestFitCaption(s.estimate.result.thickness, s.estimate.result.verdict)} ${CAUTION}`
         : 'Best-fit curves appear once the estimate is ready.';
   return (
     <>
       <div class="site-head">
-        <button type="button" onClick={() => c.sites.closeSite()}>
-          ← All sites
+        <button type="button" aria-label="← All sites" onClick={() => c.sites.closeSite()}>
+          <span class="long-label">← All sites</span>
+          <span class="short-label">← Sites</span>
         </button>
         <h1 class="page-title">{site.name || '(unnamed site)'}</h1>
       </div>
@@ -203,10 +216,12 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           <button
             type="button"
             key={v.id}
+            aria-label={v.label}
             aria-current={s.view === v.id ? 'page' : undefined}
             onClick={() => c.sites.setView(v.id)}
           >
-            {v.label}
+            <span class="long-label">{v.label}</span>
+            <span class="short-label">{v.short}</span>
           </button>
         ))}
       </nav>
@@ -221,7 +236,8 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
               undo={s.undo}
               onEdit={(r, col, t) => c.picks.editCell(r, col, t)}
               onCommit={(r, force) => void c.picks.commitRow(r, force)}
-              onKind={(r, k) => void c.picks.setKind(r, k)}
+              onKind={(r, k, m) => void c.picks.setKind(r, k, m)}
+              onSort={() => void c.picks.sortByFrequency()}
               onDelete={(id) => void c.picks.deletePick(id)}
               onDiscard={(r) => c.picks.discardDraft(r)}
               onSelect={(id) => c.picks.selectPick(id)}
@@ -263,6 +279,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           onCommit={(k) => void c.settings.commitSetting(k)}
           onKnown={(w, known, sug) => void c.settings.setKnown(w, known, sug)}
           onRun={() => void c.estimates.estimateNow()}
+          onSurvey={() => c.sites.setView('survey')}
         />
       ) : s.view === 'records' && views ? (
         <views.RecordsView
@@ -277,7 +294,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           onPlot={(p) => c.settings.setPlot(p)}
         />
       ) : s.view === 'figures' && views ? (
-        <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} />
+        <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} onSurvey={() => c.sites.setView('survey')} />
       ) : s.view === 'whatif' && views ? (
         <views.WhatIfView
           model={s.whatif}

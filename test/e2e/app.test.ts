@@ -7,8 +7,8 @@
  *  3. create a site and type picks into the table;
  *  4. get an estimate whose thickness matches core/estimate/estimate.ts run here on
  *     the same picks;
- *  5. go offline and reload: served by the service worker, every site and
- *     pick still there;
+ *  5. go offline and reload: served by the service worker, back at the site
+ *     and view that were open, every site and pick still there;
  *  6. edit offline, reload again: nothing lost;
  *  7. import a malformed CSV: a clear error naming the row and column, and
  *     nothing changes;
@@ -84,6 +84,13 @@ async function pickCount(): Promise<number> {
 async function expectPickCount(n: number): Promise<void> {
   await page.getByRole('heading', { name: `Picks (${n})`, exact: true }).waitFor({ timeout: 10_000 });
 }
+/** A reload returns to the open site and view; this goes back to the list. */
+async function toSiteList(): Promise<void> {
+  const back = page.getByRole('button', { name: '← All sites' });
+  await page.locator('.site-head, #site-list-h').first().waitFor();
+  if (await back.count()) await back.click();
+  await page.getByRole('heading', { name: /^Sites \(\d+\)$/ }).waitFor();
+}
 async function openSite(name: string): Promise<void> {
   await page.getByRole('button', { name: new RegExp(`^${name.replace(/[()]/g, '\\$&')}`) }).click();
 }
@@ -139,9 +146,9 @@ describe('the field app in Chromium', () => {
       await page.getByLabel('New pick, standard deviation (m/s)').press('Enter');
       await expectPickCount(i + 1);
     }
-    // Enter left the cursor in the new row, ready for the next pick
+    // Enter left the cursor in the first cell of the fresh row, ready for the next pick
     const focused = await page.evaluate(() => document.activeElement?.getAttribute('aria-label'));
-    expect(focused).toBe('New pick, standard deviation (m/s)');
+    expect(focused).toBe('New pick, frequency (Hz)');
     expect(await cellValue(3, 'velocity (m/s)')).toBe(String(TYPED[2].velocity));
   });
 
@@ -164,6 +171,10 @@ describe('the field app in Chromium', () => {
     await setOffline(app.browser.context, true);
     const res = await reload(page);
     expect(res.fromServiceWorker()).toBe(true);
+    // Back where the crew was: the estimate of the typed site.
+    await page.getByRole('heading', { name: SITE }).waitFor();
+    expect(await page.getByRole('button', { name: 'Estimate', exact: true }).getAttribute('aria-current')).toBe('page');
+    await toSiteList();
     await page.getByRole('heading', { name: 'Sites (2)' }).waitFor();
     await openSite(SITE);
     await expectPickCount(TYPED.length);
@@ -188,6 +199,7 @@ describe('the field app in Chromium', () => {
     await expectPickCount(TYPED.length + 1);
     const res = await reload(page);
     expect(res.fromServiceWorker()).toBe(true);
+    await toSiteList();
     await openSite(SITE);
     await expectPickCount(TYPED.length + 1);
     expect(await cellValue(2, 'velocity (m/s)')).toBe('333.3');
@@ -229,6 +241,7 @@ describe('the field app in Chromium', () => {
     expect(await pickCount()).toBe(before);
     // still nothing after a reload: the store was not touched
     await reload(page);
+    await toSiteList();
     await openSite(SITE);
     await expectPickCount(before);
   });
@@ -245,6 +258,7 @@ describe('the field app in Chromium', () => {
     await page.getByRole('button', { name: "Use this device's position" }).click();
     await page.getByText('Stored: 47.123456°, 8.654321° (from the device, ±12 m).').waitFor();
     await reload(page);
+    await toSiteList();
     const card = page.locator('.site-card', { hasText: SITE });
     await card.waitFor();
     expect(await card.locator('.site-notes').textContent()).toBe(hostile);

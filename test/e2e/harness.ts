@@ -144,6 +144,8 @@ export interface LaunchOptions {
   userDataDir?: string;
   /** Keep the profile folder on close (to launch again on it). @default false */
   keepProfile?: boolean;
+  /** Phone emulation: touch, device scale 2, mobile viewport rules. @default false */
+  mobile?: boolean;
 }
 
 /** Launches headless Chromium in a fresh (or the given) persistent profile. */
@@ -159,6 +161,7 @@ export async function launchBrowser(
     args: CHROMIUM_ARGS,
     viewport,
     serviceWorkers: 'allow',
+    ...(options.mobile ? { isMobile: true, hasTouch: true, deviceScaleFactor: 2 } : {}),
   });
   let closed = false;
   return {
@@ -220,11 +223,11 @@ export interface AppSession {
 }
 
 /** Starts the server and a browser, and opens the app. */
-export async function openApp(viewport?: { width: number; height: number }): Promise<AppSession> {
+export async function openApp(viewport?: { width: number; height: number }, options: LaunchOptions = {}): Promise<AppSession> {
   const server = await startPreview();
   let browser: BrowserSession | undefined;
   try {
-    browser = await launchBrowser(viewport);
+    browser = await launchBrowser(viewport, options);
     const page = browser.context.pages()[0] ?? (await browser.context.newPage());
     const response = await page.goto(server.url, { waitUntil: 'load' });
     if (!response) throw new Error(`Opening ${server.url} produced no response.`);

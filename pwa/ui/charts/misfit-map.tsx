@@ -50,7 +50,11 @@ export function MisfitMapView(props: MisfitMapProps) {
   }, [props.map, props.slice, props.theme, props.bestThickness, props.bestSpeed, props.box]);
 
   const corr = Number.isFinite(props.correlation)
-    ? ` The H–β1 correlation at the best fit is ${num(props.correlation, 2)}${Math.abs(props.correlation) > 0.8 ? ': a strong trade-off, where a thicker layer with a faster β1 fits almost as well' : ''}.`
+    ? ` The H–β1 correlation at the best fit is ${num(props.correlation, 2)}${
+        Math.abs(props.correlation) > 0.8
+          ? `: a strong trade-off, where a thicker layer with a ${props.correlation > 0 ? 'faster' : 'slower'} β1 fits almost as well`
+          : ''
+      }.`
     : '';
   const held = props.slice?.held
     ? ` ${props.slice.held.name === 'vs2_m_s' ? 'β2' : 'β1'} is held at its best value, ${num(props.slice.held.value)} m/s.`

@@ -71,6 +71,9 @@ export function PlotPanel(props: PlotPanelProps) {
     <section class="panel plot-panel" aria-labelledby={props.id}>
       <div class="panel-head">
         <h2 id={props.id}>Dispersion plot</h2>
+        <span class="seg-label" aria-hidden="true">
+          Plot against
+        </span>
         <div class="seg" role="group" aria-label="Horizontal axis quantity">
           <button type="button" aria-pressed={s.axis === 'frequency'} onClick={() => props.onSettings({ axis: 'frequency' })}>
             Frequency (Hz)
@@ -81,11 +84,13 @@ export function PlotPanel(props: PlotPanelProps) {
         </div>
         <label class="check">
           <input type="checkbox" checked={s.xLog} onChange={(e) => props.onSettings({ xLog: e.currentTarget.checked })} />
-          Log horizontal axis
+          <span class="long-label">Log horizontal axis</span>
+          <span class="short-label">Log x</span>
         </label>
         <label class="check">
           <input type="checkbox" checked={s.yLog} onChange={(e) => props.onSettings({ yLog: e.currentTarget.checked })} />
-          Log velocity axis (m/s)
+          <span class="long-label">Log velocity axis (m/s)</span>
+          <span class="short-label">Log v</span>
         </label>
       </div>
       {props.caption ? <p class="caption">{props.caption}</p> : null}

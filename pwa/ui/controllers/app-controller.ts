@@ -85,6 +85,8 @@ export class AppController {
       this.hub.store = store;
       const [sites, theme] = await Promise.all([store.listSites(), store.getSetting<Theme>('theme')]);
       this.hub.set({ ready: true, online, sites, theme: theme === 'sun' ? 'sun' : 'standard' });
+      await this.sites.returnToPlace();
+      void this.sites.loadFacts();
     } catch (e) {
       this.hub.set({ ready: true, online, fatal: messageOf(e) });
     } finally {

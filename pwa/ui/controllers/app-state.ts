@@ -102,6 +102,18 @@ export interface RecordingsState {
   error?: string;
 }
 
+/** What a site card shows beside the site's own fields (sites-controller.ts loadFacts). */
+export interface SiteFacts {
+  /** Live picks. */
+  picks: number;
+  /** The kept estimate's thickness, when there is one. */
+  thickness?: { best: number; low95: number; high95: number; openLow: boolean; openHigh: boolean };
+  /** Its verdict; undefined for an estimate kept before verdicts existed. */
+  verdict?: { level: 'resolved' | 'rough' | 'unresolved'; text: string };
+  /** The latest change to the site or its picks, ISO time. */
+  lastChange: string;
+}
+
 export interface AppState {
   ready: boolean;
   /** A failure that stops the app (the database could not open). */
@@ -109,6 +121,8 @@ export interface AppState {
   online: boolean;
   theme: Theme;
   sites: SiteRecord[];
+  /** Pick counts, thickness with verdict and last change, by site id. */
+  siteFacts: Readonly<Record<string, SiteFacts>>;
   siteQuery: string;
   siteSort: SiteSort;
   openSiteId?: string;
@@ -155,6 +169,7 @@ export const initialState: AppState = {
   online: true,
   theme: 'standard',
   sites: [],
+  siteFacts: {},
   siteQuery: '',
   siteSort: 'recent',
   view: 'picks',
@@ -183,6 +198,46 @@ export function visibleSites(sites: readonly SiteRecord[], query: string, sort: 
   else if (sort === 'date') hits.sort((a, b) => by(b.date, a.date) || a.name.localeCompare(b.name));
   else hits.sort((a, b) => by(b.updatedAt, a.updatedAt));
   return hits;
+}
+
+/**
+ * Table order after adding `incoming` picks to `old` (table order): each
+ * incoming pick goes before the first pick of a higher frequency, so a table
+ * in frequency order stays so, and the crew's own order of `old` is kept.
+ * Returns every pick with its new position.
+ */
+export function mergeByFrequency<T extends { frequency: number }>(old: readonly T[], incoming: readonly T[]): T[] {
+  const out = old.slice();
+  const sorted = incoming.slice().sort((a, b) => a.frequency - b.frequency);
+  for (const p of sorted) {
+    const at = out.findIndex((q) => q.frequency > p.frequency);
+    if (at < 0) out.push(p);
+    else out.splice(at, 0, p);
+  }
+  return out;
+}
+
+/** The picks sorted by frequency, lowest first (ties keep their table order). */
+export function byFrequency<T extends { frequency: number }>(picks: readonly T[]): T[] {
+  return picks.slice().sort((a, b) => a.frequency - b.frequency);
+}
+
+/**
+ * A pick message for hand entry: the CSV column names (velocity_m_s, sd_m_s,
+ * …) become the words on the table's column headings.
+ */
+export function handEntryMessage(message: string): string {
+  const words: Record<string, string> = {
+    frequency_hz: 'frequency',
+    period_s: 'period',
+    velocity_m_s: 'velocity',
+    sd_m_s: 'sd',
+    kind: 'kind',
+    mode: 'mode',
+  };
+  return message
+    .replace(/column (frequency_hz|period_s|velocity_m_s|sd_m_s|kind|mode)\b/g, (_m, c: string) => words[c])
+    .replace(/\b(frequency_hz|period_s|velocity_m_s|sd_m_s)\b/g, (_m, c: string) => words[c]);
 }
 
 /** A copy of the record map without one key. */

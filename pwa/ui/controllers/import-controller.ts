@@ -8,6 +8,7 @@
 import { checkPicksCsv } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { newPick } from '../../store';
+import { mergeByFrequency } from './app-state';
 import type { EstimateController } from './estimate-controller';
 import { revived, storedPicks, type PicksController } from './picks-controller';
 import { messageOf, type StateHub } from './state-hub';
@@ -82,13 +83,23 @@ export class ImportController {
     const replace = this.hub.current.importState.replace;
     const old = this.hub.current.picks;
     const start = replace ? 0 : old.reduce((m, p) => Math.max(m, p.order + 1), 0);
-    const incoming = parsed.picks.map((p, i) => {
+    let incoming = parsed.picks.map((p, i) => {
       const { id: _drop, ...values } = p;
       return newPick(site.id, values, start + i);
     });
     const tombs = replace ? old.map((p) => nextRevision(p, { deleted: true } as Partial<PickRecord>)) : [];
+    // Added picks merge into frequency order: each goes before the first pick of a higher frequency.
+    let moved: PickRecord[] = [];
+    if (!replace && old.length > 0) {
+      const merged = mergeByFrequency(old, incoming);
+      const fresh = new Set(incoming.map((p) => p.id));
+      incoming = merged.flatMap((p, i) => (fresh.has(p.id) ? [{ ...p, order: i }] : []));
+      moved = merged.flatMap((p, i) => (!fresh.has(p.id) && p.order !== i ? [nextRevision(p, { order: i } as Partial<PickRecord>)] : []));
+    } else {
+      incoming = incoming.slice().sort((a, b) => a.frequency - b.frequency).map((p, i) => ({ ...p, order: i }));
+    }
     try {
-      await store.savePicks([...tombs, ...incoming]);
+      await store.savePicks([...tombs, ...moved, ...incoming]);
     } catch (e) {
       this.hub.set({
         importState: {

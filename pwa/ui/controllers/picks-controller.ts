@@ -10,7 +10,7 @@ import { InputError } from '../../../core/shared/errors';
 import { checkPickSet, pickFromCells, type Pick, type PickCells, type PickKind } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { newPick, pickOf, type FieldStore } from '../../store';
-import { NEW_ROW, replaceById, without, type RowDraft } from './app-state';
+import { byFrequency, handEntryMessage, NEW_ROW, replaceById, without, type RowDraft } from './app-state';
 import type { EstimateController } from './estimate-controller';
 import type { PickTextColumn } from './form-text';
 import { messageOf, type StateHub } from './state-hub';
@@ -82,9 +82,13 @@ export class PicksController {
     this.hub.set({ drafts: { ...drafts, [rowKey]: { ...next, cells, error: undefined, errorColumn: undefined } } });
   }
 
-  /** Choosing group or phase commits a stored row at once (the new row waits for its numbers). */
-  async setKind(rowKey: string, kind: PickKind): Promise<void> {
+  /** Choosing group or phase (and the mode) commits a stored row at once (the new row waits for its numbers). */
+  async setKind(rowKey: string, kind: PickKind, mode?: number): Promise<void> {
     this.setDraft(rowKey, { kind });
+    if (mode !== undefined) {
+      const d = this.hub.current.drafts[rowKey] ?? { cells: {} };
+      this.setDraft(rowKey, { cells: { ...d.cells, mode: String(mode) } });
+    }
     if (rowKey !== NEW_ROW) await this.commitRow(rowKey);
   }
 
@@ -172,7 +176,7 @@ export class PicksController {
       if (!hasAbs) {
         const column = unit === 's' ? 'period_s' : 'frequency_hz';
         this.setDraft(rowKey, {
-          error: `Pick ${index + 1}, column ${column}: is empty; give the ${unit === 's' ? 'period in s' : 'frequency in Hz'}.`,
+          error: `Pick ${index + 1}: the ${unit === 's' ? 'period is empty; give it in s' : 'frequency is empty; give it in Hz'}.`,
           errorColumn: column,
         });
         return;
@@ -187,7 +191,7 @@ export class PicksController {
       checkPickSet(all, (i) => (i === all.length - 1 ? where : `pick ${state.picks.indexOf(rest[i]) + 1}`));
     } catch (e) {
       const column = e instanceof InputError ? e.field.split(', ').pop() : undefined;
-      this.setDraft(rowKey, { error: messageOf(e), errorColumn: column });
+      this.setDraft(rowKey, { error: handEntryMessage(messageOf(e)), errorColumn: column });
       return;
     }
 
@@ -220,6 +224,40 @@ export class PicksController {
     } catch (e) {
       this.setDraft(rowKey, { saving: false, next: undefined, pendingCommit: undefined, error: `${messageOf(e)} Your input is kept on screen.` });
       this.hub.notify('error', `Pick ${index + 1} was not saved: ${messageOf(e)}`);
+    }
+  }
+
+  /** Puts the table in frequency order (saved: every moved pick gets a new order); undo puts the old order back. */
+  async sortByFrequency(): Promise<void> {
+    const store = this.hub.store;
+    const before = this.hub.current.picks;
+    if (!store || before.length < 2) return;
+    if (Object.keys(this.hub.current.drafts).length > 0) {
+      this.hub.notify('error', 'Finish or clear the rows being typed before sorting.');
+      return;
+    }
+    const reorder = async (target: readonly PickRecord[]) => {
+      const now = this.hub.current.picks;
+      const byId = new Map(now.map((p) => [p.id, p]));
+      const changed: PickRecord[] = [];
+      const out: PickRecord[] = [];
+      target.forEach((t, i) => {
+        const cur = byId.get(t.id);
+        if (!cur) return;
+        if (cur.order !== i) {
+          const next = nextRevision(cur, { order: i } as Partial<PickRecord>);
+          changed.push(next);
+          out.push(next);
+        } else out.push(cur);
+      });
+      if (changed.length > 0) await store.savePicks(changed);
+      this.hub.set({ picks: out });
+    };
+    try {
+      await reorder(byFrequency(before));
+      this.hub.set({ undo: { label: 'sorting by frequency', revert: () => reorder(before) } });
+    } catch (e) {
+      this.hub.notify('error', `The picks were not sorted: ${messageOf(e)}`);
     }
   }
 

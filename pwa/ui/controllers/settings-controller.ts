@@ -13,6 +13,11 @@ import type { PicksController } from './picks-controller';
 import type { SitesController } from './sites-controller';
 import { messageOf, type StateHub } from './state-hub';
 
+/** Settings key of a site's survey target depth (kept on this device only). */
+export function surveyDepthKey(siteId: string): string {
+  return `survey.depth.${siteId}`;
+}
+
 export class SettingsController {
   constructor(
     private readonly hub: StateHub,
@@ -77,8 +82,11 @@ export class SettingsController {
     this.hub.set({ whatif: model });
   }
 
+  /** The survey plan's target depth as typed ('' = from the estimate); kept per site on this device. */
   setSurveyDepth(surveyDepth: string): void {
     this.hub.set({ surveyDepth });
+    const id = this.hub.current.openSiteId;
+    if (id) void this.hub.store?.putSetting(surveyDepthKey(id), surveyDepth).catch(() => undefined);
   }
 
   // ---- estimate settings ---------------------------------------------------

@@ -8,12 +8,16 @@
 import { DEMO_SITE, demoPicks } from '../../../core/exchange/demo';
 import { nextRevision, type SiteRecord } from '../../../core/exchange/records';
 import { newPick, newSite } from '../../store';
-import { replaceById, without, type SiteSort, type ViewName } from './app-state';
+import { replaceById, without, type SiteFacts, type SiteSort, type ViewName } from './app-state';
+import { storedVerdict } from '../views/verdict-text';
 import type { EstimateController } from './estimate-controller';
 import type { SiteTextField } from './form-text';
 import type { PicksController } from './picks-controller';
 import type { RecordingsController } from './recordings-controller';
 import { messageOf, type StateHub } from './state-hub';
+
+/** Settings key of the open site and view (kept on this device). */
+const PLACE_KEY = 'ui.place';
 
 export class SitesController {
   constructor(
@@ -28,6 +32,32 @@ export class SitesController {
     const store = this.hub.store;
     if (!store) return;
     this.hub.set({ sites: await store.listSites() });
+    void this.loadFacts();
+  }
+
+  /** Reads what each site card shows: pick count, the kept thickness with its verdict, the last change. */
+  async loadFacts(): Promise<void> {
+    const store = this.hub.store;
+    if (!store) return;
+    try {
+      const facts: Record<string, SiteFacts> = {};
+      for (const site of this.hub.current.sites) {
+        const [picks, est] = await Promise.all([store.listPicks(site.id), store.latestEstimate(site.id)]);
+        let lastChange = site.updatedAt;
+        for (const p of picks) if (p.updatedAt > lastChange) lastChange = p.updatedAt;
+        const f: SiteFacts = { picks: picks.length, lastChange };
+        const t = est?.summary.thickness_m as { best?: unknown; low95?: unknown; high95?: unknown } | undefined;
+        const open = (est?.summary.open_ends as { thickness_m?: { low?: unknown; high?: unknown } } | undefined)?.thickness_m;
+        if (t && typeof t.best === 'number' && typeof t.low95 === 'number' && typeof t.high95 === 'number') {
+          f.thickness = { best: t.best, low95: t.low95, high95: t.high95, openLow: open?.low === true, openHigh: open?.high === true };
+          f.verdict = storedVerdict(est?.summary);
+        }
+        facts[site.id] = f;
+      }
+      this.hub.set({ siteFacts: facts });
+    } catch {
+      // The cards show the site's own fields; nothing to tell the crew.
+    }
   }
 
   setSiteQuery(siteQuery: string): void {
@@ -72,9 +102,38 @@ export class SitesController {
       estimate: { status: 'idle' },
       whatif: undefined,
       recordings: { siteId: id, list: [], busy: false },
+      surveyDepth: '',
     });
     void this.picks.load(id);
     void this.recordings.load(id);
+    this.rememberPlace();
+    // The survey target depth typed for this site before ('' = from the estimate).
+    void this.hub.store
+      ?.getSetting<string>(`survey.depth.${id}`)
+      .then((t) => {
+        if (typeof t === 'string' && this.hub.current.openSiteId === id && this.hub.current.surveyDepth === '') this.hub.set({ surveyDepth: t });
+      })
+      .catch(() => undefined);
+  }
+
+  /** Keeps the open site and view on this device, so a reload returns there. */
+  private rememberPlace(): void {
+    const s = this.hub.current;
+    void this.hub.store?.putSetting(PLACE_KEY, s.openSiteId ? { siteId: s.openSiteId, view: s.view } : null).catch(() => undefined);
+  }
+
+  /** After a reload: opens the site and view that were open, when the site still exists. */
+  async returnToPlace(): Promise<void> {
+    const store = this.hub.store;
+    if (!store) return;
+    try {
+      const place = await store.getSetting<{ siteId?: string; view?: ViewName } | null>(PLACE_KEY);
+      if (!place?.siteId || !this.hub.current.sites.some((x) => x.id === place.siteId) || this.hub.current.openSiteId) return;
+      const views: ViewName[] = ['picks', 'records', 'estimate', 'figures', 'whatif', 'survey', 'details'];
+      this.openSite(place.siteId, place.view && views.includes(place.view) ? place.view : 'picks');
+    } catch {
+      // Nothing kept: the site list it is.
+    }
   }
 
   closeSite(): void {
@@ -84,10 +143,13 @@ export class SitesController {
       return;
     }
     this.hub.set({ openSiteId: undefined, picks: [], undo: undefined, estimate: { status: 'idle' } });
+    this.rememberPlace();
+    void this.loadFacts();
   }
 
   setView(view: ViewName): void {
     this.hub.set({ view });
+    this.rememberPlace();
   }
 
   /** Saves a revision of the open site; on failure the typed text stays in siteDraft with the message. */

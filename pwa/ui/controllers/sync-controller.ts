@@ -31,6 +31,10 @@ export function differing(shown: AnyRecord, other: ConflictVersion['record']): s
   return [...new Set([...Object.keys(a), ...Object.keys(b)])].filter((k) => !SKIP_FIELDS.has(k) && JSON.stringify(a[k]) !== JSON.stringify(b[k])).sort();
 }
 
+function plural(n: number, one: string, many: string): string {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
 async function saveResolved(store: FieldStore, r: AnyRecord): Promise<void> {
   if (r.type === 'site') await store.saveSite(r);
   else if (r.type === 'pick') await store.savePick(r);
@@ -144,6 +148,8 @@ export class SyncController {
         onSaved();
         if (!reached) {
           this.patch({ message: { tone: 'ok', text: 'Saved. The office cannot be reached just now; sync will try again when it can.' } });
+          // One attempt now, so the panel shows its outcome (and the changes still waiting) at once.
+          void client.syncNow();
           return;
         }
         this.patch({ message: { tone: 'ok', text: `Connected to the office as “${device}”. Syncing now.` } });
@@ -166,12 +172,21 @@ export class SyncController {
     if (report.pulled > 0) void this.recordsChanged();
   }
 
-  /** Makes a bundle of every site and shares or saves it. */
-  async exportAll(): Promise<void> {
+  /** Sends the invented demo site to the office too (on), or keeps it on this tablet (off, the default). */
+  async setIncludeDemo(on: boolean): Promise<void> {
+    const p = await this.parts;
+    if (!p) return;
+    await p.client.setIncludeDemo(on);
+    if (on) void this.syncNow();
+  }
+
+  /** Makes a bundle of every site (the invented demo site only when asked) and shares or saves it. */
+  async exportAll(includeDemo = false): Promise<void> {
     await this.busy(async ({ store }) => {
       try {
         const io = await import('../../sync/bundle-io');
-        const file = await io.exportBundle(store);
+        const file = await io.exportBundle(store, undefined, undefined, { includeDemo });
+        const left = file.demoLeftOut > 0 ? ' The invented demo site was left out.' : '';
         const how = await io.deliverBundle(file);
         this.patch({
           message: {
@@ -179,7 +194,7 @@ export class SyncController {
             text:
               how === 'cancelled'
                 ? 'Sharing was cancelled; nothing was sent.'
-                : `${how === 'shared' ? 'Shared' : 'Saved'} ${file.name}: ${file.sites} sites, ${file.picks} picks.`,
+                : `${how === 'shared' ? 'Shared' : 'Saved'} ${file.name}: ${plural(file.sites, 'site', 'sites')}, ${plural(file.picks, 'pick', 'picks')}.${left}`,
           },
         });
       } catch (err) {

@@ -1,7 +1,11 @@
 /**
- * The estimate: what is known or free, then the thickness with its 68/95 %
- * intervals, the speeds, the alternatives, the diagnostics in plain words
- * and the misfit map. The caution text stands on every result.
+ * The estimate, answer first: the thickness with its verdict (resolved,
+ * only roughly known, not resolved: core/estimate/verdict.ts), its
+ * intervals and the caution at the top at every size; then what is known
+ * (the settings, folded once there is a result), the speeds, the
+ * alternatives, the diagnostics in plain words (worst first) and the misfit
+ * map; the statistics stay in "How this was computed". An unresolved
+ * thickness is never shown as a bare number.
  */
 import { CAUTION } from '../../../core/shared/caution';
 import type { EstimateResult, ParameterEstimate } from '../../../core/estimate/estimate';
@@ -10,6 +14,7 @@ import type { SiteRecord } from '../../../core/exchange/records';
 import { settingText, SETTING_FIELDS, type SettingKey } from '../controllers/form-text';
 import { num } from './format';
 import { MisfitMapView } from '../charts/misfit-map';
+import { LEVEL_WORDS } from './verdict-text';
 import type { EstimateState, SiteFormError } from '../controllers/app-state';
 
 export interface EstimateViewProps {
@@ -23,6 +28,8 @@ export interface EstimateViewProps {
   onCommit: (key: SettingKey) => void;
   onKnown: (which: 'vs1' | 'vs2', known: boolean, suggestion?: number) => void;
   onRun: () => void;
+  /** Opens the survey plan (the link beside an unresolved thickness). */
+  onSurvey: () => void;
 }
 
 export function Caution() {
@@ -107,6 +114,56 @@ function ParamRow(props: { name: string; unit: string; p: ParameterEstimate }) {
   );
 }
 
+/**
+ * The answer: the thickness with its verdict, its intervals and the caution.
+ * Not resolved: the words say so first, with what is known and the one
+ * thing to do before leaving, and a link to the survey plan; no best value
+ * stands as the answer.
+ */
+export function VerdictHeadline(props: { r: EstimateResult; onSurvey?: () => void; compact?: boolean }) {
+  const { r } = props;
+  const v = r.verdict;
+  const h = r.thickness;
+  return (
+    <div class={`verdict verdict-${v.level}`} data-testid="verdict" data-level={v.level}>
+      {v.level === 'unresolved' ? (
+        <p class="headline" data-testid="thickness" data-value={String(h.best)}>
+          Layer thickness <strong>not resolved</strong>: {v.known}
+        </p>
+      ) : (
+        <p class="headline" data-testid="thickness" data-value={String(h.best)}>
+          Layer thickness H {v.level === 'rough' ? '≈' : '='} <strong>{num(h.best)} m</strong>{' '}
+          <span class={`badge badge-${v.level}`}>{LEVEL_WORDS[v.level]}</span>
+        </p>
+      )}
+      {v.level !== 'unresolved' || !props.compact ? (
+        <p class="intervals">
+          68 %: {interval(h, 'm', 68)}; 95 %: {interval(h, 'm', 95)}
+          {v.level === 'unresolved' ? ` (best fit ${num(h.best)} m, not an answer)` : ''}
+        </p>
+      ) : null}
+      <p class="verdict-text">{v.text}</p>
+      {v.level !== 'resolved' && props.onSurvey ? (
+        <button type="button" class="link" onClick={props.onSurvey}>
+          Open the survey plan: what to change before leaving
+        </button>
+      ) : null}
+    </div>
+  );
+}
+
+/** How the fit and the defaults came out, in the statistics' own terms (for the fold). */
+function FitFigures({ r }: { r: EstimateResult }) {
+  return (
+    <p>
+      Densities used: layer ρ1 = {num(r.density1, 4)} kg/m³{r.density1Defaulted ? ' (default)' : ''}, half-space ρ2 ={' '}
+      {num(r.density2, 4)} kg/m³{r.density2Defaulted ? ' (default)' : ''}. Fit: χ²/dof = {num(r.chi2PerDof, 3)} (χ² ={' '}
+      {num(r.chi2, 3)}, {r.dof} degrees of freedom).
+      {Number.isFinite(r.correlationThicknessVs1) ? ` H–β1 correlation: ${num(r.correlationThicknessVs1, 2)}.` : ''}
+    </p>
+  );
+}
+
 export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSlice; theme: string }) {
   const { r } = props;
   const map = props.slice ?? r.misfitMap;
@@ -116,14 +173,14 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
   const box: [number, number, number, number] = [r.thickness.low95, r.thickness.high95, mapParam.low95, mapParam.high95];
   return (
     <div class="result">
-      <p class="headline" data-testid="thickness" data-value={String(r.thickness.best)}>
-        Layer thickness H = <strong>{num(r.thickness.best)} m</strong>
-        <span class="sub">
-          {' '}
-          (68 %: {interval(r.thickness, 'm', 68)}; 95 %: {interval(r.thickness, 'm', 95)})
-        </span>
-      </p>
-      <Caution />
+      <section aria-labelledby="diag-h">
+        <h3 id="diag-h">What the picks say (most serious first)</h3>
+        <ul class="plain diag">
+          {r.warnings.map((w, i) => (
+            <li key={i}>{w}</li>
+          ))}
+        </ul>
+      </section>
       <div class="table-wrap">
         <table class="params">
           <caption>Best fit and intervals from the profile likelihood</caption>
@@ -143,12 +200,6 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
           </tbody>
         </table>
       </div>
-      <p>
-        Densities used: layer ρ1 = {num(r.density1, 4)} kg/m³{r.density1Defaulted ? ' (default)' : ''}, half-space ρ2 ={' '}
-        {num(r.density2, 4)} kg/m³{r.density2Defaulted ? ' (default)' : ''}. Fit: χ²/dof = {num(r.chi2PerDof, 3)} (χ² ={' '}
-        {num(r.chi2, 3)}, {r.dof} degrees of freedom).
-        {Number.isFinite(r.correlationThicknessVs1) ? ` H–β1 correlation: ${num(r.correlationThicknessVs1, 2)}.` : ''}
-      </p>
       {alternatives.length > 0 ? (
         <section aria-labelledby="alt-h">
           <h3 id="alt-h">Other models that also fit ({alternatives.length})</h3>
@@ -164,14 +215,6 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
       ) : (
         <p>No other separate model fits within the noise.</p>
       )}
-      <section aria-labelledby="diag-h">
-        <h3 id="diag-h">What the picks say</h3>
-        <ul class="plain diag">
-          {r.warnings.map((w, i) => (
-            <li key={i}>{w}</li>
-          ))}
-        </ul>
-      </section>
       <section aria-labelledby="map-h">
         <h3 id="map-h">Misfit map: the thickness–speed trade-off</h3>
         <MisfitMapView
@@ -188,6 +231,7 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
       </section>
       <details>
         <summary>How this was computed</summary>
+        <FitFigures r={r} />
         <p>{r.method}</p>
       </details>
     </div>
@@ -197,39 +241,40 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
 export function EstimateView(props: EstimateViewProps) {
   const e = props.estimate;
   const settingsError = props.error?.field.startsWith('set') ? props.error.text : undefined;
+  const settings = (
+    <>
+      <p class="hint">
+        Speeds known from a borehole or a refraction line are held fixed; free ones are searched within the range (blank:
+        a range from the picks). Blank densities use 1800 and 2100 kg/m³ (common practice).
+      </p>
+      <div class="settings-grid">
+        <SpeedChoice which="vs1" view={props} />
+        <SpeedChoice which="vs2" view={props} />
+        <fieldset class="choice">
+          <legend>Densities (kg/m³)</legend>
+          <div class="pair">
+            <SettingInput k="density1" view={props} short="Layer ρ1" />
+            <SettingInput k="density2" view={props} short="Half-space ρ2" />
+          </div>
+        </fieldset>
+        <fieldset class="choice">
+          <legend>Thickness search range (m)</legend>
+          <div class="pair">
+            <SettingInput k="hLo" view={props} short="From" />
+            <SettingInput k="hHi" view={props} short="to" />
+          </div>
+        </fieldset>
+      </div>
+      {settingsError ? (
+        <p id="settings-err" class="error" role="alert">
+          {settingsError}
+        </p>
+      ) : null}
+    </>
+  );
   return (
     <div class="estimate">
-      <section class="panel" aria-labelledby="known-h">
-        <h2 id="known-h">What is known</h2>
-        <p class="hint">
-          Speeds known from a borehole or a refraction line are held fixed; free ones are searched within the range (blank:
-          a range from the picks). Blank densities use 1800 and 2100 kg/m³ (common practice).
-        </p>
-        <div class="settings-grid">
-          <SpeedChoice which="vs1" view={props} />
-          <SpeedChoice which="vs2" view={props} />
-          <fieldset class="choice">
-            <legend>Densities (kg/m³)</legend>
-            <div class="pair">
-              <SettingInput k="density1" view={props} short="Layer ρ1" />
-              <SettingInput k="density2" view={props} short="Half-space ρ2" />
-            </div>
-          </fieldset>
-          <fieldset class="choice">
-            <legend>Thickness search range (m)</legend>
-            <div class="pair">
-              <SettingInput k="hLo" view={props} short="From" />
-              <SettingInput k="hHi" view={props} short="to" />
-            </div>
-          </fieldset>
-        </div>
-        {settingsError ? (
-          <p id="settings-err" class="error" role="alert">
-            {settingsError}
-          </p>
-        ) : null}
-      </section>
-      <section class="panel" aria-labelledby="est-h">
+      <section class="panel answer" aria-labelledby="est-h">
         <div class="panel-head">
           <h2 id="est-h">Estimate</h2>
           <button type="button" onClick={props.onRun} disabled={props.pickCount === 0}>
@@ -250,8 +295,22 @@ export function EstimateView(props: EstimateViewProps) {
             {e.error}
           </p>
         ) : null}
-        {e.result ? <EstimateResultView r={e.result} slice={e.slice} theme={props.theme} /> : <Caution />}
+        {e.result ? <VerdictHeadline r={e.result} onSurvey={props.onSurvey} /> : null}
+        <Caution />
       </section>
+      {/* The settings: open until there is a result (or while one of them is refused), folded after. */}
+      <details class="panel settings-fold" open={!e.result || !!settingsError}>
+        <summary>
+          <h2 id="known-h">What is known (speeds, densities, search ranges)</h2>
+        </summary>
+        {settings}
+      </details>
+      {e.result ? (
+        <section class="panel" aria-labelledby="detail-h">
+          <h2 id="detail-h">The estimate in detail</h2>
+          <EstimateResultView r={e.result} slice={e.slice} theme={props.theme} />
+        </section>
+      ) : null}
     </div>
   );
 }

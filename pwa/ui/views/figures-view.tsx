@@ -6,12 +6,14 @@
  */
 import type { EstimateResult } from '../../../core/estimate/estimate';
 import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../../core/site/site';
-import { Caution } from './estimate-view';
+import { Caution, VerdictHeadline } from './estimate-view';
 import { num } from './format';
 
 export interface FiguresViewProps {
   result?: EstimateResult;
   running: boolean;
+  /** Opens the survey plan (beside an unresolved thickness). */
+  onSurvey?: () => void;
 }
 
 /** The figures for an estimate, over its 95 % intervals; an error message when the core refuses. */
@@ -49,9 +51,19 @@ export function FiguresView(props: FiguresViewProps) {
     );
   }
   const { figures, error } = figuresOf(props.result);
+  const v = props.result.verdict;
   return (
     <section class="panel" aria-labelledby="fig-h">
       <h2 id="fig-h">Site figures</h2>
+      {/* The thickness these figures rest on, with its verdict, and the caution: first, at every size. */}
+      <VerdictHeadline r={props.result} onSurvey={props.onSurvey} compact />
+      {v.level === 'unresolved' ? (
+        <p class="warn" data-testid="figures-unresolved">
+          These figures rest on a layer thickness the picks do not resolve: read them as a range of possibilities, not as the
+          site's values.
+        </p>
+      ) : null}
+      <Caution />
       <p class="hint">From the estimated layer over half-space, over the 95 % intervals of H, β1 and β2.</p>
       {error ? (
         <p class="error" role="alert">

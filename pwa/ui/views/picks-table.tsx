@@ -1,7 +1,12 @@
 /**
- * The picks table, built for touch: numeric keypad, Enter goes to the next
- * row, every change saves at once, a refused change stays on screen with
- * its message. Below it, CSV paste or file import.
+ * The picks table, built for touch and the on-screen keyboard: numeric
+ * keypad; in the new row "Next" moves to the next cell and Enter on the last
+ * required cell (the velocity, or any cell after it) saves the pick and puts
+ * the cursor in the first cell of a fresh row; a half-typed row stays as a
+ * draft, not an error; in a saved row Enter saves it and moves down. Kind
+ * and mode share one compact control, so the table fits a phone. Every
+ * change saves at once, a refused change stays on screen with its message
+ * (in the column words of the table). Below it, CSV paste or file import.
  */
 import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
@@ -18,7 +23,9 @@ export interface PicksTableProps {
   undo?: UndoEntry;
   onEdit: (row: string, column: PickTextColumn, text: string) => void;
   onCommit: (row: string, force?: boolean) => void;
-  onKind: (row: string, kind: PickKind) => void;
+  onKind: (row: string, kind: PickKind, mode?: number) => void;
+  /** Puts the table in frequency order (saved). */
+  onSort?: () => void;
   onDelete: (id: string) => void;
   onDiscard: (row: string) => void;
   onSelect: (id: string | undefined) => void;
@@ -26,7 +33,11 @@ export interface PicksTableProps {
   onUndo: () => void;
 }
 
-const COLUMNS: PickTextColumn[] = ['frequency_hz', 'velocity_m_s', 'sd_m_s', 'mode'];
+const COLUMNS: PickTextColumn[] = ['frequency_hz', 'velocity_m_s', 'sd_m_s'];
+/** Modes offered in the kind-and-mode control (a pick's own mode is always offered too). */
+const MODES_OFFERED = [0, 1, 2, 3];
+/** Index of the last required cell of a row (the velocity): Enter there (or after) saves the new row. */
+const LAST_REQUIRED = 1;
 
 export function PicksTable(props: PicksTableProps) {
   const table = useRef<HTMLTableElement>(null);
@@ -53,6 +64,11 @@ export function PicksTable(props: PicksTableProps) {
     el?.focus();
     el?.select();
   };
+  /** The text now in the new row's cells, read from the screen (the keyboard may be ahead of the last render). */
+  const newRowFilled = (row: number, col: number): boolean => {
+    const el = table.current?.querySelector<HTMLInputElement>(`input[data-row="${row}"][data-col="${col}"]`);
+    return (el?.value ?? '').trim() !== '';
+  };
 
   const rows: { key: string; rec?: PickRecord }[] = props.picks.map((p) => ({ key: p.id, rec: p }));
   rows.push({ key: NEW_ROW });
@@ -61,6 +77,9 @@ export function PicksTable(props: PicksTableProps) {
     <section class="panel" aria-labelledby="picks-h">
       <div class="panel-head">
         <h2 id="picks-h">Picks ({props.picks.length})</h2>
+        <span class="seg-label" aria-hidden="true">
+          Type as
+        </span>
         <div class="seg" role="group" aria-label="Enter and show picks as">
           <button type="button" aria-pressed={props.unit === 'hz'} onClick={() => props.onUnit('hz')}>
             Frequency, Hz
@@ -69,11 +88,20 @@ export function PicksTable(props: PicksTableProps) {
             Period, s
           </button>
         </div>
+        {props.onSort ? (
+          <button type="button" disabled={props.picks.length < 2} onClick={props.onSort}>
+            Sort by frequency
+          </button>
+        ) : null}
         <button type="button" disabled={!props.undo} onClick={props.onUndo}>
           {props.undo ? `Undo ${props.undo.label}` : 'Nothing to undo'}
         </button>
       </div>
-      <p class="hint">Every change is saved on this device at once. Enter moves to the next row. An empty sd uses 3 % of the velocity (common practice).</p>
+      <p class="hint">
+        Type picks in as: frequency, Next, velocity, Enter (the sd is optional: an empty sd uses 3 % of the velocity, common
+        practice). Kind, mode: G0 is a group velocity on the fundamental mode, P1 a phase velocity on the first higher
+        mode. Every change is saved on this device at once; a half-typed row waits as a draft.
+      </p>
       <div class="table-wrap">
         <table class="picks" ref={table}>
           <thead>
@@ -82,9 +110,8 @@ export function PicksTable(props: PicksTableProps) {
               <th scope="col">{absLabel}</th>
               <th scope="col">Velocity (m/s)</th>
               <th scope="col">sd (m/s)</th>
-              <th scope="col">Kind</th>
-              <th scope="col">Mode</th>
-              <th scope="col"><span class="sr-only">Remove</span></th>
+              <th scope="col">Kind, mode</th>
+              <th scope="col" aria-label="Remove"></th>
             </tr>
           </thead>
           <tbody>
@@ -93,6 +120,9 @@ export function PicksTable(props: PicksTableProps) {
               const label = rec ? `Pick ${r + 1}` : 'New pick';
               const selected = rec && rec.id === props.selectedId;
               const kind = d?.kind ?? rec?.kind ?? 'group';
+              const modeText = d?.cells.mode ?? (rec ? String(rec.mode) : '0');
+              const mode = /^\d+$/.test(modeText.trim()) ? Number(modeText.trim()) : 0;
+              const modes = MODES_OFFERED.includes(mode) ? MODES_OFFERED : [...MODES_OFFERED, mode].sort((a, b) => a - b);
               const errId = `err-${key}`;
               /** One text cell of this row; Enter saves and moves to column `enterTo` of the next row. */
               const cellInput = (
@@ -103,7 +133,7 @@ export function PicksTable(props: PicksTableProps) {
                 <input
                   class={o.look}
                   inputMode={o.inputMode}
-                  enterKeyHint="next"
+                  enterKeyHint={rec || ci < LAST_REQUIRED ? 'next' : 'enter'}
                   autoComplete="off"
                   data-row={r}
                   data-col={ci}
@@ -117,8 +147,22 @@ export function PicksTable(props: PicksTableProps) {
                   onKeyDown={(e) => {
                     if (e.key === 'Enter') {
                       e.preventDefault();
+                      if (rec) {
+                        // A saved row: save it and move down the same column.
+                        props.onCommit(key, true);
+                        focusCell(r + 1, o.enterTo);
+                        return;
+                      }
+                      // The new row: before the last required cell, or with a required cell still empty, Enter is "Next".
+                      const complete = newRowFilled(r, 0) && newRowFilled(r, LAST_REQUIRED);
+                      if (ci < LAST_REQUIRED || !complete) {
+                        const next = ci < LAST_REQUIRED ? ci + 1 : !newRowFilled(r, 0) ? 0 : LAST_REQUIRED;
+                        focusCell(r, next);
+                        return;
+                      }
+                      // Complete: save it; the cursor goes to the first cell of the fresh row (this row's inputs, which stay the new row).
                       props.onCommit(key, true);
-                      focusCell(rec ? r + 1 : r, o.enterTo);
+                      focusCell(r, 0);
                     } else if (o.escapeDiscards && e.key === 'Escape' && d) {
                       props.onDiscard(key);
                     }
@@ -172,27 +216,25 @@ export function PicksTable(props: PicksTableProps) {
                   ))}
                   <td>
                     <select
-                      class="cell"
-                      aria-label={`${label}, kind of velocity`}
-                      value={kind}
-                      onChange={(e) => props.onKind(key, e.currentTarget.value as PickKind)}
+                      class="cell kindmode"
+                      aria-label={`${label}, kind of velocity and mode`}
+                      aria-invalid={d?.errorColumn === 'mode' || d?.errorColumn === 'kind' ? 'true' : undefined}
+                      value={`${kind}:${mode}`}
+                      onChange={(e) => {
+                        const [k, m] = e.currentTarget.value.split(':');
+                        props.onKind(key, k as PickKind, Number(m));
+                      }}
                     >
-                      <option value="group">group</option>
-                      <option value="phase">phase</option>
+                      {(['group', 'phase'] as const).flatMap((k) =>
+                        modes.map((m) => (
+                          <option key={`${k}${m}`} value={`${k}:${m}`} aria-label={`${k} velocity, mode ${m}${m === 0 ? ' (fundamental)' : ''}`}>
+                            {k === 'group' ? 'G' : 'P'}
+                            {m}
+                          </option>
+                        )),
+                      )}
                     </select>
                   </td>
-                  {cols.slice(3).map((c) => (
-                    <td key={c}>
-                      {cellInput(c, 3, {
-                        look: 'cell narrow',
-                        inputMode: 'numeric',
-                        invalid: d?.errorColumn === c,
-                        placeholder: !rec ? '0' : undefined,
-                        enterTo: 0,
-                        escapeDiscards: false,
-                      })}
-                    </td>
-                  ))}
                   <td>
                     {rec ? (
                       <button type="button" class="icon" aria-label={`Remove pick ${r + 1}`} onClick={() => props.onDelete(rec.id)}>
@@ -211,7 +253,7 @@ export function PicksTable(props: PicksTableProps) {
                 </tr>
                 {d?.error ? (
                   <tr class="row-error">
-                    <td colSpan={7}>
+                    <td colSpan={6}>
                       <p id={errId} class="error" role="alert">
                         {d.error}
                         {rec ? (

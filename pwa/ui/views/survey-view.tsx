@@ -16,10 +16,18 @@ export interface SurveyViewProps {
   onDepth: (text: string) => void;
 }
 
+/** Target depth to offer when none is typed: twice the estimated thickness (deep enough to see below the layer), else 30 m. */
+export function defaultDepth(r: EstimateResult | undefined): number {
+  const h = r?.thickness.best;
+  if (h === undefined || !Number.isFinite(h) || !(h > 0)) return 30;
+  return Math.min(1000, Number((2 * h).toPrecision(2)));
+}
+
 export function adviceOf(props: SurveyViewProps): { advice?: SurveyAdvice; error?: string } {
-  const t = props.depthText.trim();
+  const typed = props.depthText.trim();
+  const t = typed === '' ? String(defaultDepth(props.result)) : typed;
   const depth = Number(t.replace(',', '.'));
-  if (t === '' || !Number.isFinite(depth)) {
+  if (!Number.isFinite(depth)) {
     return { error: `The target depth must be a number of metres greater than 0, but it is "${t}".` };
   }
   const r = props.result;
@@ -35,15 +43,23 @@ export function adviceOf(props: SurveyViewProps): { advice?: SurveyAdvice; error
 export function SurveyView(props: SurveyViewProps) {
   const { advice, error } = adviceOf(props);
   const r = props.result;
-  const notResolved = r && !r.diagnostics.thicknessResolved;
+  const notResolved = r && r.verdict.level === 'unresolved';
+  const fromEstimate = props.depthText.trim() === '';
   return (
     <section class="panel" aria-labelledby="survey-h">
       <h2 id="survey-h">Survey plan</h2>
+      <Caution />
+      {notResolved ? (
+        <p class="warn" role="alert" data-testid="survey-verdict">
+          {r.verdict.text}
+        </p>
+      ) : null}
       <label class="field short">
-        <span>Target depth (m)</span>
+        <span>Target depth (m){fromEstimate ? (r ? ', from the estimate: 2 × H' : ', 30 m until there is an estimate') : ', kept for this site'}</span>
         <input
           inputMode="decimal"
           value={props.depthText}
+          placeholder={String(defaultDepth(r))}
           aria-invalid={error ? 'true' : undefined}
           aria-describedby={error ? 'survey-err' : 'survey-note'}
           onInput={(e) => props.onDepth(e.currentTarget.value)}
@@ -54,13 +70,7 @@ export function SurveyView(props: SurveyViewProps) {
           {error}
         </p>
       ) : null}
-      {notResolved ? (
-        <p class="warn" role="alert">
-          The estimate says the picks do not reach deep enough: the layer (about {num(r.thickness.best)} m) is deeper than
-          half the longest picked wavelength ({num(r.diagnostics.longestWavelength)} m). Change the survey before leaving the
-          site, as below.
-        </p>
-      ) : null}
+
       {advice ? (
         <>
           {advice.actions.length > 0 ? (
@@ -84,14 +94,14 @@ export function SurveyView(props: SurveyViewProps) {
                 <tr>
                   <th scope="row">Longest wavelength needed (m)</th>
                   <td>
-                    {num(advice.wavelength[1])} m cautious (3 × depth); {num(advice.wavelength[0])} m at least (2 × depth)
+                    at least {num(advice.wavelength[0])} m (2 × depth); {num(advice.wavelength[1])} m to be safe (3 × depth)
                   </td>
                 </tr>
                 <tr>
-                  <th scope="row">Lowest frequency needed (Hz)</th>
+                  <th scope="row">Pick down to (Hz)</th>
                   <td>
                     {Number.isFinite(advice.lowestFrequency[0])
-                      ? `${num(advice.lowestFrequency[0])} Hz cautious; ${num(advice.lowestFrequency[1])} Hz at least (fundamental mode of the current estimate)`
+                      ? `${num(advice.lowestFrequency[1])} Hz or lower at the very least; ${num(advice.lowestFrequency[0])} Hz or lower to be safe (fundamental mode of the current estimate)`
                       : 'needs an estimate of the ground speeds'}
                   </td>
                 </tr>

@@ -12,12 +12,15 @@ import { useEffect, useState } from 'preact/hooks';
 import type { AnyRecord } from '../../../core/exchange/records';
 import type { SyncPanelState } from '../controllers/app-state';
 import { differing, type SyncController } from '../controllers/sync-controller';
+import { syncWords } from '../../sync/sync-state';
 import '../styles/sync-panel.css';
 
 export interface SyncPanelProps {
   /** What the panel shows (the `sync` slice of the app state). */
   state: SyncPanelState;
   sync: SyncController;
+  /** The device's own view of the network. */
+  online: boolean;
 }
 
 function when(iso: string | undefined): string {
@@ -37,11 +40,12 @@ function recordLabel(r: AnyRecord, sites: Readonly<Record<string, string>>): str
   return r.type === 'pick' ? `Pick at ${r.frequency} Hz of “${site}”` : `Estimate of “${site}”`;
 }
 
-export function SyncPanel({ state, sync }: SyncPanelProps) {
+export function SyncPanel({ state, sync, online }: SyncPanelProps) {
   const { status, message, busy, formError, conflicted, siteNames } = state;
   const [editing, setEditing] = useState(false);
   const [url, setUrl] = useState('');
   const [token, setToken] = useState('');
+  const [exportDemo, setExportDemo] = useState(false);
 
   // Shown: the background sync client starts (once) and the status is re-read.
   useEffect(() => sync.attach(), [sync]);
@@ -76,16 +80,8 @@ export function SyncPanel({ state, sync }: SyncPanelProps) {
     if (file) void sync.importBundle(file);
   };
 
-  const stateText =
-    status.state === 'syncing'
-      ? 'Syncing…'
-      : status.state === 'offline'
-        ? 'Offline: changes wait on this tablet.'
-        : status.state === 'error'
-          ? 'The last sync did not finish; it will be tried again.'
-          : status.state === 'not-set-up'
-            ? 'Not set up: enter the office address and this tablet’s token.'
-            : 'Up to date as of the last sync.';
+  // The words come from one pure rule (pwa/sync/sync-state.ts): never "up to date" while anything waits.
+  const words = syncWords(status, online, (iso) => when(iso));
 
   return (
     <section class="panel sync" aria-labelledby="sync-h">
@@ -93,12 +89,26 @@ export function SyncPanel({ state, sync }: SyncPanelProps) {
       <dl class="sync-status" aria-live="polite">
         <div>
           <dt>State</dt>
-          <dd data-testid="sync-state">{stateText}</dd>
+          <dd data-testid="sync-state">{words.headline}</dd>
         </div>
         <div>
           <dt>Changes waiting to be sent</dt>
-          <dd data-testid="sync-pending">{status.pending}</dd>
+          <dd>
+            <span class="sr-only">{words.waiting}</span>
+            <span aria-hidden="true" data-testid="sync-pending">
+              {status.pending}
+            </span>
+            {status.heldDemo > 0 ? <span class="hint"> (the invented demo site’s {status.heldDemo} stay on this tablet)</span> : null}
+          </dd>
         </div>
+        {words.lastAttempt ? (
+          <div>
+            <dt>Last attempt</dt>
+            <dd class={words.lastAttemptFailed ? 'error' : undefined} data-testid="sync-last-attempt">
+              {words.lastAttempt}
+            </dd>
+          </div>
+        ) : null}
         <div>
           <dt>Last successful sync</dt>
           <dd data-testid="sync-last-success">{when(status.lastSuccess)}</dd>
@@ -122,9 +132,20 @@ export function SyncPanel({ state, sync }: SyncPanelProps) {
           <p class="caption">
             Office: <span data-testid="sync-server">{status.serverUrl}</span>
           </p>
-          <button type="button" class="primary" disabled={busy || status.state === 'syncing'} onClick={() => void sync.syncNow()}>
+          <button
+            type="button"
+            class="primary"
+            disabled={busy || !words.canSyncNow}
+            aria-describedby={words.canSyncNow ? undefined : 'sync-now-why'}
+            onClick={() => void sync.syncNow()}
+          >
             Sync now
           </button>
+          {words.canSyncNow ? null : (
+            <p id="sync-now-why" class="hint" data-testid="sync-now-why">
+              {words.syncNowBlocked}
+            </p>
+          )}
           <button
             type="button"
             onClick={() => {
@@ -142,7 +163,7 @@ export function SyncPanel({ state, sync }: SyncPanelProps) {
             <input name="sync-url" inputMode="url" autoComplete="off" placeholder="http://192.168.1.20:8750" value={url} onInput={(e) => setUrl(e.currentTarget.value)} />
           </label>
           <label class="field wide">
-            <span>Device token (from “shearfield device add”)</span>
+            <span>Device token (the office gives one to each tablet, once; paste it whole)</span>
             <input name="sync-token" type="password" autoComplete="off" value={token} onInput={(e) => setToken(e.currentTarget.value)} />
           </label>
           <button type="submit" class="primary" disabled={busy}>
@@ -213,10 +234,21 @@ export function SyncPanel({ state, sync }: SyncPanelProps) {
         </section>
       ) : null}
 
+      {status.heldDemo > 0 || status.includeDemo ? (
+        <label class="check">
+          <input type="checkbox" checked={status.includeDemo} disabled={busy} onChange={(e) => void sync.setIncludeDemo(e.currentTarget.checked)} />
+          Send the invented demo site to the office too
+        </label>
+      ) : null}
+
       <div class="row-form bundles">
-        <button type="button" disabled={busy} onClick={() => void sync.exportAll()}>
+        <button type="button" disabled={busy} onClick={() => void sync.exportAll(exportDemo)}>
           Export all sites as a bundle file
         </button>
+        <label class="check">
+          <input type="checkbox" checked={exportDemo} onChange={(e) => setExportDemo(e.currentTarget.checked)} />
+          Include the invented demo site
+        </label>
         <label class="button">
           Import a bundle file
           <input type="file" accept=".json,application/json" class="sr-only" disabled={busy} onChange={(e) => importFile(e.currentTarget)} />

@@ -87,6 +87,7 @@ export function WhatIfView(props: WhatIfViewProps) {
             Back to the best fit
           </button>
         </div>
+        <Caution />
         <p class="hint">Drag to see how another layer over half-space would look against the picks. Nothing here is saved.</p>
         {SLIDERS.map((s) => {
           const id = `wi-${s.key}`;
@@ -119,7 +120,6 @@ export function WhatIfView(props: WhatIfViewProps) {
             {props.result ? `; the best fit has χ² = ${num(props.result.chi2)}` : ''}.
           </p>
         ) : null}
-        <Caution />
       </section>
       <PlotPanel
         id="whatif-plot-h"

@@ -236,7 +236,7 @@ describe('diagnostics in plain words', () => {
     picks[6] = { ...picks[6], velocity: picks[6].velocity * 1.25, id: 'P7' };
     const r = estimateLayer(picks, { vs1: 200, vs2: 500 });
     expect(r.diagnostics.outliers.map((o) => o.index)).toContain(6);
-    expect(r.warnings.join('\n')).toMatch(/pick 7 \(id "P7"\) \([\d.]+ Hz, phase, mode 0, [\d.]+ m\/s\) misfits the best model by [\d.]+ standard deviations/);
+    expect(r.warnings.join('\n')).toMatch(/Pick 7 \(id "P7"\) \([\d.]+ Hz, phase, mode 0, [\d.]+ m\/s\) misfits the best model by [\d.]+ standard deviations/);
     expect(r.diagnostics.fit).toBe('poor');
     expect(r.intervalScale).toBeGreaterThan(1);
   });
@@ -249,7 +249,7 @@ describe('diagnostics in plain words', () => {
     const r = estimateLayer(picks, { vs1: 200, vs2: 500 });
     const flagged = r.diagnostics.betterMode.find((b) => b.index === 15);
     expect(flagged?.mode).toBe(1);
-    expect(r.warnings.join('\n')).toMatch(/pick 16 .* fits mode 1 of the best model better/);
+    expect(r.warnings.join('\n')).toMatch(/Pick 16 .* fits mode 1 of the best model better/);
   });
 
   it('flags a pick below its mode’s cutoff and a phase pick outside (β1, β2)', () => {
@@ -261,8 +261,8 @@ describe('diagnostics in plain words', () => {
     expect(r.diagnostics.belowCutoff.map((b) => b.index)).toContain(15);
     expect(r.diagnostics.outsideTrapping.map((b) => b.index)).toContain(16);
     const text = r.warnings.join('\n');
-    expect(text).toMatch(/pick 16 .* lies below the cutoff of mode 1/);
-    expect(text).toMatch(/pick 17 .* lies outside what the best model can carry: a phase velocity must lie between the layer and half-space speeds \(200–500 m\/s\)/);
+    expect(text).toMatch(/Pick 16 .* lies below the cutoff of mode 1/);
+    expect(text).toMatch(/Pick 17 .* lies outside what the best model can carry: a phase velocity must lie between the layer and half-space speeds \(200–500 m\/s\)/);
   });
 
   it('says how many picks used the default standard deviation, and that densities were defaulted', () => {

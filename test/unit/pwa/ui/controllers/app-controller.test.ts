@@ -112,7 +112,8 @@ describe('typed picks', () => {
     await typeRow(c, '12', '0.2');
     const d = c.current.drafts[NEW_ROW];
     expect(d.error).toBe(
-      'Pick 1, column velocity_m_s: is 0.2 m/s, below the 30 m/s lower bound. It looks like km/s; the velocity must be given in m/s (the value was not converted).',
+      // Hand entry names the column by its heading's word, not the CSV name (velocity_m_s).
+      'Pick 1, velocity: is 0.2 m/s, below the 30 m/s lower bound. It looks like km/s; the velocity must be given in m/s (the value was not converted).',
     );
     expect(d.errorColumn).toBe('velocity_m_s');
     expect(d.cells.velocity_m_s).toBe('0.2');
@@ -124,7 +125,7 @@ describe('typed picks', () => {
     await typeRow(c, '12', '180');
     await typeRow(c, '12', '190');
     expect(c.current.drafts[NEW_ROW].error).toBe(
-      'Pick 2, column frequency_hz: repeats 12 Hz for a group pick of mode 0, already given in pick 1; keep one pick per frequency, kind and mode.',
+      'Pick 2, frequency: repeats 12 Hz for a group pick of mode 0, already given in pick 1; keep one pick per frequency, kind and mode.',
     );
     expect(c.current.picks.length).toBe(1);
   });
