@@ -37,7 +37,7 @@ const CSV =
     const u = loveVelocities(LAYER, f, 0).group;
     return `${f},${u.toFixed(1)},${(0.03 * u).toFixed(1)}`;
   }).join('\n');
-const VIEWS = ['Picks & plot', 'Estimate', 'Site figures', 'What-if', 'Survey plan', 'Site details'];
+const VIEWS = ['Picks & plot', 'Records', 'Estimate', 'Site figures', 'What-if', 'Survey plan', 'Site details'];
 
 let app: AppSession;
 let page: Page;
