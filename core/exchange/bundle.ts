@@ -9,7 +9,14 @@
  *   { "format": "shearfield-site-bundle", "version": 1,
  *     "exportedAt": ISO 8601 UTC, "exportedBy"?: text,
  *     "caution": the screening caution (core/shared/caution.ts),
- *     "sites": SiteRecord[], "picks": PickRecord[], "estimates": EstimateRecord[] }
+ *     "sites": SiteRecord[], "picks": PickRecord[], "estimates": EstimateRecord[],
+ *     "recordings"?: RecordingRecord[], "recordingFiles"?: [{id, sha256, bytes_base64}] }
+ *
+ * Seismograph files (optional, added within format version 1): the
+ * recording records always travel with their site; a raw file travels in
+ * `recordingFiles` (base64, RFC 4648) only when its recording's `attach` is
+ * set (the site's choice). A reader that predates them refuses such a file
+ * with "unknown field", and changes nothing.
  *
  * Records are exactly the stored records (core/exchange/records.ts), deletions
  * (tombstones), lineage (`history`) and kept conflicts included, so an
@@ -32,7 +39,9 @@ import { CAUTION } from '../shared/caution';
 import { InputError, describeValue } from '../shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../dispersion/model';
 import { validatePick } from '../picks/picks';
-import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordType, SiteRecord } from './records';
+import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordingRecord, RecordType, SiteRecord } from './records';
+import { fromBase64 } from './base64';
+import { checkRecordingFields } from './recording-record';
 import { checkDocumentDepth, checkRecordLimits } from './record-limits';
 import { revisionKey } from './revision';
 import { planMerge, type MergePlan } from './sync';
@@ -53,6 +62,20 @@ export interface SiteBundle {
   sites: SiteRecord[];
   picks: PickRecord[];
   estimates: EstimateRecord[];
+  /** Seismograph files kept with the sites (the records; absent when there are none). */
+  recordings?: RecordingRecord[];
+  /** The raw files of recordings whose site chose to send them. */
+  recordingFiles?: RecordingFile[];
+}
+
+/** A raw seismograph file inside a bundle or a sync body. */
+export interface RecordingFile {
+  /** The recording record's id. */
+  id: string;
+  /** SHA-256 of the bytes, as the record states it (the receiver checks it). */
+  sha256: string;
+  /** The bytes, base64 (RFC 4648 §4). */
+  bytes_base64: string;
 }
 
 /** How `makeBundle` writes a bundle. */
@@ -63,13 +86,17 @@ export interface BundleOptions {
   now?: Date;
   /** Only these sites (and their picks and estimates). @default every site in `records` */
   siteIds?: readonly string[];
+  /** Recording records to carry (those of the kept sites go in). @default none */
+  recordings?: readonly RecordingRecord[];
+  /** Raw files to carry: only those of carried, live recordings whose `attach` is set go in. @default none */
+  recordingFiles?: readonly RecordingFile[];
 }
 
 // --- Schema check (compiled once, on first use) ---------------------------------
 
-let validators: Record<'bundle' | RecordType, ValidateFunction> | undefined;
+let validators: Record<'bundle' | RecordType | 'recording', ValidateFunction> | undefined;
 
-function compiled(): Record<'bundle' | RecordType, ValidateFunction> {
+function compiled(): Record<'bundle' | RecordType | 'recording', ValidateFunction> {
   if (!validators) {
     const ajv = new Ajv({ allErrors: false, strict: true, allowUnionTypes: true });
     ajv.addSchema(schema);
@@ -79,6 +106,7 @@ function compiled(): Record<'bundle' | RecordType, ValidateFunction> {
       site: ajv.getSchema(`${id}#/definitions/site`)!,
       pick: ajv.getSchema(`${id}#/definitions/pick`)!,
       estimate: ajv.getSchema(`${id}#/definitions/estimate`)!,
+      recording: ajv.getSchema(`${id}#/definitions/recording`)!,
     };
   }
   return validators;
@@ -284,7 +312,7 @@ export function parseBundle(text: unknown): SiteBundle {
   }
   const obj = data as Record<string, unknown>;
   // The depth and size bound first, record by record (so the message names the record), then the whole file.
-  for (const list of ['sites', 'picks', 'estimates']) {
+  for (const list of ['sites', 'picks', 'estimates', 'recordings']) {
     const items = obj[list];
     if (Array.isArray(items)) items.forEach((rec, i) => checkRecordLimits(rec, whereRecord(list, i)));
   }
@@ -329,7 +357,50 @@ export function parseBundle(text: unknown): SiteBundle {
       checkConflictKeys(rec, where);
     });
   }
+  checkRecordings(bundle, ids, siteIds);
   return bundle;
+}
+
+/** The recordings of a bundle and their raw files: ids, sites, the recording rules, and each file against its record. */
+function checkRecordings(bundle: SiteBundle, ids: Map<string, string>, siteIds: ReadonlySet<string>): void {
+  const lead = 'The bundle is not valid';
+  const byId = new Map<string, RecordingRecord>();
+  (bundle.recordings ?? []).forEach((rec, i) => {
+    const where = whereRecord('recordings', i);
+    const prior = ids.get(rec.id);
+    if (prior !== undefined) {
+      throw new InputError(`${where}.id`, `${lead}: ${where}.id repeats the id ${describeValue(rec.id)} of ${prior}; each record appears once.`);
+    }
+    ids.set(rec.id, where);
+    if (!siteIds.has(rec.siteId)) {
+      throw new InputError(`${where}.siteId`, `${lead}: ${where}.siteId names site ${describeValue(rec.siteId)}, which is not in the file.`);
+    }
+    for (const [version, at] of [[rec, where], ...(rec.conflicts ?? []).map((c, k) => [c.record, `${where}.conflicts[${k}].record`])] as [RecordingRecord, string][]) {
+      try {
+        checkRecordingFields(version as unknown as Record<string, unknown>);
+      } catch (e) {
+        if (e instanceof InputError) throw new InputError(`${at}.${e.field}`, `${lead}: in ${at}, ${e.message.charAt(0).toLowerCase()}${e.message.slice(1)}`);
+        throw e;
+      }
+    }
+    checkConflictKeys(rec as unknown as AnyRecord, where);
+    byId.set(rec.id, rec);
+  });
+  const seen = new Set<string>();
+  (bundle.recordingFiles ?? []).forEach((f, i) => {
+    const where = `recordingFiles[${i}]`;
+    const rec = byId.get(f.id);
+    if (!rec) throw new InputError(`${where}.id`, `${lead}: ${where}.id names recording ${describeValue(f.id)}, which is not in the file.`);
+    if (seen.has(f.id)) throw new InputError(`${where}.id`, `${lead}: ${where} repeats the file of recording ${describeValue(f.id)}; each file appears once.`);
+    seen.add(f.id);
+    if (f.sha256 !== rec.sha256) {
+      throw new InputError(`${where}.sha256`, `${lead}: ${where}.sha256 differs from the SHA-256 its recording states; the file is not the one recorded.`);
+    }
+    const bytes = fromBase64(f.bytes_base64, `${where}.bytes_base64`);
+    if (bytes.length !== rec.byteLength) {
+      throw new InputError(`${where}.bytes_base64`, `${lead}: ${where} holds ${bytes.length} bytes, but its recording states ${rec.byteLength}; the file is cut short or not the one recorded.`);
+    }
+  });
 }
 
 // --- Writing ---------------------------------------------------------------
@@ -358,6 +429,14 @@ export function makeBundle(records: readonly AnyRecord[], options: BundleOptions
     estimates,
   };
   if (options.exportedBy !== undefined) bundle.exportedBy = options.exportedBy;
+  const recordings = (options.recordings ?? []).filter((r) => keep.has(r.siteId));
+  if (recordings.length > 0) {
+    recordings.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+    bundle.recordings = recordings;
+    const sending = new Set(recordings.filter((r) => r.attach && !r.deleted).map((r) => r.id));
+    const files = (options.recordingFiles ?? []).filter((f) => sending.has(f.id));
+    if (files.length > 0) bundle.recordingFiles = files.sort((a, b) => (a.id < b.id ? -1 : a.id > b.id ? 1 : 0));
+  }
   return bundle;
 }
 
