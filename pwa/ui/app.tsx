@@ -285,6 +285,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
         <views.RecordsView
           siteId={site.id}
           state={s.records}
+          keptIds={s.recordings.siteId === site.id ? new Set(s.recordings.list.map((r) => r.id)) : undefined}
           picks={s.picks}
           model={fitted}
           estimate={s.estimate}

@@ -51,7 +51,7 @@ export class AppController {
     this.sites = new SitesController(this.hub, this.picks, this.estimates, this.recordings);
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
     this.sync = new SyncController(this.hub, this.sites, this.picks);
-    this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute);
+    this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute, this.recordings);
   }
 
   get current(): AppState {

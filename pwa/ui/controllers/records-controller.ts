@@ -32,6 +32,7 @@ import { newPick } from '../../store';
 import { computeImage, computeReadRecord, computeRidge, isAbortError, LatestOnly } from '../../worker/bridge';
 import type { EstimateController } from './estimate-controller';
 import { storedPicks, type PicksController } from './picks-controller';
+import type { RecordingsController } from './recordings-controller';
 import { messageOf, type StateHub } from './state-hub';
 
 /** One record kept for the session. */
@@ -102,6 +103,8 @@ export class RecordsController {
     private readonly picks: PicksController,
     private readonly estimates: EstimateController,
     private readonly compute: RecordsCompute = BRIDGE,
+    /** The site's list of kept files (site details), told when a file is added or removed here. */
+    private readonly kept?: RecordingsController,
   ) {}
 
   private get s(): RecordsState {
@@ -155,6 +158,7 @@ export class RecordsController {
     if (rec.stored && this.hub.store) {
       try {
         await this.hub.store.deleteRecording(rec.id);
+        await this.kept?.load(rec.siteId);
       } catch (e) {
         this.set({ error: `${rec.name} was not removed: ${messageOf(e)}` });
         return;
@@ -181,6 +185,7 @@ export class RecordsController {
       try {
         const saved = await store.saveRecording({ siteId: rec.siteId, name: rec.name, bytes: rec.bytes, geometry: geometrySummary(result.recording) });
         read = { ...read, id: saved.id, stored: true };
+        await this.kept?.load(rec.siteId);
       } catch (e) {
         this.hub.notify('error', `${rec.name} was not saved on this device: ${messageOf(e)} It stays open for this session only.`);
       }

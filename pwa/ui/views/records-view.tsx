@@ -17,6 +17,8 @@ import '../styles/records.css';
 export interface RecordsViewProps {
   siteId: string;
   state: RecordsState;
+  /** Ids of the site's files still kept in the store (a file deleted under Site details leaves this view too); undefined until listed. */
+  keptIds?: ReadonlySet<string>;
   picks: readonly PickRecord[];
   model?: LayeredModel;
   estimate: EstimateState;
@@ -30,7 +32,7 @@ const fmt = (x: number, digits = 3) => String(Number(x.toPrecision(digits)));
 
 export function RecordsView(p: RecordsViewProps) {
   const s = p.state;
-  const list = s.list.filter((r) => r.siteId === p.siteId);
+  const list = s.list.filter((r) => r.siteId === p.siteId && (!r.stored || !p.keptIds || p.keptIds.has(r.id)));
   const rec = list.find((r) => r.id === s.openId);
   const g = rec?.recording;
   const ridge = s.ridge;

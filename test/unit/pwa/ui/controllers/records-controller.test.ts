@@ -126,6 +126,8 @@ describe('records controller', () => {
     const kept = await store.listRecordings(siteId);
     expect(kept.map((r) => r.name)).toEqual(['kept.sgy']);
     expect(kept[0].geometry.traces).toBe(24);
+    // The site's list of kept files (under Site details) hears of it.
+    expect(c.current.recordings.list.map((r) => r.name)).toEqual(['kept.sgy']);
     c.records.reset();
     await c.records.loadStored(siteId);
     expect(c.current.records.list.map((r) => [r.name, r.stored, r.bytes])).toEqual([['kept.sgy', true, undefined]]);
@@ -134,6 +136,7 @@ describe('records controller', () => {
     await c.records.remove();
     expect(await store.listRecordings(siteId)).toEqual([]);
     expect(c.current.records.list).toEqual([]);
+    expect(c.current.recordings.list).toEqual([]);
   });
 
   it('opens the invented demo record, marked invented', async () => {
