@@ -21,7 +21,7 @@ import { describe, expect, it } from 'vitest';
 import { loveVelocities } from '../../core/dispersion/love-layer';
 import { linearAxis, MARGINAL, RELIABLE, UNRELIABLE } from '../../core/signal/image';
 import { incoherentBelow, phaseShiftImage } from '../../core/signal/phase-shift';
-import { followRidge, strongestRidgeSeed } from '../../core/signal/ridge';
+import { followRidge, sdFloor, strongestRidgeSeed } from '../../core/signal/ridge';
 import { gaussian, mulberry32 } from '../../core/shared/random';
 import { INVENTED_SOFT_SITE } from '../fixtures';
 import { SOFT_GATHER, softSiteGather } from '../signal-fixtures';
@@ -90,6 +90,33 @@ describe('phase-shift image of one plane wave (array response derived above)', (
       expect(expected * f * N * dx).toBeLessThan(0.9);
     });
   }
+});
+
+describe('ridge sd on the plane wave: the Gaussian sd of the derived half-power width', () => {
+  it('gives each point sd = W/(2√(2 ln 2)), W the array response\'s half-power width in velocity, above the record\'s floor', () => {
+    const N = 24;
+    const dx = 2;
+    const c0 = 300;
+    const g = planeWave(N, dx, c0, 0.001, 1024);
+    const velocities = linearAxis(200, 450, 1001, 'velocity', 'm/s');
+    const img = phaseShiftImage(g, { frequencies: linearAxis(15, 30, 16, 'frequency', 'Hz'), velocities });
+    const ridge = followRidge(img, { frequency: 20, velocity: c0 });
+    expect(ridge.velocity.length).toBe(16);
+    const theta = halfPowerTheta(N);
+    for (let k = 0; k < ridge.velocity.length; k++) {
+      const f = ridge.frequency[k];
+      const ds = theta / (2 * Math.PI * f * dx); // half the half-power width in slowness
+      const width = 1 / (1 / c0 - ds) - 1 / (1 / c0 + ds);
+      const want = width / (2 * Math.sqrt(2 * Math.LN2));
+      const diff = Math.abs(ridge.sd[k] - want) / want;
+      // Tolerance: half-power crossings interpolated between cells 0.25 m/s apart.
+      if (!(diff < 5e-3)) throw new Error(`f ${f} Hz: expected sd ${want} m/s, got ${ridge.sd[k]}, relative difference ${diff} > 5e-3`);
+      const floor = sdFloor(img, f, c0, 0);
+      expect(ridge.sd[k]).toBeGreaterThan(floor);
+      // The floor: one slowness cell 1/(f·L) over the spread, as the sd of a uniform spread (cell/√12).
+      expect(floor).toBeCloseTo((c0 * c0) / (f * dx * (N - 1)) / Math.sqrt(12), 9);
+    }
+  });
 });
 
 describe('phase-shift ridge on a synthetic Love-wave gather (modal solution of core/dispersion)', () => {

@@ -104,6 +104,31 @@ describe('records controller', () => {
     expect(await store.listPicks(c.current.openSiteId!)).toHaveLength(0);
   });
 
+  it('trims the ridge by dragging its ends and adds only the kept points', async () => {
+    const c = await started();
+    await c.records.importFile(file(segy, 'gather.sgy'));
+    await c.records.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
+    const ridge = c.current.records.ridge!;
+    const n = ridge.velocity.length;
+    c.records.dragEnd('low', ridge.frequency[3]);
+    c.records.dragEnd('high', ridge.frequency[n - 3]);
+    expect(c.current.records.range).toEqual([3, n - 3]);
+    // An end dragged past the other stops there.
+    c.records.dragEnd('low', 1e6);
+    expect(c.current.records.range).toEqual([n - 3, n - 3]);
+    c.records.dragEnd('low', ridge.frequency[3]);
+    c.records.togglePoint(5);
+    c.records.togglePoint(6);
+    c.records.togglePoint(6);
+    c.records.setMode('1');
+    const kept = c.records.keptPicks();
+    expect(kept).toHaveLength(n - 3 - 3 + 1 - 1);
+    expect(kept.every((p) => p.mode === 1)).toBe(true);
+    expect(kept.some((p) => p.frequency === ridge.frequency[5])).toBe(false);
+    await c.records.addToPicks();
+    expect(await store.listPicks(c.current.openSiteId!)).toHaveLength(kept.length);
+  });
+
   it('refuses points that repeat a pick of the table, or a bad mode, and saves nothing', async () => {
     const c = await started();
     await c.records.importFile(file(segy, 'gather.sgy'));
