@@ -113,7 +113,20 @@ export function blockContains(bytes: Uint8Array, needle: string): boolean {
   return false;
 }
 
-/** The text of a textual-header block, decoding EBCDIC or ASCII as its bytes show. */
-export function textOfBlock(bytes: Uint8Array): { text: string; encoding: 'ebcdic' | 'ascii' } {
-  return looksEbcdic(bytes) ? { text: textFromEbcdic(bytes), encoding: 'ebcdic' } : { text: textFromAscii(bytes), encoding: 'ascii' };
+/** Code point → itself, but control characters (C0, DEL, C1) → space, for display. */
+const PRINTABLE = new Uint8Array(256).map((_, c) => (c < 0x20 || (c >= 0x7f && c < 0xa0) ? 0x20 : c));
+
+/**
+ * A textual header for display: decoded as EBCDIC or ASCII (looksEbcdic),
+ * control characters shown as spaces, cut into 80-character card lines with
+ * trailing blanks removed, and trailing empty lines dropped.
+ */
+export function textHeaderLines(block: Uint8Array): string {
+  const ebcdic = looksEbcdic(block);
+  const codes = new Uint8Array(block.length);
+  for (let i = 0; i < block.length; i++) codes[i] = PRINTABLE[ebcdic ? EBCDIC_TO_CODE[block[i]] : block[i]];
+  const lines: string[] = [];
+  for (let i = 0; i < codes.length; i += 80) lines.push(String.fromCharCode(...codes.subarray(i, i + 80)).trimEnd());
+  while (lines.length > 0 && lines[lines.length - 1] === '') lines.pop();
+  return lines.join('\n');
 }

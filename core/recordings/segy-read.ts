@@ -29,7 +29,7 @@
  * the samples the file really holds (padding is capped, see MAX_PAD_FACTOR).
  */
 import { InputError } from '../shared/errors';
-import { blockContains, textOfBlock } from './ebcdic';
+import { blockContains, textHeaderLines } from './ebcdic';
 import { MAX_ABS_DELAY_S, withGeometryQuestions, type Component, type Place, type Recording } from './recording';
 import { decodeSamples, isSegyFormatCode, SEGY_FORMATS, type SegyFormatCode } from './segy-formats';
 
@@ -440,11 +440,7 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
     }
   }
 
-  const lines = textOfBlock(bytes.subarray(0, TEXT_HEADER_BYTES)).text.match(/.{1,80}/gs) ?? [];
-  const textHeader = lines
-    .map((l) => l.replace(/[\x00-\x1f\x7f-\x9f]/g, ' ').trimEnd())
-    .join('\n')
-    .trimEnd();
+  const textHeader = textHeaderLines(bytes.subarray(0, TEXT_HEADER_BYTES));
   return withGeometryQuestions({
     format: 'segy',
     textHeader,

@@ -81,16 +81,18 @@ function fuzz(label: string, good: Uint8Array, hot: number[], read: (b: Uint8Arr
   expect(refused).toBeGreaterThan(100);
 }
 
-const traces = Array.from({ length: 4 }, (_, k) => Array.from({ length: 48 }, (_, i) => Math.round(1000 * Math.sin(0.3 * i + k))));
+/** Samples per trace: small files keep 10 000 mutations quick on a busy machine; the header fields are what mutations probe. */
+const N = 20;
+const traces = Array.from({ length: 4 }, (_, k) => Array.from({ length: N }, (_, i) => Math.round(1000 * Math.sin(0.3 * i + k))));
 
 describe('10 000 mutations per reader: a Recording or one InputError, bounded allocation', () => {
   it('SEG-Y (rev 2, little-endian, extended header, variable lengths)', () => {
     const good = writeSegy(
-      { sampleInterval: 0.0005, delay: 0, traces: [...traces.slice(0, 3), traces[3].slice(0, 20)], offsets: [2, 4, 6, 8], component: 'transverse' },
+      { sampleInterval: 0.0005, delay: 0, traces: [...traces.slice(0, 3), traces[3].slice(0, 12)], offsets: [2, 4, 6, 8], component: 'transverse' },
       { revision: 2, littleEndian: true, format: 5, variableLengths: true, extendedHeaders: ['invented'], extendedForm: 'variable' },
     );
     const hot = [3212, 3216, 3220, 3224, 3254, 3268, 3272, 3296, 3500, 3502, 3504, 3506, 3512, 3520, 3528];
-    for (const base of [6800, 6800 + 240 + 48 * 4]) hot.push(base + 28, base + 36, base + 70, base + 108, base + 114, base + 116, base + 214);
+    for (const base of [6800, 6800 + 240 + N * 4]) hot.push(base + 28, base + 36, base + 70, base + 108, base + 114, base + 116, base + 214);
     fuzz('SEG-Y', good, hot, (b) => readSegy(b, 'f.sgy'), 1201);
   });
   it('SEG-Y (rev 1, big-endian, IBM float) through readRecording', () => {
@@ -114,7 +116,7 @@ describe('10 000 mutations per reader: a Recording or one InputError, bounded al
   });
   it('CSV traces', () => {
     let text = 'time_s,5,6,7,8\n';
-    for (let i = 0; i < 48; i++) text += [i * 0.001, ...traces.map((t) => t[i])].join(',') + '\n';
+    for (let i = 0; i < N; i++) text += [i * 0.001, ...traces.map((t) => t[i])].join(',') + '\n';
     const good = Uint8Array.from(text, (c) => c.charCodeAt(0));
     fuzz('CSV', good, [], (b) => readCsvTraces(textOfBytes(b), 'f.csv'), 1205);
   });
