@@ -20,6 +20,8 @@ import { InputError } from '../../../../core/shared/errors';
 import { mulberry32 } from '../../../../core/shared/random';
 
 const MUTATIONS = 10_000;
+/** A few seconds on an idle machine; the 2-core CI box shared with other jobs can be many times slower. */
+const BUSY_MACHINE = { timeout: 120_000 };
 const EXTREMES16 = [0, 0xffff, 0x7fff, 0x8000, 1];
 const EXTREMES32 = [0, 0xffffffff, 0x7fffffff, 0x80000000, 1, 0x7f800000 /* +Inf as float32 */, 0x7fc00000 /* NaN */];
 
@@ -86,7 +88,7 @@ const N = 20;
 const traces = Array.from({ length: 4 }, (_, k) => Array.from({ length: N }, (_, i) => Math.round(1000 * Math.sin(0.3 * i + k))));
 
 describe('10 000 mutations per reader: a Recording or one InputError, bounded allocation', () => {
-  it('SEG-Y (rev 2, little-endian, extended header, variable lengths)', () => {
+  it('SEG-Y (rev 2, little-endian, extended header, variable lengths)', BUSY_MACHINE, () => {
     const good = writeSegy(
       { sampleInterval: 0.0005, delay: 0, traces: [...traces.slice(0, 3), traces[3].slice(0, 12)], offsets: [2, 4, 6, 8], component: 'transverse' },
       { revision: 2, littleEndian: true, format: 5, variableLengths: true, extendedHeaders: ['invented'], extendedForm: 'variable' },
@@ -95,11 +97,11 @@ describe('10 000 mutations per reader: a Recording or one InputError, bounded al
     for (const base of [6800, 6800 + 240 + N * 4]) hot.push(base + 28, base + 36, base + 70, base + 108, base + 114, base + 116, base + 214);
     fuzz('SEG-Y', good, hot, (b) => readSegy(b, 'f.sgy'), 1201);
   });
-  it('SEG-Y (rev 1, big-endian, IBM float) through readRecording', () => {
+  it('SEG-Y (rev 1, big-endian, IBM float) through readRecording', BUSY_MACHINE, () => {
     const good = writeSegy({ sampleInterval: 0.001, delay: 0.01, traces, offsets: [1, 2, 3, 4] }, { revision: 1, format: 1 });
     fuzz('SEG-Y IBM', good, [3216, 3220, 3224, 3502, 3504, 3600 + 114, 3600 + 108], (b) => readRecording(b, 'f.sgy'), 1202);
   });
-  it('SEG-2 (formats 3 and 4)', () => {
+  it('SEG-2 (formats 3 and 4)', BUSY_MACHINE, () => {
     for (const [format, seed] of [
       [4, 1203],
       [3, 1204],
@@ -114,7 +116,7 @@ describe('10 000 mutations per reader: a Recording or one InputError, bounded al
       fuzz(`SEG-2 format ${format}`, good, hot, (b) => readSeg2(b, 'f.sg2'), seed);
     }
   });
-  it('CSV traces', () => {
+  it('CSV traces', BUSY_MACHINE, () => {
     let text = 'time_s,5,6,7,8\n';
     for (let i = 0; i < N; i++) text += [i * 0.001, ...traces.map((t) => t[i])].join(',') + '\n';
     const good = Uint8Array.from(text, (c) => c.charCodeAt(0));
