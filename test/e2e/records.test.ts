@@ -8,7 +8,9 @@
  *  3. import a synthetic SEG-2 single-trace record, tap its multiple-filter
  *     image once, add the picks;
  *  4. the estimate's 95 % interval holds the true thickness; the image view
- *     is photographed for the README (docs/screenshot-records.png).
+ *     is photographed for the README (docs/screenshot-records.png);
+ *  5. at phone size, with the image and the ridge's points open, nothing
+ *     scrolls sideways.
  *
  * The records are invented: test/signal-fixtures.ts makes them from the
  * core's own modal solution of the invented soft site (H = 12 m), and the
@@ -143,5 +145,15 @@ describe('records to picks to an estimate, offline', () => {
     await page.locator('figure.image-figure').scrollIntoViewIfNeeded();
     await page.locator('figure.image-figure').screenshot({ path: shot });
     copyFileSync(shot, join(REPO_ROOT, 'docs', 'screenshot-records.png'));
+  }, 180_000);
+
+  it('5. fits a phone with the image and the ridge points open: nothing scrolls sideways', async () => {
+    await page.setViewportSize(VIEWPORTS.phone);
+    await page.locator('canvas.dispersion-image').waitFor();
+    await page.getByRole('button', { name: 'Add to picks' }).waitFor();
+    await page.waitForTimeout(300);
+    const [scroll, inner] = await page.evaluate(() => [document.documentElement.scrollWidth, window.innerWidth]);
+    expect(scroll, `page ${scroll} px wide in a ${inner} px window`).toBeLessThanOrEqual(inner);
+    await page.setViewportSize(VIEWPORTS.tabletLandscape);
   }, 180_000);
 });
