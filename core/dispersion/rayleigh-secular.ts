@@ -333,13 +333,137 @@ function pairing(m: Float64Array, n: Float64Array): number {
 
 const minors = new Float64Array(6);
 const nH = new Float64Array(6);
+const m5 = new Float64Array(5);
+
+/**
+ * Carries the five independent minors through layer j at (c, k): the fast
+ * form of `step`. The surface solutions keep m_13 = −m_02 (a symplectic
+ * invariant of the P-SV system), so five minors suffice (Dunkin 1965):
+ * w = (m_01, m_02, m_03, m_12, m_23), here with the stresses of layer j
+ * divided by μ_j k (so no moduli appear). The 5×5 matrix below is
+ * P m Pᵀ of the header written out (D = C_aC_b − e, e the scale factor of
+ * the constant terms; t = 2u − 1), checked against `step` in
+ * test/unit/core/dispersion/rayleigh-stack.test.ts.
+ */
+function fastStep(s: RayleighStack, j: number, c: number, k: number, w: Float64Array): void {
+  const beta = s.vs[j];
+  const u = (beta * beta) / (c * c);
+  const x = 1 / u;
+  const p = s.p[j];
+  const L = k * s.thickness[j];
+  functions(fa, 1 - p * x, L);
+  functions(fb, 1 - x, L);
+  const e = Math.exp(-(fa.expo + fb.expo));
+  const CC = fa.C * fb.C;
+  const CS = fa.C * fb.S;
+  const SC = fa.S * fb.C;
+  const SS = fa.S * fb.S;
+  const D = CC - e;
+  const t = 2 * u - 1;
+  const u1 = u - 1;
+  const pu = p - u;
+  const t2u = (t * t) / u;
+  const s00 = 4 * p * u1 - 2 * t * t + 1;
+  const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
+  const s04 = u * t - p * u1;
+  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) / u;
+  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) / (u * u);
+  const d4u1 = 4 * u - 1;
+  const w0 = w[0];
+  const w1 = w[1];
+  const w2 = w[2];
+  const w3 = w[3];
+  const w4 = w[4];
+  w[0] =
+    (CC + 4 * u * t * D + SS * s00) * w0 +
+    (2 * u * d4u1 * D + SS * s01) * w1 +
+    (u * CS + pu * SC) * w2 +
+    (u1 * CS - u * SC) * w3 +
+    (-2 * u * u * D + SS * s04) * w4;
+  w[1] =
+    (-2 * t * d4u1 * D + SS * s10) * w0 +
+    (e - 8 * u * t * D - 2 * SS * s00) * w1 +
+    (-t * CS - 2 * pu * SC) * w2 +
+    (-2 * u1 * CS + t * SC) * w3 +
+    (u * d4u1 * D + 0.5 * SS * s01) * w4;
+  w[2] =
+    (4 * u1 * CS - t2u * SC) * w0 +
+    (4 * u1 * CS - 2 * t * SC) * w1 +
+    CC * w2 +
+    (-(u1 / u) * SS) * w3 +
+    (-u1 * CS + u * SC) * w4;
+  w[3] =
+    (t2u * CS + 4 * pu * SC) * w0 +
+    (2 * t * CS + 4 * pu * SC) * w1 +
+    ((pu / u) * SS) * w2 +
+    CC * w3 +
+    (-u * CS - pu * SC) * w4;
+  w[4] =
+    (-8 * t * t * D + SS * s40) * w0 +
+    (-4 * t * d4u1 * D + 2 * SS * s10) * w1 +
+    (-t2u * CS - 4 * pu * SC) * w2 +
+    (-4 * u1 * CS + t2u * SC) * w3 +
+    (CC + 4 * u * t * D + SS * s00) * w4;
+}
+
+/** Binary exponent of the last rayleighSecular value's scale: the unscaled F is value · 2^exponent · (smooth factors). */
+export const secularScale = { exponent: 0 };
+
+/** Keeps w within 2^±256 by exact powers of two, counted in secularScale.exponent (so |F| stays comparable across c). */
+function rescale(w: Float64Array): void {
+  let big = 0;
+  for (let r = 0; r < 5; r++) {
+    const v = Math.abs(w[r]);
+    if (v > big) big = v;
+  }
+  if (!(big > 0) || !Number.isFinite(big) || (big < 2 ** 256 && big > 2 ** -256)) return;
+  const e = Math.round(Math.log2(big));
+  const f = 2 ** -e;
+  for (let r = 0; r < 5; r++) w[r] *= f;
+  secularScale.exponent += e;
+}
 
 /**
  * The secular function at angular frequency ω (rad/s) and phase velocity
  * c (m/s), scaled by a positive factor (its sign and zeros are those of
- * the unscaled F). Continuous in c on (0, β_H].
+ * the unscaled F). Continuous in c on (0, β_H]. The factor is smooth in c
+ * (the analytic exponentials e^{−√a L}, e^{−√b L} of each layer) times an
+ * exact power of two kept in secularScale, used only far from the range
+ * of doubles; so a dip of |F| towards zero, the mark of two close roots,
+ * stays visible between neighbouring values of c.
  */
 export function rayleighSecular(s: RayleighStack, omega: number, c: number): number {
+  const k = omega / c;
+  const w = m5;
+  w.fill(0);
+  w[0] = 1;
+  secularScale.exponent = 0;
+  let qPrev = 1;
+  for (let j = 0; j < s.count; j++) {
+    // Stresses from μ_{j−1}k to μ_j k units.
+    const r = qPrev / s.q[j];
+    w[1] *= r;
+    w[2] *= r;
+    w[3] *= r;
+    w[4] *= r * r;
+    fastStep(s, j, c, k, w);
+    rescale(w);
+    qPrev = s.q[j];
+  }
+  w[1] *= qPrev;
+  w[2] *= qPrev;
+  w[3] *= qPrev;
+  w[4] *= qPrev * qPrev;
+  halfspaceMinors(s, c, nH, null);
+  return w[0] * nH[5] - w[1] * (nH[4] - nH[1]) + w[2] * nH[3] + w[3] * nH[2] + w[4] * nH[0];
+}
+
+/**
+ * The secular function by the plain 6-minor form (`step`), the same
+ * number up to rounding and a positive factor as rayleighSecular: kept as
+ * the readable reference that the fast form is tested against.
+ */
+export function rayleighSecularReference(s: RayleighStack, omega: number, c: number): number {
   const k = omega / c;
   start(minors);
   for (let j = 0; j < s.count; j++) step(s, j, c, k, minors);

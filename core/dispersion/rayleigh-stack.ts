@@ -14,11 +14,15 @@
  *
  *  - the step in c keeps the total vertical phase
  *    Φ(c) = ω Σ_j d_j (√(1/β_j² − 1/c²)₊ + √(1/α_j² − 1/c²)₊)
- *    from advancing by more than π/4 (F oscillates with these phases), and
+ *    from advancing by more than π/8 (the minors are products of two
+ *    solutions, so F can turn with up to twice these phases), and
  *    never exceeds 4 % of c (for the roots that no phase drives, such as
- *    the fundamental in the evanescent range or interface waves);
- *  - where |F| has a local minimum between two grid points of one sign,
- *    the minimum is searched (golden section); if F changes sign there, the
+ *    the fundamental in the evanescent range or interface waves), nor 0.05
+ *    in r_β = √(1 − c²/β_H²) (F is analytic in r_β, not in c, near β_H,
+ *    where the overtones start);
+ *  - where |F| (only smooth positive factors taken out, so its size is
+ *    meaningful) has a local minimum between two grid points of one sign,
+ *    the minimum is searched (Brent's minimiser); if F changes sign there, the
  *    two close roots of an osculation (two branches that nearly touch, e.g.
  *    a mode of a buried low-velocity layer meeting one of the crust) are
  *    both reported; if it does not, the outcome notes the close approach;
@@ -41,12 +45,12 @@
  * Brent on ξ ∈ (0.01, 1).
  *
  * Domain and units: SI; ω > 0 rad/s; the model validated with its P speeds
- * (model.ts validateRayleighModel). Accuracy: roots to about 1e-14
- * relative (Brent's tolerance, limited by the conditioning of F); group
+ * (model.ts checkRayleighModel). Accuracy: roots to about 4e-14 relative
+ * (Brent's tolerance, ROOT_RTOL; F is not better conditioned); group
  * velocity to about 1e-10 relative.
  */
 import { brent, type RootStatus } from '../numeric/roots';
-import { rayleighSecular, rayleighSecularDerivatives, type RayleighStack } from './rayleigh-secular';
+import { rayleighSecular, rayleighSecularDerivatives, secularScale, type RayleighStack } from './rayleigh-secular';
 
 export { prepareRayleighStack, rayleighSecular, type RayleighStack } from './rayleigh-secular';
 
@@ -69,14 +73,20 @@ export function rayleighSearchFloor(s: RayleighStack): number {
   return 0.9 * low;
 }
 
-/** Largest advance of the vertical phase Φ between grid points, rad. */
-const PHASE_STEP = Math.PI / 4;
+/** Largest advance of the vertical phase Φ between grid points, rad (F, built of minors, can turn with up to 2Φ). */
+const PHASE_STEP = Math.PI / 8;
+/** Largest step of r_β = √(1 − c²/β_H²) of the half-space between grid points. */
+const HALFSPACE_STEP = 0.05;
 /** Largest relative step in c between grid points. */
 const RELATIVE_STEP = 0.04;
 /** Two roots closer than this (relative) are reported as a close approach of two branches. */
 export const CLOSE_ROOTS_RTOL = 1e-3;
-/** Golden-section iterations when probing a local minimum of |F|. */
+/** Iterations of the minimiser when probing a local minimum of |F|. */
 const PROBE_ITERATIONS = 40;
+/** Relative resolution of that probe: two roots closer than this are not told apart. */
+const PROBE_RTOL = 1e-10;
+/** Brent's relative tolerance for the roots (about 100 units of rounding; F is not better conditioned). */
+const ROOT_RTOL = 2e-14;
 
 /** A pair of roots (or a near miss) so close that two branches osculate or cross there. */
 export interface CloseApproach {
@@ -95,8 +105,6 @@ export interface RayleighSolveOutcome {
   found: number;
   /** True when the scan reached β_H, so `found` is every mode at this frequency. */
   complete: boolean;
-  /** Largest |F| at a returned root relative to |F| at its bracket's ends. */
-  worstResidual: number;
   /** Evaluations of the secular function used. */
   evaluations: number;
   /** Close pairs of roots and near misses met by the scan (normally empty). */
@@ -117,7 +125,6 @@ export class RayleighStackSolver {
     status: 'converged',
     found: 0,
     complete: false,
-    worstResidual: 0,
     evaluations: 0,
     close: [],
   };
@@ -147,7 +154,11 @@ export class RayleighStackSolver {
 
   /** Next grid point after c (at most `top`). */
   private nextPoint(c: number, phi: number, top: number): number {
-    let dc = RELATIVE_STEP * c;
+    // F is analytic in r = √(1 − c²/β_H²), not in c, near β_H: step at most HALFSPACE_STEP in r there.
+    const r = Math.sqrt(Math.max(0, 1 - (c * c) / (top * top)));
+    const rNext = r - HALFSPACE_STEP;
+    const cap = rNext > 0 ? top * Math.sqrt(1 - rNext * rNext) : top;
+    let dc = Math.min(RELATIVE_STEP * c, cap - c);
     for (let i = 0; i < 30; i++) {
       const c1 = Math.min(c + dc, top);
       const dphi = this.phase(c1) - phi;
@@ -167,7 +178,6 @@ export class RayleighStackSolver {
     o.status = 'converged';
     o.found = 0;
     o.complete = false;
-    o.worstResidual = 0;
     o.evaluations = 0;
     o.close = [];
     if (!(omega > 0) || modes <= 0 || !(this.floor > 0)) return 0;
@@ -175,9 +185,13 @@ export class RayleighStackSolver {
     const top = this.stack.vsH;
     let c0 = this.floor;
     let f0 = this.f(c0);
+    let g0 = magnitude(f0);
     let phi0 = this.phase(c0);
-    let fPrev = NaN;
     let cPrev = NaN;
+    let fPrev = NaN;
+    let gPrev = NaN;
+    // True when the cell (cPrev, c0) has already been searched (a sign change or a probe).
+    let leftDone = true;
     while (o.found < modes) {
       if (c0 >= top) {
         o.complete = true;
@@ -185,18 +199,30 @@ export class RayleighStackSolver {
       }
       const c1 = this.nextPoint(c0, phi0, top);
       const f1 = this.f(c1);
-      let roots = false;
+      const g1 = magnitude(f1);
+      // |F| lowest at c0 of three grid points: two close roots may hide in either neighbouring cell whose
+      // ends share a sign (also beside a cell with a sign change, whose root pulls |F| down too).
+      const dip = g0 < gPrev && g0 <= g1 && f0 !== 0;
+      const probeLeft = dip && !leftDone && f0 * fPrev > 0;
+      let rootRight = NaN;
       if (f1 === 0 || f0 * f1 < 0) {
-        this.refine(c0, f0, c1, f1, out, modes);
-        roots = true;
-      } else if (f0 !== 0 && f0 * fPrev > 0 && Math.abs(f0) < Math.abs(fPrev) && Math.abs(f0) <= Math.abs(f1)) {
-        roots = this.probe(cPrev, fPrev, c0, f0, c1, f1, out, modes);
+        const r = this.root(c0, f0, c1, f1);
+        if (probeLeft) this.probe(cPrev, fPrev, c0, f0, out, modes);
+        this.emit(r.x, r.status, modes, out);
+        rootRight = r.x;
+      } else {
+        if (probeLeft) this.probe(cPrev, fPrev, c0, f0, out, modes);
+        // The last cell has no right neighbour to show a dip: search it always.
+        if (dip || c1 >= top) this.probe(c0, f0, c1, f1, out, modes);
       }
-      // After roots in (c0, c1) the next triple must not probe that interval again.
+      const rightDone = !Number.isNaN(rootRight) || c1 >= top;
       cPrev = c0;
-      fPrev = roots ? NaN : f0;
+      fPrev = f0;
+      gPrev = g0;
+      leftDone = rightDone;
       c0 = c1;
       f0 = f1;
+      g0 = g1;
       phi0 = this.phase(c1);
     }
     // Close pairs among the roots found.
@@ -208,57 +234,124 @@ export class RayleighStackSolver {
   }
 
   /**
-   * |F| has a local minimum near c0 with no sign change: search the
-   * minimum of sign·F on (ca, cb) by golden section; two roots if F turns
-   * over there.
+   * The cell (ca, cb), whose ends have one sign, may hide two close roots:
+   * search the minimum of |F| there by Brent's minimiser (parabolic steps
+   * with golden-section fallback; Brent 1973, *Algorithms for Minimization
+   * without Derivatives*, ch. 5) on log₂|F|, stopping as soon as F turns
+   * over: then the two roots lie on either side. Returns true if it found
+   * them.
    */
-  private probe(ca: number, fa: number, c0: number, f0: number, cb: number, fb: number, out: Float64Array, modes: number): boolean {
-    const sg = f0 > 0 ? 1 : -1;
+  private probe(ca: number, fa: number, cb: number, fb: number, out: Float64Array, modes: number): boolean {
+    const sg = fa > 0 ? 1 : -1;
     const g = 0.3819660112501051;
     let a = ca;
     let b = cb;
-    let x = c0;
-    let fx = sg * f0;
+    let x = ca + g * (cb - ca);
+    let Fx = this.f(x);
+    if (sg * Fx <= 0) return this.pair(ca, fa, x, Fx, cb, fb, out, modes);
+    let fx = magnitude(Fx);
+    let w = x;
+    let v = x;
+    let fw = fx;
+    let fv = fx;
+    let d = 0;
+    let e = 0;
     for (let i = 0; i < PROBE_ITERATIONS; i++) {
-      const left = x - a > b - x;
-      const u = left ? x - g * (x - a) : x + g * (b - x);
-      const fu = sg * this.f(u);
-      if (fu < 0) {
-        // Two roots: in (ca, u) and (u, cb), each a sign change.
-        this.refine(ca, fa, u, sg * fu, out, modes);
-        this.refine(u, sg * fu, cb, fb, out, modes);
-        return true;
+      const m = 0.5 * (a + b);
+      const tol = PROBE_RTOL * Math.abs(x);
+      if (Math.abs(x - m) <= 2 * tol - 0.5 * (b - a)) break;
+      let useGolden = true;
+      if (Math.abs(e) > tol) {
+        // Parabola through (v, fv), (w, fw), (x, fx).
+        const r = (x - w) * (fx - fv);
+        let q = (x - v) * (fx - fw);
+        let p = (x - v) * q - (x - w) * r;
+        q = 2 * (q - r);
+        if (q > 0) p = -p;
+        else q = -q;
+        if (Math.abs(p) < Math.abs(0.5 * q * e) && p > q * (a - x) && p < q * (b - x)) {
+          e = d;
+          d = p / q;
+          const u = x + d;
+          if (u - a < 2 * tol || b - u < 2 * tol) d = x < m ? tol : -tol;
+          useGolden = false;
+        }
       }
-      if (fu < fx) {
-        if (left) b = x;
+      if (useGolden) {
+        e = x < m ? b - x : a - x;
+        d = g * e;
+      }
+      const u = Math.abs(d) >= tol ? x + d : x + (d > 0 ? tol : -tol);
+      const Fu = this.f(u);
+      if (sg * Fu <= 0) return this.pair(ca, fa, u, Fu, cb, fb, out, modes);
+      const fu = magnitude(Fu);
+      // A plain minimum of |F|: the bracket is small and log₂|F| has stopped falling (a hidden pair makes
+      // log₂|F| fall without bound as the search closes in).
+      if (b - a < 1e-4 * (cb - ca) && fu > fx - 1e-3) break;
+      if (fu <= fx) {
+        if (u < x) b = x;
         else a = x;
+        v = w;
+        fv = fw;
+        w = x;
+        fw = fx;
         x = u;
         fx = fu;
-      } else if (left) a = u;
-      else b = u;
-      if (b - a <= 1e-13 * b) break;
+      } else {
+        if (u < x) a = u;
+        else b = u;
+        if (fu <= fw || w === x) {
+          v = w;
+          fv = fw;
+          w = u;
+          fw = fu;
+        } else if (fu <= fv || v === x || v === w) {
+          v = u;
+          fv = fu;
+        }
+      }
     }
     // No sign change: a near miss (tangency within rounding, or two branches passing close).
-    const scale = Math.max(Math.abs(fa), Math.abs(fb));
-    if (fx <= 1e-9 * scale) this.outcome.close.push({ mode: -1, c: x, gap: 0 });
+    if (fx <= Math.min(magnitude(fa), magnitude(fb)) - 30 && x - ca > PROBE_RTOL * x && cb - x > PROBE_RTOL * x) {
+      this.outcome.close.push({ mode: -1, c: x, gap: 0 });
+    }
     return false;
   }
 
-  private refine(a: number, fa: number, b: number, fb: number, out: Float64Array, modes: number): void {
+  /** The two roots of a cell whose ends share a sign and whose interior point u has the other sign (or is a root). */
+  private pair(ca: number, fa: number, u: number, fu: number, cb: number, fb: number, out: Float64Array, modes: number): boolean {
+    this.refine(ca, fa, u, fu, out, modes);
+    if (fu !== 0) this.refine(u, fu, cb, fb, out, modes);
+    return true;
+  }
+
+  /** The root of a cell with a sign change (Brent), not yet written. */
+  private root(a: number, fa: number, b: number, fb: number): { x: number; status: RootStatus } {
+    const r = brent(this.f, a, b, fa, fb, { rtol: ROOT_RTOL });
+    return { x: r.x, status: r.status };
+  }
+
+  /** Writes the next root (NaN with the status when it did not converge). */
+  private emit(x: number, status: RootStatus, modes: number, out: Float64Array): void {
     const o = this.outcome;
     if (o.found >= modes) return;
-    const r = brent(this.f, a, b, fa, fb);
-    if (r.status === 'converged') {
-      out[o.found] = r.x;
-      const scale = Math.max(Math.abs(fa), Math.abs(fb));
-      const rel = scale > 0 ? Math.abs(r.fx) / scale : 0;
-      if (rel > o.worstResidual) o.worstResidual = rel;
-    } else {
+    if (status === 'converged') out[o.found] = x;
+    else {
       out[o.found] = NaN;
-      if (o.status === 'converged') o.status = r.status;
+      if (o.status === 'converged') o.status = status;
     }
     o.found++;
   }
+
+  private refine(a: number, fa: number, b: number, fb: number, out: Float64Array, modes: number): void {
+    const r = this.root(a, fa, b, fb);
+    this.emit(r.x, r.status, modes, out);
+  }
+}
+
+/** log₂|F| of the value just computed, with its power-of-two scale (comparable across c). */
+function magnitude(f: number): number {
+  return Math.log2(Math.abs(f)) + secularScale.exponent;
 }
 
 const derivatives = { value: 0, dc: 0, dk: 0 };
