@@ -27,7 +27,7 @@ import { checkPickSet, type Pick } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { gatherOfRecording } from '../../../core/signal/gather';
 import type { DispersionImage, ImageMethod } from '../../../core/signal/image';
-import { ridgePicks, type Ridge } from '../../../core/signal/ridge';
+import { ridgePicks, strongestRidgeSeed, type Ridge } from '../../../core/signal/ridge';
 import { newPick } from '../../store';
 import { computeImage, computeReadRecord, computeRidge, isAbortError, LatestOnly } from '../../worker/bridge';
 import type { EstimateController } from './estimate-controller';
@@ -336,6 +336,18 @@ export class RecordsController {
       if (isAbortError(e)) return;
       this.set({ status: 'error', error: messageOf(e) });
     }
+  }
+
+  /** Follows the strongest fundamental ridge without a tap (the keyboard's way in): its slowest strong peak in the strongest reliable row. */
+  async followStrongest(): Promise<void> {
+    const image = this.s.image;
+    if (!image) return;
+    const seed = strongestRidgeSeed(image);
+    if (!seed) {
+      this.set({ ridge: undefined, range: undefined, ridgeNote: 'No reliable ridge stands out in this image; tap one if you see it.' });
+      return;
+    }
+    await this.tap(seed.frequency, seed.velocity);
   }
 
   /** Moves one end of the kept range to the ridge point nearest `frequency` (Hz). */

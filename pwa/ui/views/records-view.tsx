@@ -241,6 +241,14 @@ export function RecordsView(p: RecordsViewProps) {
               </figcaption>
             </figure>
           ) : null}
+          {s.image ? (
+            <p>
+              <button type="button" onClick={() => void p.records.followStrongest()}>
+                Follow the strongest ridge
+              </button>{' '}
+              <span class="hint">or tap a ridge on the image.</span>
+            </p>
+          ) : null}
           {s.ridgeNote ? (
             <p class="status" role="status">
               {s.ridgeNote}

@@ -164,6 +164,18 @@ describe('records controller', () => {
     expect(c.current.recordings.list).toEqual([]);
   });
 
+  it('follows the strongest ridge without a tap (the keyboard\'s way in)', async () => {
+    const c = await started();
+    await c.records.importFile(file(segy, 'gather.sgy'));
+    await c.records.followStrongest();
+    const ridge = c.current.records.ridge!;
+    expect(ridge.velocity.length).toBeGreaterThan(10);
+    // The fundamental: within 3 % of the invented site's phase velocity at the middle point (a loose check; the reference tests hold 1 %).
+    const k = Math.floor(ridge.velocity.length / 2);
+    const c0 = loveVelocities(INVENTED_SOFT_SITE, ridge.frequency[k], 0).phase;
+    expect(Math.abs(ridge.velocity[k] - c0) / c0).toBeLessThan(0.03);
+  });
+
   it('opens the invented demo record, marked invented', async () => {
     const c = await started();
     await c.records.loadDemo();
