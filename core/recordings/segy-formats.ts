@@ -34,28 +34,33 @@ export function isSegyFormatCode(code: number): code is SegyFormatCode {
 
 /**
  * Decodes `out.length` samples of format `code` starting at byte `start`
- * of `view` (the caller has checked that they fit). IEEE values that are
- * not finite are kept as they are; the caller reports them.
+ * of `view` (the caller has checked that they fit). Returns the index of
+ * the first IEEE value that is not finite (NaN or ±Infinity), for the
+ * caller to report, or −1; the other codes cannot hold one.
  */
-export function decodeSamples(view: DataView, start: number, code: SegyFormatCode, little: boolean, out: Float64Array): void {
+export function decodeSamples(view: DataView, start: number, code: SegyFormatCode, little: boolean, out: Float64Array): number {
   const n = out.length;
   let p = start;
   switch (code) {
     case 1:
       for (let i = 0; i < n; i++, p += 4) out[i] = numberFromIbmBits(view.getUint32(p, little));
-      return;
+      return -1;
     case 2:
       for (let i = 0; i < n; i++, p += 4) out[i] = view.getInt32(p, little);
-      return;
+      return -1;
     case 3:
       for (let i = 0; i < n; i++, p += 2) out[i] = view.getInt16(p, little);
-      return;
+      return -1;
     case 5:
-      for (let i = 0; i < n; i++, p += 4) out[i] = view.getFloat32(p, little);
-      return;
-    case 6:
-      for (let i = 0; i < n; i++, p += 8) out[i] = view.getFloat64(p, little);
-      return;
+    case 6: {
+      // x − x is 0 for every finite x and NaN otherwise: one test in the same pass.
+      let bad = 0;
+      if (code === 5) for (let i = 0; i < n; i++, p += 4) bad += (out[i] = view.getFloat32(p, little)) - out[i];
+      else for (let i = 0; i < n; i++, p += 8) bad += (out[i] = view.getFloat64(p, little)) - out[i];
+      if (bad === 0) return -1;
+      for (let i = 0; i < n; i++) if (!Number.isFinite(out[i])) return i;
+      return -1;
+    }
     case 7:
     case 15:
       for (let i = 0; i < n; i++, p += 3) {
@@ -66,25 +71,25 @@ export function decodeSamples(view: DataView, start: number, code: SegyFormatCod
         if (code === 7 && v & 0x800000) v -= 0x1000000;
         out[i] = v;
       }
-      return;
+      return -1;
     case 8:
       for (let i = 0; i < n; i++, p += 1) out[i] = view.getInt8(p);
-      return;
+      return -1;
     case 9:
       for (let i = 0; i < n; i++, p += 8) out[i] = Number(view.getBigInt64(p, little));
-      return;
+      return -1;
     case 10:
       for (let i = 0; i < n; i++, p += 4) out[i] = view.getUint32(p, little);
-      return;
+      return -1;
     case 11:
       for (let i = 0; i < n; i++, p += 2) out[i] = view.getUint16(p, little);
-      return;
+      return -1;
     case 12:
       for (let i = 0; i < n; i++, p += 8) out[i] = Number(view.getBigUint64(p, little));
-      return;
+      return -1;
     case 16:
       for (let i = 0; i < n; i++, p += 1) out[i] = view.getUint8(p);
-      return;
+      return -1;
   }
 }
 

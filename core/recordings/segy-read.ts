@@ -352,19 +352,15 @@ export function readSegy(bytes: Uint8Array, name: string): Recording {
   let coordinatesUsable = true;
   let anyCoordinate = false;
   let badScalar = '';
-  const integerFormat = code !== 1 && code !== 5 && code !== 6;
 
   for (let k = 0; k < n; k++) {
     const { start, samples } = spans[k];
     const tr = new Float64Array(longest);
-    decodeSamples(view, start + TRACE_HEADER_BYTES * (1 + L.extraHeaders), code, little, samples === longest ? tr : tr.subarray(0, samples));
-    if (!integerFormat) {
-      for (let i = 0; i < samples; i++) {
-        if (!Number.isFinite(tr[i])) {
-          const at = start + TRACE_HEADER_BYTES * (1 + L.extraHeaders) + i * SEGY_FORMATS[code].bytes;
-          fail(`trace ${k + 1}`, `Sample ${i + 1} of trace ${k + 1} (byte offset ${at}) is ${tr[i]}, not a finite number.`);
-        }
-      }
+    const dataStart = start + TRACE_HEADER_BYTES * (1 + L.extraHeaders);
+    const bad = decodeSamples(view, dataStart, code, little, samples === longest ? tr : tr.subarray(0, samples));
+    if (bad >= 0) {
+      const at = dataStart + bad * SEGY_FORMATS[code].bytes;
+      fail(`trace ${k + 1}`, `Sample ${bad + 1} of trace ${k + 1} (byte offset ${at}) is ${tr[bad]}, not a finite number.`);
     }
     traces[k] = tr;
 
