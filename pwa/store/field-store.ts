@@ -84,7 +84,9 @@ export interface FieldStore {
    * `queue` also queues each written record in the outbox (a bundle import,
    * whose records the office may not have yet).
    */
-  putIncoming(records: AnyRecord[], options?: IncomingOptions): Promise<string[]>;
+  putIncoming(records: StoredRecord[], options?: IncomingOptions): Promise<string[]>;
+  /** Every recording record, tombstones included (for export and sync). */
+  allRecordings(): Promise<RecordingRecord[]>;
   /**
    * Keeps a seismograph file with its site: the record (name, format, size,
    * SHA-256, the parsed geometry, the crew's overrides, whether the bytes
@@ -134,6 +136,13 @@ export interface IncomingOptions {
   expectedRevs?: ReadonlyMap<string, number>;
   /** Queue the written records in the outbox too. @default false */
   queue?: boolean;
+  /**
+   * Raw files of recordings, by recording id, already checked against their
+   * SHA-256 by the caller. A file is kept when its recording (written here or
+   * already stored) states the same hash and this device lacks its bytes;
+   * the device's free storage is checked first. @default none
+   */
+  files?: ReadonlyMap<string, { sha256: string; bytes: Uint8Array }>;
 }
 
 /** A new site record (rev 1, fresh UUID). Fields not given take empty or default values. */
@@ -523,7 +532,7 @@ class IdbFieldStore implements FieldStore {
     });
   }
 
-  async putIncoming(records: AnyRecord[], options: IncomingOptions = {}): Promise<string[]> {
+  async putIncoming(records: StoredRecord[], options: IncomingOptions = {}): Promise<string[]> {
     if (!Array.isArray(records)) throw new StoreError('The incoming records must be a list.', { field: 'records' });
     const clean = records.map((r, i) => {
       try {
@@ -535,13 +544,20 @@ class IdbFieldStore implements FieldStore {
         throw e;
       }
     });
-    if (clean.length === 0) return [];
+    const files = options.files ?? new Map<string, { sha256: string; bytes: Uint8Array }>();
+    if (clean.length === 0 && files.size === 0) return [];
+    if (files.size > 0) {
+      const total = [...files.values()].reduce((n, f) => n + f.bytes.byteLength, 0);
+      const room = await roomFor(total, this.storageEstimate);
+      if (room) throw new StoreError(`${room} Nothing was imported.`, { field: 'bytes' });
+    }
     const skipped: string[] = [];
     const expected = options.expectedRevs;
     const queuedAt = new Date().toISOString();
-    await this.write(['sites', 'picks', 'estimates', 'outbox'], `the ${clean.length} incoming records`, async (tx) => {
+    const stores: ['sites', 'picks', 'estimates', 'recordings', 'recordingBytes', 'outbox'] = ['sites', 'picks', 'estimates', 'recordings', 'recordingBytes', 'outbox'];
+    await this.write(stores, `the ${clean.length} incoming records`, async (tx) => {
       for (const r of clean) {
-        const name = r.type === 'site' ? 'sites' : r.type === 'pick' ? 'picks' : 'estimates';
+        const name = r.type === 'site' ? 'sites' : r.type === 'pick' ? 'picks' : r.type === 'recording' ? 'recordings' : 'estimates';
         if (expected?.has(r.id)) {
           const current = await tx.objectStore(name).get(r.id);
           if ((current?.rev ?? 0) !== expected.get(r.id)) {
@@ -550,10 +566,21 @@ class IdbFieldStore implements FieldStore {
           }
         }
         await tx.objectStore(name).put(r as never);
+        if (r.type === 'recording' && r.deleted) await tx.objectStore('recordingBytes').delete(r.id);
         if (options.queue) await tx.objectStore('outbox').add(outboxEntry(r, queuedAt));
+      }
+      for (const [id, f] of files) {
+        const rec = await tx.objectStore('recordings').get(id);
+        if (!rec || rec.deleted || rec.sha256 !== f.sha256) continue;
+        if (await tx.objectStore('recordingBytes').get(id)) continue;
+        await tx.objectStore('recordingBytes').put({ id, sha256: f.sha256, bytes: f.bytes });
       }
     });
     return skipped;
+  }
+
+  allRecordings(): Promise<RecordingRecord[]> {
+    return this.read('the recordings', () => this.db.getAll('recordings'));
   }
 
   async saveRecording(input: SaveRecordingInput): Promise<RecordingRecord> {

@@ -193,7 +193,8 @@ export function checkRecording(r: RecordingRecord): void {
 }
 
 /** Checks any record by its type; returns the record as it will be stored. */
-export function checkRecord(r: AnyRecord): AnyRecord {
+export function checkRecord<T extends StoredRecord>(r: T): T;
+export function checkRecord(r: StoredRecord): StoredRecord {
   if (!r || typeof r !== 'object') throw new InputError('record', 'A record must be an object.');
   // The bound the office keeps too (core/exchange/record-limits.ts): what one end cannot keep, neither takes.
   checkRecordLimits(r, '');
@@ -205,6 +206,9 @@ export function checkRecord(r: AnyRecord): AnyRecord {
       return checkPick(r);
     case 'estimate':
       checkEstimate(r);
+      return r;
+    case 'recording':
+      checkRecording(r);
       return r;
     default:
       throw new InputError(

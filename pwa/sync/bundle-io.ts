@@ -4,10 +4,26 @@
  * rules). Loaded lazily by the sync panel, so the schema validator (ajv)
  * stays out of the app's first download.
  */
-import { bundleFileName, bundleToJson, importSummary, makeBundle, parseBundle, planBundleImport } from '../../core/exchange/bundle';
+import {
+  bundleFileName,
+  bundleToJson,
+  importSummary,
+  makeBundle,
+  MAX_BUNDLE_CHARS,
+  parseBundle,
+  planBundleImport,
+  type RecordingFile,
+} from '../../core/exchange/bundle';
+import { fromBase64, toBase64 } from '../../core/exchange/base64';
 import { isDemoSite } from '../../core/exchange/demo';
+import type { AnyRecord, RecordingRecord } from '../../core/exchange/records';
+import { planMerge } from '../../core/exchange/sync';
 import { InputError } from '../../core/shared/errors';
 import type { FieldStore } from '../store';
+import { sha256Hex } from '../store/recordings';
+
+/** Room left in a bundle for the records themselves when raw files are packed in (characters; common practice for this tool). */
+const RECORDS_ROOM_CHARS = 8 * 1024 * 1024;
 
 export interface BundleFile {
   name: string;
@@ -16,6 +32,44 @@ export interface BundleFile {
   picks: number;
   /** Invented demo sites left out (only when no `siteIds` were given and the demo was not asked for). */
   demoLeftOut: number;
+  /** Recordings carried, and how many of them with their raw file. */
+  recordings: number;
+  recordingFiles: number;
+  /** Raw files the sites chose to send that did not fit in one bundle (their records still travel). */
+  filesLeftOut: number;
+  /** Raw files the sites chose to send that this device does not hold (they arrived without them). */
+  filesMissing: number;
+}
+
+/**
+ * The raw files to carry: those of live recordings whose site chose to
+ * send them and that this device holds, oldest first, as many as fit in
+ * one bundle (MAX_BUNDLE_CHARS, less room for the records).
+ */
+async function filesToCarry(
+  store: FieldStore,
+  recordings: readonly RecordingRecord[],
+): Promise<{ files: RecordingFile[]; leftOut: number; missing: number }> {
+  const wanted = recordings.filter((r) => r.attach && !r.deleted).sort((a, b) => (a.addedAt < b.addedAt ? -1 : 1));
+  const files: RecordingFile[] = [];
+  let budget = MAX_BUNDLE_CHARS - RECORDS_ROOM_CHARS;
+  let leftOut = 0;
+  let missing = 0;
+  for (const r of wanted) {
+    const chars = Math.ceil(r.byteLength / 3) * 4 + 200;
+    if (chars > budget) {
+      leftOut++;
+      continue;
+    }
+    const bytes = await store.recordingBytes(r.id);
+    if (!bytes) {
+      missing++;
+      continue;
+    }
+    files.push({ id: r.id, sha256: r.sha256, bytes_base64: toBase64(bytes) });
+    budget -= chars;
+  }
+  return { files, leftOut, missing };
 }
 
 /**
@@ -38,8 +92,21 @@ export async function exportBundle(
     demoLeftOut = sites.filter((r) => !r.deleted).length - keep.filter((r) => !r.deleted).length;
     ids = keep.map((r) => r.id);
   }
-  const bundle = makeBundle(all, { siteIds: ids, exportedBy });
-  return { name: bundleFileName(bundle), text: bundleToJson(bundle), sites: bundle.sites.length, picks: bundle.picks.length, demoLeftOut };
+  const keep = new Set(ids ?? all.filter((r) => r.type === 'site').map((r) => r.id));
+  const recordings = (await store.allRecordings()).filter((r) => keep.has(r.siteId));
+  const { files, leftOut, missing } = await filesToCarry(store, recordings);
+  const bundle = makeBundle(all, { siteIds: ids, exportedBy, recordings, recordingFiles: files });
+  return {
+    name: bundleFileName(bundle),
+    text: bundleToJson(bundle),
+    sites: bundle.sites.length,
+    picks: bundle.picks.length,
+    demoLeftOut,
+    recordings: bundle.recordings?.length ?? 0,
+    recordingFiles: bundle.recordingFiles?.length ?? 0,
+    filesLeftOut: leftOut,
+    filesMissing: missing,
+  };
 }
 
 export interface ImportOutcome {
@@ -61,18 +128,34 @@ export async function importBundleText(store: FieldStore, text: string): Promise
     if (e instanceof InputError) return { ok: false, message: `Nothing was imported. ${e.message}` };
     throw e;
   }
+  // Each raw file must be the one its recording names (SHA-256) before anything is written.
+  const files = new Map<string, { sha256: string; bytes: Uint8Array }>();
+  for (const [i, f] of (bundle.recordingFiles ?? []).entries()) {
+    const bytes = fromBase64(f.bytes_base64, `recordingFiles[${i}].bytes_base64`).slice();
+    if ((await sha256Hex(bytes)) !== f.sha256) {
+      return { ok: false, message: `Nothing was imported. The bundle is not valid: recordingFiles[${i}] does not have the SHA-256 its recording states; the file was changed after it was written.` };
+    }
+    files.set(f.id, { sha256: f.sha256, bytes });
+  }
   const all = await store.allRecords();
   const byId = new Map(all.map((r) => [r.id, r]));
   const plan = planBundleImport(bundle, (id) => byId.get(id));
-  const expectedRevs = new Map(plan.writes.map((w) => [w.id, byId.get(w.id)?.rev ?? 0]));
+  const storedRecordings = new Map((await store.allRecordings()).map((r) => [r.id, r]));
+  const recordingPlan = planMerge((bundle.recordings ?? []) as unknown as AnyRecord[], (id) => storedRecordings.get(id) as unknown as AnyRecord | undefined, {
+    from: (bundle.exportedBy ? `bundle from ${bundle.exportedBy}` : `bundle of ${bundle.exportedAt}`).slice(0, 200),
+  });
+  const writes = [...plan.writes, ...(recordingPlan.writes as unknown as RecordingRecord[])];
+  const expectedRevs = new Map(writes.map((w) => [w.id, (byId.get(w.id) ?? storedRecordings.get(w.id))?.rev ?? 0]));
   let skipped: string[];
   try {
-    skipped = await store.putIncoming(plan.writes, { expectedRevs, queue: true });
+    skipped = await store.putIncoming(writes, { expectedRevs, queue: true, files });
   } catch (e) {
     return { ok: false, message: `Nothing was imported. ${(e as Error).message}` };
   }
   const note = skipped.length > 0 ? ` ${skipped.length} record(s) were being edited at the same moment and were left as they are; import the file again to merge them.` : '';
-  return { ok: true, message: importSummary(bundle, plan) + note };
+  const recs = bundle.recordings?.length ?? 0;
+  const withFiles = recs > 0 ? ` It carried ${recs} seismograph file record(s), ${files.size} with the raw file.` : '';
+  return { ok: true, message: importSummary(bundle, plan) + withFiles + note };
 }
 
 /**

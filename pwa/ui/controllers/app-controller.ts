@@ -50,7 +50,7 @@ export class AppController {
     this.recordings = new RecordingsController(this.hub);
     this.sites = new SitesController(this.hub, this.picks, this.estimates, this.recordings);
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
-    this.sync = new SyncController(this.hub, this.sites, this.picks);
+    this.sync = new SyncController(this.hub, this.sites, this.picks, this.recordings);
     this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute, this.recordings);
   }
 

@@ -14,6 +14,7 @@ import { openFieldStore, type FieldStore } from '../../store';
 import { SyncClient, SyncError } from '../../sync/client';
 import type { SyncPanelState } from './app-state';
 import type { PicksController } from './picks-controller';
+import type { RecordingsController } from './recordings-controller';
 import type { SitesController } from './sites-controller';
 import type { StateHub } from './state-hub';
 
@@ -49,6 +50,7 @@ export class SyncController {
     private readonly hub: StateHub,
     private readonly sites: SitesController,
     private readonly picks: PicksController,
+    private readonly recordings?: RecordingsController,
   ) {}
 
   private patch(p: Partial<SyncPanelState>): void {
@@ -70,6 +72,8 @@ export class SyncController {
     if (!this.hub.store) return;
     await this.sites.reload();
     await this.picks.reload();
+    const open = this.hub.current.openSiteId;
+    if (open) await this.recordings?.load(open);
   }
 
   /** The sync panel is shown: opens its store connection and starts the background client once. */
@@ -186,7 +190,11 @@ export class SyncController {
       try {
         const io = await import('../../sync/bundle-io');
         const file = await io.exportBundle(store, undefined, undefined, { includeDemo });
-        const left = file.demoLeftOut > 0 ? ' The invented demo site was left out.' : '';
+        const left =
+          (file.demoLeftOut > 0 ? ' The invented demo site was left out.' : '') +
+          (file.recordings > 0 ? ` ${plural(file.recordings, 'seismograph file record', 'seismograph file records')} (${file.recordingFiles} with the raw file).` : '') +
+          (file.filesLeftOut > 0 ? ` ${plural(file.filesLeftOut, 'raw file', 'raw files')} did not fit in one bundle and stayed on this device; their records travel.` : '') +
+          (file.filesMissing > 0 ? ` ${plural(file.filesMissing, 'raw file is', 'raw files are')} not on this device; their records travel.` : '');
         const how = await io.deliverBundle(file);
         this.patch({
           message: {
