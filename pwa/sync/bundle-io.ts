@@ -162,11 +162,11 @@ export async function importBundleText(store: FieldStore, text: string): Promise
  * Hands a bundle to the user: the system share sheet when the device can
  * share files (Web Share API level 2), else a download. Resolves to how.
  */
-export async function deliverBundle(file: BundleFile): Promise<'shared' | 'downloaded' | 'cancelled'> {
-  const blob = new Blob([file.text], { type: 'application/json' });
+export async function deliverBundle(file: BundleFile, type = 'application/json'): Promise<'shared' | 'downloaded' | 'cancelled'> {
+  const blob = new Blob([file.text], { type });
   const nav = navigator as Navigator & { canShare?: (data: ShareData) => boolean };
   if (typeof File === 'function' && typeof nav.share === 'function' && typeof nav.canShare === 'function') {
-    const shared = new File([blob], file.name, { type: 'application/json' });
+    const shared = new File([blob], file.name, { type });
     if (nav.canShare({ files: [shared] })) {
       try {
         await nav.share({ files: [shared], title: file.name });

@@ -238,6 +238,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
               onCommit={(r, force) => void c.picks.commitRow(r, force)}
               onKind={(r, k, m) => void c.picks.setKind(r, k, m)}
               onSort={() => void c.picks.sortByFrequency()}
+              onExport={() => void c.picks.exportPicksCsv()}
               onDelete={(id) => void c.picks.deletePick(id)}
               onDiscard={(r) => c.picks.discardDraft(r)}
               onSelect={(id) => c.picks.selectPick(id)}

@@ -8,7 +8,8 @@
  *     no bare best thickness ("H = 6.1 m") as the headline; the same on Site
  *     figures; the plot caption and the site card say it too;
  *  2. three picks typed with the keyboard alone (Next, Enter: no taps between
- *     cells) are saved, and a reload returns to the site with them;
+ *     cells) are saved, a reload returns to the site with them, and the
+ *     site's picks export as a CSV file that reads back to the same values;
  *  3. with the office unreachable and changes waiting, the sync panel never
  *     says "up to date", shows the changes waiting and the failed attempt,
  *     and offline "Sync now" is refused with the reason;
@@ -19,12 +20,13 @@
  * to 0.1 m/s as a crew would type them. The depth rule behind the verdict
  * (depth of investigation ≈ λ/2) is common practice.
  */
-import { mkdirSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { loveVelocities } from '../../core/dispersion/love-layer';
 import { CAUTION } from '../../core/shared/caution';
+import { parsePicksCsv } from '../../core/picks/picks';
 import { openApp, reload, REPO_ROOT, screenshot, setOffline, VIEWPORTS, type AppSession } from './harness';
 
 const UNRESOLVED = 'Invented: 6 m layer, 20–40 Hz only';
@@ -169,6 +171,12 @@ describe('field trust at tablet size', () => {
     expect(await page.evaluate(() => document.activeElement?.getAttribute('aria-label'))).toBe('New pick, frequency (Hz)');
     expect(await page.locator('.row-error').count()).toBe(0);
     await page.getByLabel('Clear the new pick').click();
+
+    // The site's picks as a CSV file that reads back (core/picks/picks.ts parsePicksCsv) to the same values.
+    const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export picks (CSV)' }).click()]);
+    expect(download.suggestedFilename()).toMatch(/^shearfield-picks-invented-keyboard-entry-\d{4}-\d{2}-\d{2}\.csv$/);
+    const back = parsePicksCsv(readFileSync((await download.path())!, 'utf8')).picks;
+    expect(back.map((p) => [p.frequency, p.velocity])).toEqual(picks);
   });
 
   it('3. office unreachable with changes waiting: never "up to date"; the waiting count and the failed attempt show; offline, Sync now says why not', async () => {

@@ -47,6 +47,16 @@ export function MisfitMapView(props: MisfitMapProps) {
     const c = canvas.current;
     if (!c) return;
     draw(c, props);
+    // Redrawn at the new size (and pixel ratio) when its box changes, so text stays sharp and readable.
+    if (typeof ResizeObserver === 'undefined') return;
+    let last = c.clientWidth;
+    const ro = new ResizeObserver(() => {
+      if (Math.abs(c.clientWidth - last) < 1) return;
+      last = c.clientWidth;
+      draw(c, props);
+    });
+    ro.observe(c);
+    return () => ro.disconnect();
   }, [props.map, props.slice, props.theme, props.bestThickness, props.bestSpeed, props.box]);
 
   const corr = Number.isFinite(props.correlation)
@@ -116,8 +126,16 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   const ink = cs.getPropertyValue('--ink').trim() || '#111';
   const bg = cs.getPropertyValue('--panel').trim() || '#fff';
   const dark = rgbOf(cs.getPropertyValue('--map-68').trim() || '#123c3a');
-  const W = c.width;
-  const H = c.height;
+  // Drawn in CSS pixels at the device's pixel ratio, at the size it is shown (at most 560 × 360 CSS px).
+  const dpr = (typeof devicePixelRatio === 'number' && devicePixelRatio > 0 ? devicePixelRatio : 1);
+  const W = Math.max(260, Math.min(560, Math.round(c.clientWidth || 560)));
+  const H = Math.round((W * 360) / 560);
+  c.width = Math.round(W * dpr);
+  c.height = Math.round(H * dpr);
+  ctx.setTransform(dpr, 0, 0, dpr, 0, 0);
+  // Labels at least 12 CSS px; larger in Sunlight contrast.
+  const sun = document.documentElement.dataset.theme === 'sun';
+  const fontPx = sun ? 15 : 13;
   const L = 64;
   const B = 44;
   const T = 10;
@@ -223,7 +241,7 @@ function draw(c: HTMLCanvasElement, p: MisfitMapProps): void {
   ctx.lineWidth = 1;
   ctx.strokeRect(L, T, pw, ph);
   ctx.fillStyle = ink;
-  ctx.font = '13px system-ui, sans-serif';
+  ctx.font = `${sun ? '600 ' : ''}${fontPx}px system-ui, sans-serif`;
   ctx.textAlign = 'center';
   const xt = [k0, Math.round((k0 + k1) / 2), k1];
   for (const k of xt) ctx.fillText(num(map.x[k], 2), px(k), T + ph + 16);

@@ -30,6 +30,8 @@ export interface PlotInput {
   model?: LayeredModel;
   /** How the curves are labelled: the fitted model or the what-if model. */
   curveLabel: string;
+  /** A second model drawn thin and grey for comparison (the best fit under a what-if model). */
+  compare?: LayeredModel;
   selectedId?: string;
   axis: AxisQuantity;
   xLog: boolean;
@@ -63,8 +65,8 @@ export function modeColour(p: { modes: string[] }, mode: number): string {
   return p.modes[mode % p.modes.length];
 }
 
-function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolean): string {
-  return [input.axis, input.xLog, input.yLog, input.theme, hasModel, keys.map((k) => `${k.mode}${k.kind}`).join(',')].join('|');
+function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolean, hasCompare = false): string {
+  return [input.axis, input.xLog, input.yLog, input.theme, hasModel, hasCompare, keys.map((k) => `${k.mode}${k.kind}`).join(',')].join('|');
 }
 
 /** NaN → null, as uPlot draws gaps only at null. */
@@ -129,19 +131,26 @@ export class DispersionPlot {
       this.curves = undefined;
       band = new Float64Array(0);
     }
+    // The comparison curves share the band (and so the x column) of the main curves.
+    let compare: CurveColumns | undefined;
+    try {
+      compare = this.curves && input.compare ? curveColumns(input.compare, band, keys, input.axis) : undefined;
+    } catch {
+      compare = undefined;
+    }
     const xCol = this.curves ? this.curves.x : this.sortedX(band, input.axis);
     this.xRange = this.padded(extentOf([this.picks.x, xCol]), input.xLog);
     this.yRange = this.padded(
       extentOf([this.picks.y, ...(this.curves ? this.curves.y : [])], [this.picks.sd]),
       input.yLog,
     );
-    const data: uPlot.AlignedData = [xCol, ...(this.curves ? this.curves.y.map(gaps) : [])];
-    const sig = signature(input, keys, !!this.curves);
+    const data: uPlot.AlignedData = [xCol, ...(this.curves ? this.curves.y.map(gaps) : []), ...(compare ? compare.y.map(gaps) : [])];
+    const sig = signature(input, keys, !!this.curves, !!compare);
     if (!this.u || sig !== this.sig) {
       this.sig = sig;
       this.pal = palette(this.el);
       this.u?.destroy();
-      this.u = new uPlot(this.options(input, keys), data, this.el);
+      this.u = new uPlot(this.options(input, keys, !!compare), data, this.el);
       this.u.over.addEventListener('click', this.onTap);
     } else {
       this.u.setData(data);
@@ -163,10 +172,12 @@ export class DispersionPlot {
     return [Math.max(0, lo - pad), hi + pad];
   }
 
-  private options(input: PlotInput, keys: readonly CurveKey[]): uPlot.Options {
+  private options(input: PlotInput, keys: readonly CurveKey[], withCompare = false): uPlot.Options {
     const pal = this.pal;
     const xLabel = input.axis === 'frequency' ? 'Frequency (Hz)' : 'Period (s)';
-    const font = '14px system-ui, sans-serif';
+    // Chart text grows with Sunlight contrast.
+    const sun = input.theme === 'sun';
+    const font = sun ? '600 16px system-ui, sans-serif' : '14px system-ui, sans-serif';
     // On log axes, label 1, 2 and 5 of each decade (uPlot puts ticks at 1–9 × 10^k).
     const logValues = (_u: uPlot, splits: number[]) =>
       splits.map((v) => {
@@ -180,7 +191,7 @@ export class DispersionPlot {
       ...(log ? { values: logValues, filter: (_u: uPlot, splits: number[]) => splits } : {}),
       stroke: pal.text,
       font,
-      labelFont: 'bold 14px system-ui, sans-serif',
+      labelFont: sun ? 'bold 16px system-ui, sans-serif' : 'bold 14px system-ui, sans-serif',
       grid: { stroke: pal.grid, width: 1 },
       ticks: { stroke: pal.grid, width: 1 },
     });
@@ -195,6 +206,18 @@ export class DispersionPlot {
           points: { show: false },
           spanGaps: false,
         });
+      }
+      if (withCompare) {
+        for (const k of keys) {
+          series.push({
+            label: `best fit: mode ${k.mode} ${k.kind}`,
+            stroke: pal.text,
+            width: 1.25,
+            dash: [2, 4],
+            points: { show: false },
+            spanGaps: false,
+          });
+        }
       }
     }
     return {

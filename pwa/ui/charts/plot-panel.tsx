@@ -13,6 +13,8 @@ export interface PlotPanelProps {
   model?: LayeredModel;
   /** Words for the curves, e.g. "best fit" or "what-if". */
   curveLabel: string;
+  /** A second model drawn thin and grey for comparison (the best fit under the what-if curves). */
+  compare?: LayeredModel;
   selectedId?: string;
   settings: PlotSettings;
   theme: string;
@@ -58,7 +60,7 @@ export function PlotPanel(props: PlotPanelProps) {
 
   useEffect(() => {
     engine.current?.update(inputOf(props));
-  }, [props.picks, props.model, props.selectedId, props.settings, props.theme, props.curveLabel]);
+  }, [props.picks, props.model, props.compare, props.selectedId, props.settings, props.theme, props.curveLabel]);
 
   const s = props.settings;
   const kinds = new Set(props.picks.map((p) => p.kind));
@@ -94,7 +96,11 @@ export function PlotPanel(props: PlotPanelProps) {
         </label>
       </div>
       {props.caption ? <p class="caption">{props.caption}</p> : null}
-      <div class="plot-host" ref={host} role="img" aria-label={summary} />
+      {/* With nothing to draw the axes would be meaningless (0–1 m/s): the plot waits, hidden, and says why. */}
+      {props.picks.length === 0 && !props.model ? (
+        <p class="empty plot-empty">No picks yet: the plot appears with the first pick.</p>
+      ) : null}
+      <div class={`plot-host${props.picks.length === 0 && !props.model ? ' is-empty' : ''}`} ref={host} role="img" aria-label={summary} />
       {failed ? <p class="error" role="alert">{failed}</p> : null}
       <ul class="legend" aria-label="Plot key">
         {modes.map((m) => (
@@ -105,6 +111,7 @@ export function PlotPanel(props: PlotPanelProps) {
         {kinds.has('group') ? <li><span class="glyph disc" aria-hidden="true" /> group-velocity pick ± 1 sd</li> : null}
         {kinds.has('phase') ? <li><span class="glyph diamond" aria-hidden="true" /> phase-velocity pick ± 1 sd</li> : null}
         {props.model ? <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} curve (dashed: phase)</li> : null}
+        {props.model && props.compare ? <li><span class="glyph dash" aria-hidden="true" /> best fit, for comparison (thin, grey, dotted)</li> : null}
         {props.model && modes.some((m) => m > 0) ? <li><span class="glyph dash" aria-hidden="true" /> higher-mode cutoff</li> : null}
         <li>Tap a pick to select its row.</li>
       </ul>
@@ -117,6 +124,7 @@ function inputOf(p: PlotPanelProps) {
     picks: p.picks,
     model: p.model,
     curveLabel: p.curveLabel,
+    compare: p.compare,
     selectedId: p.selectedId,
     axis: p.settings.axis,
     xLog: p.settings.xLog,

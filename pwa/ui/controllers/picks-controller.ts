@@ -7,7 +7,7 @@
  * a fresh estimate.
  */
 import { InputError } from '../../../core/shared/errors';
-import { checkPickSet, pickFromCells, type Pick, type PickCells, type PickKind } from '../../../core/picks/picks';
+import { checkPickSet, pickFromCells, picksToCsv, type Pick, type PickCells, type PickKind } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { newPick, pickOf, type FieldStore } from '../../store';
 import { byFrequency, handEntryMessage, NEW_ROW, replaceById, without, type RowDraft } from './app-state';
@@ -258,6 +258,28 @@ export class PicksController {
       this.hub.set({ undo: { label: 'sorting by frequency', revert: () => reorder(before) } });
     } catch (e) {
       this.hub.notify('error', `The picks were not sorted: ${messageOf(e)}`);
+    }
+  }
+
+  /**
+   * The open site's picks as a CSV file (the picks CSV that the app and
+   * `shearfield estimate` read back exactly), shared or downloaded. The
+   * file is named after the site in whole words.
+   */
+  async exportPicksCsv(): Promise<void> {
+    const site = this.hub.openSite();
+    const picks = this.hub.current.picks;
+    if (!site || picks.length === 0) return;
+    try {
+      const text = picksToCsv(picks.map(pickOf));
+      let slug = site.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '');
+      if (slug.length > 40) slug = slug.slice(0, 41).includes('-') ? slug.slice(0, 41).replace(/-[^-]*$/, '') : slug.slice(0, 40);
+      const name = `shearfield-picks-${slug || 'site'}-${site.date || new Date().toISOString().slice(0, 10)}.csv`;
+      const io = await import('../../sync/bundle-io');
+      const how = await io.deliverBundle({ name, text, sites: 1, picks: picks.length, demoLeftOut: 0 }, 'text/csv');
+      if (how !== 'cancelled') this.hub.notify('info', `${how === 'shared' ? 'Shared' : 'Saved'} ${name}: ${picks.length} ${picks.length === 1 ? 'pick' : 'picks'}.`);
+    } catch (e) {
+      this.hub.notify('error', `The picks file could not be made: ${messageOf(e)}`);
     }
   }
 

@@ -26,6 +26,8 @@ export interface PicksTableProps {
   onKind: (row: string, kind: PickKind, mode?: number) => void;
   /** Puts the table in frequency order (saved). */
   onSort?: () => void;
+  /** Shares or downloads the site's picks as a CSV file. */
+  onExport?: () => void;
   onDelete: (id: string) => void;
   onDiscard: (row: string) => void;
   onSelect: (id: string | undefined) => void;
@@ -91,6 +93,11 @@ export function PicksTable(props: PicksTableProps) {
         {props.onSort ? (
           <button type="button" disabled={props.picks.length < 2} onClick={props.onSort}>
             Sort by frequency
+          </button>
+        ) : null}
+        {props.onExport ? (
+          <button type="button" disabled={props.picks.length === 0} onClick={props.onExport}>
+            Export picks (CSV)
           </button>
         ) : null}
         <button type="button" disabled={!props.undo} onClick={props.onUndo}>

@@ -1,7 +1,12 @@
 /**
- * What-if: sliders for H, β1, β2 and the densities move the model curves
- * against the picks, redrawn once per animation frame (plot-engine.ts).
+ * What-if: for H, β1, β2 and the densities, a slider over a range centred on
+ * the best fit (± 50 %, in 1000 fine steps), a typed value and ±
+ * nudges move the model curves against the picks, with the best-fit curves
+ * drawn thin and grey for comparison, redrawn once per animation frame
+ * (plot-engine.ts). The plot stays in view while dragging (beside the
+ * sliders on a wide screen, above them on a narrow one).
  */
+import { useState } from 'preact/hooks';
 import { chi2At, prepareEstimate, type EstimateResult } from '../../../core/estimate/estimate';
 import type { LayeredModel } from '../../../core/dispersion/model';
 import type { PickRecord } from '../../../core/exchange/records';
@@ -22,14 +27,108 @@ export interface WhatIfViewProps {
   onPlot: (p: Partial<PlotSettings>) => void;
 }
 
-/** Slider bounds: within the core's model bounds (30–5000 m/s, 1000–3500 kg/m³), narrowed to site scales. */
-const SLIDERS: { key: keyof WhatIfModel; label: string; unit: string; min: number; max: number; step: number }[] = [
-  { key: 'h', label: 'Layer thickness H', unit: 'm', min: 0.5, max: 80, step: 0.1 },
-  { key: 'vs1', label: 'Layer shear speed β1', unit: 'm/s', min: 50, max: 1500, step: 1 },
-  { key: 'vs2', label: 'Half-space shear speed β2', unit: 'm/s', min: 80, max: 3000, step: 1 },
-  { key: 'rho1', label: 'Layer density ρ1', unit: 'kg/m³', min: 1200, max: 3000, step: 10 },
-  { key: 'rho2', label: 'Half-space density ρ2', unit: 'kg/m³', min: 1200, max: 3000, step: 10 },
+export interface Control {
+  key: keyof WhatIfModel;
+  label: string;
+  unit: string;
+  /** Hard bounds (the core's model bounds: 30–5000 m/s, 1000–3500 kg/m³; thickness above 0). */
+  lo: number;
+  hi: number;
+  /** Centred range: the centre value ± 50 % (speeds and thickness), so the best fit sits mid-slider; the bounds for densities. */
+  centred: boolean;
+}
+
+export const CONTROLS: Control[] = [
+  { key: 'h', label: 'Layer thickness H', unit: 'm', lo: 0.01, hi: 5000, centred: true },
+  { key: 'vs1', label: 'Layer shear speed β1', unit: 'm/s', lo: 30, hi: 5000, centred: true },
+  { key: 'vs2', label: 'Half-space shear speed β2', unit: 'm/s', lo: 30, hi: 5000, centred: true },
+  { key: 'rho1', label: 'Layer density ρ1', unit: 'kg/m³', lo: 1000, hi: 3500, centred: false },
+  { key: 'rho2', label: 'Half-space density ρ2', unit: 'kg/m³', lo: 1000, hi: 3500, centred: false },
 ];
+
+/** Slider steps across a range: fine enough that one step moves a value by 0.15 % of the centre. */
+const STEPS = 1000;
+
+/** The slider range and the nudge of one parameter, from its centre (the best fit). */
+export function controlRange(c: Control, centre: number): { min: number; max: number; step: number; nudge: number } {
+  const min = c.centred ? Math.max(c.lo, centre / 2) : c.lo;
+  const max = c.centred ? Math.min(c.hi, centre * 1.5) : c.hi;
+  const step = (max - min) / STEPS;
+  // About 1 % of the centre, rounded to one significant figure.
+  const raw = c.centred ? centre / 100 : 10;
+  const nudge = Number(raw.toPrecision(1));
+  return { min, max, step, nudge };
+}
+
+/** A typed what-if value: the number, or a sentence naming the field and why it is refused. */
+export function typedValue(c: Control, text: string): { value?: number; error?: string } {
+  const t = text.trim().replace(',', '.');
+  const v = Number(t);
+  if (t === '' || !Number.isFinite(v)) return { error: `${c.label} must be a number in ${c.unit}, but it is "${text.trim()}".` };
+  if (v < c.lo || v > c.hi) return { error: `${c.label} must lie between ${c.lo} and ${c.hi} ${c.unit}, but it is ${v}.` };
+  return { value: v };
+}
+
+/** One parameter: − , typed value, + , and the slider over the range centred on the best fit. */
+function ParameterControl(props: { c: Control; value: number; centre: number; onValue: (v: number) => void }) {
+  const { c, value } = props;
+  const [text, setText] = useState<string | undefined>(undefined);
+  const [error, setError] = useState<string | undefined>(undefined);
+  const r = controlRange(c, props.centre);
+  const id = `wi-${c.key}`;
+  const set = (v: number) => {
+    const clamped = Math.min(c.hi, Math.max(c.lo, v));
+    setText(undefined);
+    setError(undefined);
+    props.onValue(Number(clamped.toPrecision(6)));
+  };
+  return (
+    <div class="slider" key={c.key}>
+      <label for={`${id}-n`}>
+        {c.label} ({c.unit})
+      </label>
+      <div class="nudge">
+        <button type="button" aria-label={`${c.label}: less by ${r.nudge} ${c.unit}`} onClick={() => set(value - r.nudge)}>
+          −
+        </button>
+        <input
+          id={`${id}-n`}
+          type="number"
+          inputMode="decimal"
+          step="any"
+          value={text ?? num(value, 4)}
+          aria-invalid={error ? 'true' : undefined}
+          aria-describedby={error ? `${id}-err` : undefined}
+          onInput={(e) => setText(e.currentTarget.value)}
+          onChange={(e) => {
+            const t = typedValue(c, e.currentTarget.value);
+            if (t.value === undefined) setError(t.error);
+            else set(t.value);
+          }}
+        />
+        <button type="button" aria-label={`${c.label}: more by ${r.nudge} ${c.unit}`} onClick={() => set(value + r.nudge)}>
+          +
+        </button>
+        <input
+          id={id}
+          type="range"
+          min={r.min}
+          max={r.max}
+          step={r.step}
+          value={Math.min(r.max, Math.max(r.min, value))}
+          aria-label={`${c.label}, slider from ${num(r.min, 3)} to ${num(r.max, 3)} ${c.unit}`}
+          aria-valuetext={`${num(value, 4)} ${c.unit}`}
+          onInput={(e) => set(Number(e.currentTarget.value))}
+        />
+      </div>
+      {error ? (
+        <p id={`${id}-err`} class="error" role="alert">
+          {error}
+        </p>
+      ) : null}
+    </div>
+  );
+}
 
 /** A starting what-if model: the best fit, else a guess from the picks' speeds. */
 export function startingModel(result: EstimateResult | undefined, picks: readonly PickRecord[]): WhatIfModel {
@@ -78,6 +177,9 @@ export function WhatIfView(props: WhatIfViewProps) {
   const { model, problem } = layeredOf(m);
   const misfit = whatIfMisfit(props.picks, m);
   const set = (key: keyof WhatIfModel, value: number) => props.onModel({ ...m, [key]: value });
+  // The ranges centre on the best fit (or the first guess from the picks), and stay put while dragging.
+  const centre = startingModel(props.result, props.picks);
+  const best = props.result ? layeredOf(startingModel(props.result, props.picks)).model : undefined;
   return (
     <div class="split">
       <section class="panel" aria-labelledby="whatif-h">
@@ -88,27 +190,14 @@ export function WhatIfView(props: WhatIfViewProps) {
           </button>
         </div>
         <Caution />
-        <p class="hint">Drag to see how another layer over half-space would look against the picks. Nothing here is saved.</p>
-        {SLIDERS.map((s) => {
-          const id = `wi-${s.key}`;
-          return (
-            <div class="slider" key={s.key}>
-              <label for={id}>
-                {s.label} ({s.unit}): <output for={id}>{num(m[s.key], 4)}</output>
-              </label>
-              <input
-                id={id}
-                type="range"
-                min={s.min}
-                max={s.max}
-                step={s.step}
-                value={m[s.key]}
-                aria-valuetext={`${num(m[s.key], 4)} ${s.unit}`}
-                onInput={(e) => set(s.key, Number(e.currentTarget.value))}
-              />
-            </div>
-          );
-        })}
+        <p class="hint">
+          Drag, type or nudge to see how another layer over half-space would look against the picks; the sliders run from
+          half to one and a half times the best fit (type any other value), and the best-fit curves stay on the plot, thin and grey, for comparison. Nothing here is
+          saved.
+        </p>
+        {CONTROLS.map((c) => (
+          <ParameterControl key={c.key} c={c} value={m[c.key]} centre={centre[c.key]} onValue={(v) => set(c.key, v)} />
+        ))}
         {problem ? (
           <p class="error" role="alert">
             {problem}
@@ -125,6 +214,7 @@ export function WhatIfView(props: WhatIfViewProps) {
         id="whatif-plot-h"
         picks={props.picks}
         model={model}
+        compare={best}
         curveLabel="what-if"
         selectedId={props.selectedId}
         settings={props.plot}

@@ -8,7 +8,7 @@ import { describe, expect, it } from 'vitest';
 import { demoPicks } from '../../../../../core/exchange/demo';
 import { estimateLayer } from '../../../../../core/estimate/estimate';
 import type { PickRecord } from '../../../../../core/exchange/records';
-import { layeredOf, startingModel, whatIfMisfit } from '../../../../../pwa/ui/views/whatif-view';
+import { CONTROLS, controlRange, layeredOf, startingModel, typedValue, whatIfMisfit } from '../../../../../pwa/ui/views/whatif-view';
 
 const picks = demoPicks().map(
   (p, i) => ({ ...p, id: `p${i}`, rev: 1, updatedAt: '2026-01-01T00:00:00.000Z', type: 'pick', siteId: 's', order: i }) as PickRecord,
@@ -36,5 +36,27 @@ describe('what-if', () => {
       problem: 'β2 (300 m/s) must be faster than β1 (300 m/s) for Love waves to be trapped; no curves are drawn.',
     });
     expect(layeredOf({ ...m, vs2: 600 }).model?.halfspace).toEqual({ vs: 600, density: 2100 });
+  });
+
+  it('centres the slider ranges on the best fit with fine steps: a 20 % drag moves β1 by 20 % of its best value, not hundreds of m/s', () => {
+    const m = startingModel(result, picks);
+    const b1 = CONTROLS.find((c) => c.key === 'vs1')!;
+    const r = controlRange(b1, m.vs1);
+    expect(r.min).toBeCloseTo(m.vs1 / 2, 9);
+    expect(r.max).toBeCloseTo(m.vs1 * 1.5, 9);
+    expect((r.min + r.max) / 2).toBeCloseTo(m.vs1, 9);
+    expect(r.step).toBeCloseTo((r.max - r.min) / 1000, 12);
+    expect(0.2 * (r.max - r.min)).toBeCloseTo(0.2 * m.vs1, 9);
+    // The nudge is about 1 % of the best value.
+    expect(r.nudge / m.vs1).toBeGreaterThan(0.004);
+    expect(r.nudge / m.vs1).toBeLessThan(0.03);
+  });
+
+  it('takes a typed value, or refuses it with a sentence naming the field', () => {
+    const h = CONTROLS.find((c) => c.key === 'h')!;
+    expect(typedValue(h, ' 7,25 ')).toEqual({ value: 7.25 });
+    expect(typedValue(h, 'abc')).toEqual({ error: 'Layer thickness H must be a number in m, but it is "abc".' });
+    const b2 = CONTROLS.find((c) => c.key === 'vs2')!;
+    expect(typedValue(b2, '9000')).toEqual({ error: 'Half-space shear speed β2 must lie between 30 and 5000 m/s, but it is 9000.' });
   });
 });
