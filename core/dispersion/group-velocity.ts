@@ -124,6 +124,23 @@ function carry(d: number, bj: number, u: number, rho: number, k: number, c: numb
 }
 
 /**
+ * Renormalises st so that |l| + |τ|/ref = 1 (the integrals, quadratic in
+ * the state, by the square) and returns the natural log of the size
+ * removed. Without it, many strong impedance contrasts grow the state by
+ * the contrast ratios until it overflows (the exponentials alone are
+ * already scaled out).
+ */
+function normalise(invRef: number): number {
+  const size = Math.abs(st.l) + Math.abs(st.t) * invRef;
+  const inv = 1 / size;
+  st.l *= inv;
+  st.t *= inv;
+  st.i1 *= inv * inv;
+  st.i2 *= inv * inv;
+  return Math.log(size);
+}
+
+/**
  * Group velocity U (m/s) of the Love mode with phase velocity c (m/s) at
  * angular frequency ω (rad/s), from the energy integrals.
  *
@@ -149,16 +166,21 @@ export function loveStackGroupVelocity(s: LoveStack, omega: number, c: number): 
   st.t = 0;
   st.i1 = 0;
   st.i2 = 0;
-  let peak = 1;
+  // Sizes are kept as logs: the state itself is renormalised after every layer.
+  const invRef = 1 / ref;
+  let logSize = 0;
+  let peak = 0;
   for (let j = 0; j <= n; j++) {
-    if (j > 0) carry(thickness[j - 1], vs[j - 1], mu[j - 1], density[j - 1], k, c);
+    if (j > 0) {
+      carry(thickness[j - 1], vs[j - 1], mu[j - 1], density[j - 1], k, c);
+      logSize += normalise(invRef);
+    }
     downL[j] = st.l;
     downT[j] = st.t;
     downI1[j] = st.i1;
     downI2[j] = st.i2;
-    const size = Math.abs(st.l) + Math.abs(st.t) / ref;
-    if (size > peak) peak = size;
-    downDrop[j] = peak / size;
+    if (logSize > peak) peak = logSize;
+    downDrop[j] = peak - logSize;
   }
   // Upward sweep from the half-space, in (l, τ′ = −τ): (1, μ_H γ_H), with the half-space integrals.
   const gH = (k * Math.sqrt((s.vsH - c) * (s.vsH + c))) / s.vsH;
@@ -166,16 +188,19 @@ export function loveStackGroupVelocity(s: LoveStack, omega: number, c: number): 
   st.t = s.muH * gH;
   st.i1 = s.densityH / (2 * gH);
   st.i2 = s.muH / (2 * gH);
-  peak = 0;
+  logSize = normalise(invRef);
+  peak = -Infinity;
   for (let j = n; j >= 0; j--) {
-    if (j < n) carry(thickness[j], vs[j], mu[j], density[j], k, c);
+    if (j < n) {
+      carry(thickness[j], vs[j], mu[j], density[j], k, c);
+      logSize += normalise(invRef);
+    }
     upL[j] = st.l;
     upT[j] = -st.t;
     upI1[j] = st.i1;
     upI2[j] = st.i2;
-    const size = Math.abs(st.l) + Math.abs(st.t) / ref;
-    if (size > peak) peak = size;
-    upDrop[j] = peak / size;
+    if (logSize > peak) peak = logSize;
+    upDrop[j] = peak - logSize;
   }
   // Join where the worse of the two sweeps has dropped least.
   let best = n;

@@ -17,13 +17,17 @@
  *   c = β:  P = [[1, d/μ], [0, 1]]   (the limit of both; reached continuously here)
  *
  * with k = ω/c and det P = 1. The evanescent matrix is multiplied by e^(−γd)
- * (entries (1 ± e^(−2γd))/2), so nothing overflows at high frequency; the
+ * (entries (1 ± e^(−2γd))/2), so nothing overflows at high frequency, and
+ * the state is renormalised to size |l| + |τ|/(μ_H k) = 1 whenever it leaves
+ * [2^−128, 2^128] (many strong contrasts otherwise overflow it); the
  * positive factors dropped do not change any sign. The secular function at
  * the top of the half-space is
  *
  *   F(c) = τ + μ_H γ_H l,   γ_H = k√(1 − c²/β_H²),
  *
- * continuous in c on (β_min, β_H], with no poles.
+ * continuous in c on (β_min, β_H] up to those positive rescalings, with no
+ * poles (a rescaling is a jump in size, never in sign, so Brent's bracket
+ * still closes on a root).
  *
  * Bracket verification (Sturm–Liouville argument). At fixed ω, SH motion
  * obeys (μ l′)′ + (ω²ρ − k²μ) l = 0, a Sturm–Liouville problem in the
@@ -48,7 +52,9 @@
  * found twice, whatever the layering: low-velocity layers at depth, close
  * roots near cutoffs, thin or very thick layers. Roots closer than the
  * floating-point spacing cannot be separated; that is reported as the
- * outcome 'inseparable', never as a silent number.
+ * outcome 'inseparable', never as a silent number. Every search is bounded:
+ * at most EVALUATIONS_PER_MODE propagations per requested mode, a count
+ * that breaks its own order or a non-finite F ends the solve as 'unstable'.
  *
  * Domain and units: SI (m, s, rad/s, m/s, kg/m³); ω > 0, β_min < c ≤ β_H.
  * These functions do not validate: validate models once with model.ts.
@@ -145,6 +151,10 @@ function agrees(m: number, l: number, t: number): boolean {
   return sl > 0 || (sl === 0 && (m & 1 ? -t : t) > 0);
 }
 
+/** The propagated state is renormalised to size 1 when its size leaves [RESCALE_BELOW, RESCALE_ABOVE]. */
+const RESCALE_ABOVE = 2 ** 128;
+const RESCALE_BELOW = 2 ** -128;
+
 /** Results of one propagation, kept in module scratch (no per-call objects). */
 const scratch = { l: 0, t: 0, nodes: 0, secular: 0 };
 
@@ -154,6 +164,8 @@ const scratch = { l: 0, t: 0, nodes: 0, secular: 0 };
  */
 function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean): number {
   const k = omega / c;
+  // τ/(μ_H k) is dimensionless like l: the size |l| + |τ|/(μ_H k) is what is normalised.
+  const invRef = c / (s.muH * omega);
   let l = 1;
   let t = 0;
   let m = 0;
@@ -192,8 +204,23 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
       // At most one node in an evanescent layer.
       if (countNodes && !agrees(m, l1, t1)) m += 1;
     }
-    l = l1;
-    t = t1;
+    // Renormalise after every layer where the state has left [2^-128, 2^128]
+    // in size: strong impedance contrasts grow (or shrink) it by the
+    // contrast ratios even when every exponential is scaled out, and after
+    // ~150 alternating layers it overflowed. One layer changes the size by
+    // far less than 2^800, so nothing overflows between checks. A positive
+    // factor changes no sign, so neither the roots nor the node count.
+    // (Renormalising every layer unconditionally made F kinked in c and
+    // Brent several times slower; this way a normal model is untouched.)
+    const size = Math.abs(l1) + Math.abs(t1) * invRef;
+    if (size > RESCALE_ABOVE || size < RESCALE_BELOW) {
+      const inv = 1 / size;
+      l = l1 * inv;
+      t = t1 * inv;
+    } else {
+      l = l1;
+      t = t1;
+    }
   }
   const gH = (k * Math.sqrt(Math.max(0, (s.vsH - c) * (s.vsH + c)))) / s.vsH;
   const f = t + s.muH * gH * l;
@@ -242,10 +269,19 @@ export function loveStackModeCount(s: LoveStack, omega: number): number {
   return loveModesBelow(s, omega, s.vsH);
 }
 
+/**
+ * Why a stack solve gave up, beyond Brent's own outcomes: 'inseparable'
+ * (roots closer than the floating-point spacing), 'unstable' (the secular
+ * function was not finite or the Sturm count ran against its own order:
+ * the arithmetic cannot be trusted for this model), 'evaluation-limit'
+ * (the bound on propagator evaluations per solve was reached).
+ */
+export type StackSolveStatus = RootStatus | 'inseparable' | 'unstable' | 'evaluation-limit';
+
 /** Solver outcome of the last call, kept by the solver (no per-call objects). */
 export interface StackSolveOutcome {
   /** 'converged' when every requested root present converged. */
-  status: RootStatus | 'inseparable';
+  status: StackSolveStatus;
   /** Modes present at this frequency (all of them, not only those requested). */
   present: number;
   /** Roots written to the output. */
@@ -258,6 +294,15 @@ export interface StackSolveOutcome {
 
 /** Relative width below which two roots count as inseparable in double precision. */
 const SEPARATION_RTOL = 4e-16;
+
+/**
+ * Propagator evaluations allowed per requested mode in one solve: isolating
+ * a root by bisection on the count takes at most ~60 halvings of the
+ * (β_min, β_H] range in double precision, and Brent at most 100 more
+ * (core/numeric/roots.ts), so 200 is never reached by a solvable model; it
+ * bounds the time of one solve whatever the model.
+ */
+export const EVALUATIONS_PER_MODE = 200;
 
 /**
  * Finds the phase velocities of the lowest `modes` Love modes at ω, in
@@ -278,6 +323,7 @@ export class LoveStackSolver {
   private out: Float64Array = new Float64Array(0);
   private wanted = 0;
   private lastF = 0;
+  private budget = 0;
   private readonly f = (c: number): number => {
     this.outcome.evaluations++;
     return propagate(this.stack, this.omega, c, false);
@@ -309,11 +355,24 @@ export class LoveStackSolver {
     const fa = this.lastF;
     const nb = this.count(b);
     const fb = this.lastF;
+    if (!Number.isFinite(fa) || !Number.isFinite(fb) || nb < na) {
+      // The count cannot be trusted, so neither can the number of modes.
+      o.status = 'unstable';
+      o.present = 0;
+      return 0;
+    }
     o.present = nb - na;
     this.wanted = Math.min(modes, nb - na);
     if (this.wanted <= 0) return 0;
+    this.budget = EVALUATIONS_PER_MODE * (this.wanted + 1);
     this.isolate(a, na, fa, b, nb, fb, na);
     return this.wanted;
+  }
+
+  /** Marks roots first… (below limit) as not found, with the given status (the first failure's status is kept). */
+  private giveUp(first: number, limit: number, status: StackSolveStatus): void {
+    for (let i = first; i < Math.min(limit, this.wanted); i++) this.out[i] = NaN;
+    if (this.outcome.status === 'converged') this.outcome.status = status;
   }
 
   /** Sturm count N(c); leaves F(c) in lastF for the bracket. */
@@ -336,19 +395,33 @@ export class LoveStackSolver {
     const mid = 0.5 * (a + b);
     if (b - a <= SEPARATION_RTOL * b * 4 || mid <= a || mid >= b) {
       // Several roots inside one floating-point gap: cannot be told apart.
-      for (let i = first; i < Math.min(nb - base, this.wanted); i++) this.out[i] = NaN;
-      this.outcome.status = 'inseparable';
+      this.giveUp(first, nb - base, 'inseparable');
+      return;
+    }
+    if (this.outcome.evaluations >= this.budget) {
+      this.giveUp(first, nb - base, 'evaluation-limit');
       return;
     }
     const nm = this.count(mid);
     const fm = this.lastF;
+    if (!Number.isFinite(fm) || nm < na || nm > nb) {
+      // N(c) is non-decreasing in exact arithmetic: a count against that order is rounding garbage.
+      this.giveUp(first, nb - base, 'unstable');
+      return;
+    }
     this.isolate(a, na, fa, mid, nm, fm, base);
     this.isolate(mid, nm, fm, b, nb, fb, base);
   }
 
   private refine(a: number, fa: number, b: number, fb: number, index: number): void {
-    const r = brent(this.f, a, b, fa, fb);
     const o = this.outcome;
+    if (!Number.isFinite(fa) || !Number.isFinite(fb)) {
+      this.out[index] = NaN;
+      if (o.status === 'converged') o.status = 'unstable';
+      o.found++;
+      return;
+    }
+    const r = brent(this.f, a, b, fa, fb);
     if (r.status === 'converged') {
       this.out[index] = r.x;
       const scale = (this.stack.muH * this.omega) / r.x;
@@ -364,7 +437,7 @@ export class LoveStackSolver {
 
 /** Outcome of a cutoff search. */
 export interface CutoffOutcome {
-  status: RootStatus | 'inseparable';
+  status: StackSolveStatus;
   /** Cutoff frequency, Hz (NaN unless converged). */
   frequency: number;
   /** Propagator evaluations used. */
@@ -395,16 +468,20 @@ export function loveStackCutoff(s: LoveStack, n: number): CutoffOutcome {
   const guess = (n * Math.PI) / slowness;
   let lo = guess;
   let hi = guess;
+  // Each search below is bounded: 200 halvings or doublings span far more
+  // than the frequencies of any model in bounds; the bisection stops at the
+  // floating-point spacing.
   let nlo = countAt(lo);
-  while (nlo > n) {
+  for (let i = 0; nlo > n; i++) {
+    if (i >= 200 || !(lo > 0)) return { status: 'bracket-lost', frequency: NaN, evaluations };
     lo *= 0.5;
     nlo = countAt(lo);
   }
   let nhi = nlo;
-  while (nhi <= n) {
+  for (let i = 0; nhi <= n; i++) {
     hi *= 2;
+    if (i >= 200 || !Number.isFinite(hi)) return { status: 'bracket-lost', frequency: NaN, evaluations };
     nhi = countAt(hi);
-    if (!Number.isFinite(hi)) return { status: 'bracket-lost', frequency: NaN, evaluations };
   }
   if (lo === hi) lo = hi * 0.5;
   // Bisection on the count until exactly one cutoff lies in (lo, hi].
@@ -412,6 +489,7 @@ export function loveStackCutoff(s: LoveStack, n: number): CutoffOutcome {
     const mid = 0.5 * (lo + hi);
     if (hi - lo <= SEPARATION_RTOL * 4 * hi) return { status: 'inseparable', frequency: NaN, evaluations };
     const nm = countAt(mid);
+    if (nm < nlo || nm > nhi) return { status: 'unstable', frequency: NaN, evaluations };
     if (nm <= n) {
       lo = mid;
       nlo = nm;

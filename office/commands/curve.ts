@@ -11,7 +11,7 @@
  * and one row per point. Points appear only where the mode exists.
  */
 import { parseArgs } from 'node:util';
-import { APPROACH_RTOL, dispersionCurves, logBand, MAX_MODES, type DispersionCurves, type Wave } from '../../core/dispersion/curve';
+import { APPROACH_RTOL, dispersionCurves, logBand, MAX_MODES, type CurveFailure, type DispersionCurves, type Wave } from '../../core/dispersion/curve';
 import { checkRayleighModel } from '../../core/dispersion/model';
 import { InputError } from '../../core/shared/errors';
 import { oneModelPath, readModelFile } from '../cli-options';
@@ -113,6 +113,25 @@ function parseWave(text: string | undefined): Wave {
   return t;
 }
 
+/** Why a root search gave up, in plain words (statuses of core/dispersion/love-stack.ts and core/numeric/roots.ts). */
+const FAILURE_REASON: Record<string, string> = {
+  inseparable: 'modes there lie closer together than double precision can tell apart (near-identical wave guides, e.g. many equal soft layers between stiff ones)',
+  unstable: 'the propagator’s arithmetic broke down for this model',
+  'evaluation-limit': 'the root search reached its bound on evaluations',
+  'max-iterations': 'the root search did not converge',
+  'bracket-lost': 'the root search lost its bracket',
+};
+
+/** One sentence for all the roots left out: how many, which modes at which frequencies, and why. */
+function failureSentence(failures: CurveFailure[]): string {
+  const freqs = [...new Set(failures.map((f) => f.frequency))];
+  const modes = [...new Set(failures.map((f) => f.mode))].sort((a, b) => a - b);
+  const reasons = [...new Set(failures.map((f) => FAILURE_REASON[f.status] ?? `the root search ended with "${f.status}"`))];
+  const where = `${freqs.length === 1 ? `${freqs[0]} Hz` : `${freqs.length} frequencies from ${freqs[0]} to ${freqs[freqs.length - 1]} Hz`}`;
+  const which = modes.length === 1 ? `mode ${modes[0]}` : `modes ${modes.join(', ')}`;
+  return `${failures.length} point${failures.length === 1 ? '' : 's'} left out (${which} at ${where}): ${reasons.join('; ')}.`;
+}
+
 function toJson(curves: DispersionCurves): string {
   return JSON.stringify({
     wave: curves.wave,
@@ -182,8 +201,13 @@ const curve: Command = {
         `shearfield curve: note: modes ${a.mode} and ${a.mode + 1} come within ${a.gap.toPrecision(3)} m/s of each other near ${a.frequency.toPrecision(4)} Hz; their branches osculate or cross there, and modes are numbered by order of phase velocity.\n`,
       );
     }
-    for (const f of curves.failures) {
-      io.err(`shearfield curve: warning: mode ${f.mode} at ${f.frequency} Hz left out, the root search ended with "${f.status}".\n`);
+    if (curves.failures.length > 0) {
+      const sentence = failureSentence(curves.failures);
+      if (curves.modes.every((m) => m.frequency.length === 0)) {
+        // Nothing could be solved: an error, not an empty curve.
+        throw new InputError(path, `No point of the curve could be computed for this model: ${sentence}`);
+      }
+      io.err(`shearfield curve: warning: ${sentence}\n`);
     }
     io.out((values.csv ? toCsv(curves) : toJson(curves)) + '\n');
     return 0;

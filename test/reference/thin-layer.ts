@@ -42,19 +42,34 @@ export interface TlmMesh {
   depth: number;
   /** Split every element into this many equal parts (mesh refinement). @default 1 */
   split?: number;
+  /**
+   * When set, each layer gets its own element size: at most its shear
+   * wavelength at f divided by this number (and at most `h`), so fast
+   * layers are not meshed as finely as slow ones. @default undefined
+   */
+  perWavelength?: number;
+  /** The frequency (Hz) whose wavelengths size the elements with perWavelength; keep it fixed to compare nearby frequencies on one mesh. @default the frequency solved for */
+  meshFrequency?: number;
 }
 
-/** Love modes (c < β_H) at frequency f (Hz) by the thin-layer method on `mesh`. Sorted by c. */
-export function thinLayerModes(model: TlmModel, f: number, mesh: TlmMesh): TlmMode[] {
+/** One linear element: thickness, shear modulus, density. */
+interface Element {
+  d: number;
+  mu: number;
+  rho: number;
+}
+
+/** The element list of `mesh` at frequency f (Hz), from the surface down to the fixed base. */
+function meshElements(model: TlmModel, f: number, mesh: TlmMesh): Element[] {
   const split = mesh.split ?? 1;
-  // Element list: thickness, μ, ρ.
-  const el: { d: number; mu: number; rho: number }[] = [];
+  const el: Element[] = [];
   const add = (d: number, mu: number, rho: number) => {
     for (let i = 0; i < split; i++) el.push({ d: d / split, mu, rho });
   };
   let z = 0;
   for (const l of model.layers) {
-    const n = Math.ceil(l.thickness / mesh.h - 1e-9);
+    const size = mesh.perWavelength === undefined ? mesh.h : Math.min(mesh.h, l.vs / ((mesh.meshFrequency ?? f) * mesh.perWavelength));
+    const n = Math.ceil(l.thickness / size - 1e-9);
     for (let i = 0; i < n; i++) add(l.thickness / n, l.density * l.vs * l.vs, l.density);
     z += l.thickness;
   }
@@ -71,6 +86,13 @@ export function thinLayerModes(model: TlmModel, f: number, mesh: TlmMesh): TlmMo
     z += d;
     d *= mesh.growth;
   }
+  return el;
+}
+
+/** Love modes (c < β_H) at frequency f (Hz) by the thin-layer method on `mesh`. Sorted by c. */
+export function thinLayerModes(model: TlmModel, f: number, mesh: TlmMesh): TlmMode[] {
+  const el = meshElements(model, f, mesh);
+  const hs = model.halfspace;
   const nodes = el.length; // the base node (index nodes) is fixed and dropped
   const A = Matrix.zeros(nodes, nodes);
   const B = Matrix.zeros(nodes, nodes); // ω²M − G
@@ -120,4 +142,74 @@ export function thinLayerModes(model: TlmModel, f: number, mesh: TlmMesh): TlmMo
     out.push({ phase: c, group: (k * vAv) / (omega * vMv) });
   }
   return out.sort((a, b) => a.phase - b.phase);
+}
+
+/**
+ * The same thin-layer eigenproblem solved without a dense matrix, for long
+ * stacks where the O(n³) decomposition is too slow: the matrices A and
+ * B = ω²M − G are tridiagonal, and by Sylvester's law of inertia the number
+ * of eigenvalues k² above s equals the number of negative pivots of the
+ * LDLᵀ factorisation of sA − B (Parlett, *The Symmetric Eigenvalue
+ * Problem*, 1980, §3.3; the bisection of Barth, Martin & Wilkinson 1967).
+ * Bisection on s then gives each k² to full precision. Returns the phase
+ * velocities (ascending) of the lowest `modes` modes with c < β_H, and
+ * `present`, how many modes the mesh has with c below `below` (default β_H).
+ */
+export function thinLayerSturmPhases(
+  model: TlmModel,
+  f: number,
+  mesh: TlmMesh,
+  modes: number,
+  below: number = model.halfspace.vs,
+): { phase: number[]; present: number } {
+  const el = meshElements(model, f, mesh);
+  const n = el.length; // the base node is fixed and dropped
+  const aD = new Float64Array(n);
+  const aO = new Float64Array(n); // (i, i+1)
+  const bD = new Float64Array(n);
+  const bO = new Float64Array(n);
+  const w2 = (2 * Math.PI * f) ** 2;
+  el.forEach((e, i) => {
+    const a = (e.mu * e.d) / 6;
+    const m = (e.rho * e.d) / 6;
+    const g = e.mu / e.d;
+    aD[i] += 2 * a;
+    bD[i] += 2 * w2 * m - g;
+    if (i + 1 < n) {
+      aD[i + 1] += 2 * a;
+      bD[i + 1] += 2 * w2 * m - g;
+      aO[i] = a;
+      bO[i] = w2 * m + g;
+    }
+  });
+  /** Eigenvalues k² above s: negative pivots of sA − B. */
+  const above = (s: number): number => {
+    let count = 0;
+    let p = 1;
+    for (let i = 0; i < n; i++) {
+      const o = i > 0 ? s * aO[i - 1] - bO[i - 1] : 0;
+      p = s * aD[i] - bD[i] - (i > 0 ? (o * o) / p : 0);
+      if (p === 0) p = -1e-300;
+      if (p < 0) count++;
+    }
+    return count;
+  };
+  const vsMin = Math.min(...model.layers.map((l) => l.vs), model.halfspace.vs);
+  const sLow = w2 / model.halfspace.vs ** 2;
+  let sTop = (4 * w2) / vsMin ** 2;
+  while (above(sTop) > 0) sTop *= 2;
+  const present = above(w2 / below ** 2);
+  const phase: number[] = [];
+  for (let j = 0; j < Math.min(modes, above(sLow)); j++) {
+    // k² of mode j is the (j+1)-th largest: the s where the count drops from j+1 to j.
+    let lo = sLow;
+    let hi = sTop;
+    for (let it = 0; it < 200 && hi - lo > 1e-15 * hi; it++) {
+      const mid = 0.5 * (lo + hi);
+      if (above(mid) > j) lo = mid;
+      else hi = mid;
+    }
+    phase.push(Math.sqrt(w2 / (0.5 * (lo + hi))));
+  }
+  return { phase, present };
 }
