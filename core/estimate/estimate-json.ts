@@ -5,25 +5,43 @@
  * back (`shearfield site ESTIMATE.json`). Pure; no numbers are computed here.
  */
 import { InputError } from '../shared/errors';
+import type { FigureRange } from '../site/site';
 import type { EstimateResult, ParameterEstimate } from './estimate';
 import { VERDICT_LEVELS, type VerdictLevel } from './verdict';
 
-function parameterJson(e: ParameterEstimate) {
-  return { best: e.best, low68: e.low68, high68: e.high68, low95: e.low95, high95: e.high95 };
+/**
+ * One parameter's interval. An open end (the interval reached the search
+ * range, open_ends says which) is null, never the search range's own value,
+ * which would read like a bound: the data do not bound it there. A 68 % end
+ * sitting on that same range end is null too.
+ */
+function parameterJson(e: ParameterEstimate, range: readonly [number, number]) {
+  return {
+    best: e.best,
+    low68: e.openLow && e.low68 === range[0] ? null : e.low68,
+    high68: e.openHigh && e.high68 === range[1] ? null : e.high68,
+    low95: e.openLow ? null : e.low95,
+    high95: e.openHigh ? null : e.high95,
+  };
+}
+
+/** A site figure's best value and 95 % ends, an end the data do not bound flagged open beside it. */
+function figureJson(f: FigureRange) {
+  return { best: f.best, low95: f.low, high95: f.high, open_low: f.openLow === true, open_high: f.openHigh === true };
 }
 
 /** The JSON the command prints, for a result (contract keys first). */
 export function estimateJson(r: EstimateResult) {
   const site = r.site;
   return {
-    thickness_m: parameterJson(r.thickness),
-    vs1_m_s: parameterJson(r.vs1),
-    vs2_m_s: parameterJson(r.vs2),
+    thickness_m: parameterJson(r.thickness, r.searchRange.thickness),
+    vs1_m_s: parameterJson(r.vs1, r.searchRange.vs1),
+    vs2_m_s: parameterJson(r.vs2, r.searchRange.vs2),
     alternatives: r.alternatives.map((a) => ({
       rank: a.rank,
-      thickness_m: parameterJson(a.thickness),
-      vs1_m_s: parameterJson(a.vs1),
-      vs2_m_s: parameterJson(a.vs2),
+      thickness_m: parameterJson(a.thickness, r.searchRange.thickness),
+      vs1_m_s: parameterJson(a.vs1, r.searchRange.vs1),
+      vs2_m_s: parameterJson(a.vs2, r.searchRange.vs2),
       chi2: a.chi2,
       delta_chi2: a.deltaChi2,
     })),
@@ -50,7 +68,7 @@ export function estimateJson(r: EstimateResult) {
       vs1_m_s: r.searchRange.vs1,
       vs2_m_s: r.searchRange.vs2,
     },
-    vs30_m_s: site ? { best: site.vs30.best, low95: site.vs30.low, high95: site.vs30.high } : null,
+    vs30_m_s: site ? figureJson(site.vs30) : null,
     site_class: site ? site.classes : null,
     picks: r.pickFit.labels.map((label, i) => ({
       pick: label,
@@ -119,12 +137,15 @@ export function estimateFromJson(json: unknown): EstimateRead {
     const p = json[key];
     if (!isObject(p)) throw new InputError(key, `${key} must be an object with best, low95 and high95, but it is ${p === undefined ? 'missing' : 'something else'}.`);
     const o = isObject(opens[key]) ? (opens[key] as Record<string, unknown>) : {};
+    const openLow = o.low === true;
+    const openHigh = o.high === true;
+    // An open end is written as null (older files wrote the search range's value): either is read as "not bounded".
     return {
       best: num(p.best, `${key}.best`),
-      low95: num(p.low95, `${key}.low95`),
-      high95: num(p.high95, `${key}.high95`),
-      openLow: o.low === true,
-      openHigh: o.high === true,
+      low95: openLow && p.low95 === null ? NaN : num(p.low95, `${key}.low95`),
+      high95: openHigh && p.high95 === null ? NaN : num(p.high95, `${key}.high95`),
+      openLow,
+      openHigh,
     };
   };
   const thickness = interval('thickness_m');

@@ -56,7 +56,7 @@ import { brent } from '../numeric/roots';
 import { chi2Upper95, diagnoseFit, type EstimateDiagnostics } from './estimate-diagnostics';
 import { phaseVelocityFrom, predictVelocity } from './estimate-forward';
 import { estimateVerdict, type EstimateVerdict } from './verdict';
-import { siteFiguresForRanges, type SiteFigures } from '../site/site';
+import { siteFiguresOfEstimate, type SiteFigures } from '../site/site';
 
 export * from './estimate-types';
 import {
@@ -97,10 +97,10 @@ export interface EstimateResult {
   searchRange: { thickness: [number, number]; vs1: [number, number]; vs2: [number, number] };
   /**
    * Site figures (site.ts: Vs30 by EN 1998-1 eq. 3.1, v̄s100ft, site classes,
-   * f0) of the best model, each range taken exactly over the box of the 95 %
-   * intervals (so at least 95 %; a thickness open at its high end counts as
-   * unbounded); the speeds count as estimated. Null when site.ts rejects the
-   * model, with the reason in siteNote.
+   * f0) of the best model, by site.ts siteFiguresOfEstimate: each range taken
+   * exactly over the box of the 95 % intervals, open on the side of an open
+   * interval end. Null when site.ts rejects the model, with the reason in
+   * siteNote.
    */
   site: SiteFigures | null;
   siteNote: string;
@@ -848,21 +848,20 @@ function siteOf(
   P: EstimateProblem,
 ): { site: SiteFigures | null; siteNote: string } {
   try {
-    const site = siteFiguresForRanges(
-      { thickness: thickness.best, vs1: vs1.best, vs2: vs2.best, density1: P.rho1, density2: P.rho2 },
-      {
-        thickness: [thickness.low95, thickness.openHigh ? Infinity : thickness.high95],
-        vs1: [vs1.low95, vs1.high95],
-        vs2: [vs2.low95, vs2.high95],
-      },
-      { estimatedVelocities: vs1.free || vs2.free },
-    );
-    return { site, siteNote: 'Site figures are taken over the box of the 95 % intervals (so at least 95 %).' };
+    // The one path and rule shared with the app, sites-summary and GeoJSON (site.ts).
+    const site = siteFiguresOfEstimate({ thickness, vs1, vs2, density1: P.rho1, density2: P.rho2 });
+    return { site, siteNote: SITE_NOTE };
   } catch (e) {
     if (!(e instanceof InputError)) throw e;
     return { site: null, siteNote: `Site figures are not given: ${e.message}` };
   }
 }
+
+/** What level the site-figure ranges carry (site.ts siteFiguresOfEstimate says why). */
+const SITE_NOTE =
+  'Site figures are taken over the box of the 95 % intervals: each figure\'s range covers every model within the 95 % ' +
+  'profile level of the best fit, so at least that figure\'s own 95 % interval; it is not a joint 95 % statement about all ' +
+  'parameters at once. An open interval end makes the figures open on that side.';
 
 function round(x: number): string {
   return String(Number(x.toPrecision(3)));

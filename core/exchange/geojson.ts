@@ -25,13 +25,16 @@ export interface SiteFeatureProperties {
   verdict: 'resolved' | 'rough' | 'unresolved' | null;
   verdict_text: string | null;
   thickness_m: number | null;
+  /** null when the interval is open below (the data do not rule out a thinner layer). */
   thickness_95_low_m: number | null;
   /** null when the interval is open towards depth. */
   thickness_95_high_m: number | null;
   vs1_m_s: number | null;
   vs2_m_s: number | null;
   vs30_m_s: number | null;
+  /** null when the data do not bound Vs30 below (an open interval end, core/site/site.ts); read vs30_high_m_s as "at most". */
   vs30_low_m_s: number | null;
+  /** null when the data do not bound Vs30 above; read vs30_low_m_s as "at least". */
   vs30_high_m_s: number | null;
   /** Every class the 95 % range allows, slowest first, joined by "/". */
   class_asce7_16: string | null;
@@ -84,13 +87,13 @@ export function sitesToGeoJson(sites: readonly SiteRecord[], summaries: Readonly
           verdict: sum?.verdict?.level ?? null,
           verdict_text: sum?.verdict?.text ?? null,
           thickness_m: num(sum?.thickness?.best),
-          thickness_95_low_m: num(sum?.thickness?.low95),
-          thickness_95_high_m: num(sum?.thickness?.high95),
+          thickness_95_low_m: sum?.thickness?.openLow ? null : num(sum?.thickness?.low95),
+          thickness_95_high_m: sum?.thickness?.openHigh ? null : num(sum?.thickness?.high95),
           vs1_m_s: num(sum?.vs1?.best),
           vs2_m_s: num(sum?.vs2?.best),
           vs30_m_s: num(f?.vs30.best),
-          vs30_low_m_s: num(f?.vs30.low),
-          vs30_high_m_s: num(f?.vs30.high),
+          vs30_low_m_s: f?.vs30.openLow ? null : num(f?.vs30.low),
+          vs30_high_m_s: f?.vs30.openHigh ? null : num(f?.vs30.high),
           class_asce7_16: f ? f.classes.asce7_16.join('/') : null,
           class_asce7_22: f ? f.classes.asce7_22.join('/') : null,
           class_en1998_1: f ? f.classes.en1998_1.join('/') : null,

@@ -20,6 +20,11 @@ function numCell(x: number | undefined): string {
   return x === undefined || Number.isNaN(x) ? '' : String(x);
 }
 
+/** An interval or range end: empty when the data do not bound it (open), so no search-range value reads like a bound. */
+function openCell(x: number | undefined, open: boolean | undefined): string {
+  return open ? '' : numCell(x);
+}
+
 function table(header: readonly string[], rows: string[][]): string {
   return [header.join(','), ...rows.map((r) => r.join(','))].join('\r\n') + '\r\n';
 }
@@ -108,7 +113,9 @@ export const SUMMARY_CSV_COLUMNS = [
  * The estimate summary table, one row per site. `verdict` is the level
  * (resolved, rough, unresolved; core/estimate/verdict.ts) and `verdict_text`
  * its sentence, next to the thickness they judge. Speeds given (fixed) show
- * equal bounds; an interval open towards depth shows Infinity. Classes
+ * equal bounds; an end the data do not bound (an open interval end, or a
+ * site figure made open by one) is an empty cell, never a number that reads
+ * like a bound: the warnings say "thinner than", "at least" or "at most". Classes
  * list every class the 95 % range allows, slowest first, joined by "/".
  * `warnings` joins the plain-words warnings (or the reason there is no
  * estimate) with " | ".
@@ -129,24 +136,24 @@ export function summaryToCsv(summaries: readonly SiteSummary[]): string {
         numCell(s.thickness?.best),
         numCell(s.thickness?.low68),
         numCell(s.thickness?.high68),
-        numCell(s.thickness?.low95),
-        numCell(s.thickness?.high95),
+        openCell(s.thickness?.low95, s.thickness?.openLow),
+        openCell(s.thickness?.high95, s.thickness?.openHigh),
         numCell(s.vs1?.best),
-        numCell(s.vs1?.low95),
-        numCell(s.vs1?.high95),
+        openCell(s.vs1?.low95, s.vs1?.openLow),
+        openCell(s.vs1?.high95, s.vs1?.openHigh),
         numCell(s.vs2?.best),
-        numCell(s.vs2?.low95),
-        numCell(s.vs2?.high95),
+        openCell(s.vs2?.low95, s.vs2?.openLow),
+        openCell(s.vs2?.high95, s.vs2?.openHigh),
         numCell(f?.vs30.best),
-        numCell(f?.vs30.low),
-        numCell(f?.vs30.high),
+        openCell(f?.vs30.low, f?.vs30.openLow),
+        openCell(f?.vs30.high, f?.vs30.openHigh),
         numCell(f?.vs100ft.best),
         textCell(f?.classes.asce7_16.join('/')),
         textCell(f?.classes.asce7_22.join('/')),
         textCell(f?.classes.en1998_1.join('/')),
         numCell(f?.f0_hz.best),
-        numCell(f?.f0_hz.low),
-        numCell(f?.f0_hz.high),
+        openCell(f?.f0_hz.low, f?.f0_hz.openLow),
+        openCell(f?.f0_hz.high, f?.f0_hz.openHigh),
         textCell((s.message ? [s.message, ...s.warnings] : s.warnings).join(' | ')),
         textCell(s.caution),
       ];

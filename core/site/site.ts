@@ -26,7 +26,7 @@
  */
 import { CAUTION } from '../shared/caution';
 import { InputError, describeValue } from '../shared/errors';
-import { checkDensity, checkShearSpeed, checkThickness, validateModel, type LayeredModel } from '../dispersion/model';
+import { checkDensity, checkShearSpeed, checkThickness, MODEL_BOUNDS, validateModel, type LayeredModel } from '../dispersion/model';
 
 /** One international foot in metres, exact by definition (1959). */
 export const FOOT_M = 0.3048;
@@ -167,6 +167,14 @@ export interface FigureRange {
   best: number;
   low: number;
   high: number;
+  /**
+   * The data do not bound the figure on this side: the end comes from an
+   * open interval end (the search range, extended to what the model allows),
+   * so it is a limit of the model, not of the data. Read it as "at least" /
+   * "at most" the other end. Absent or false: an ordinary 95 % end.
+   */
+  openLow?: boolean;
+  openHigh?: boolean;
 }
 
 export interface SiteFigures {
@@ -333,6 +341,26 @@ const fmt = (x: number): string => (Number.isFinite(x) ? String(Math.round(x * 1
 
 function range(best: number, values: readonly number[]): FigureRange {
   return { best, low: Math.min(best, ...values), high: Math.max(best, ...values) };
+}
+
+/**
+ * The range over corner values, each with a flag saying whether the corner
+ * uses an open end: an extreme is open when every corner reaching it does
+ * (a closed corner reaching the same value makes it a true 95 % end).
+ */
+function openRange(best: number, values: readonly number[], open: readonly boolean[]): FigureRange {
+  const r = range(best, values);
+  const openAt = (x: number) => {
+    let any = false;
+    for (let i = 0; i < values.length; i++) {
+      if (values[i] === x) {
+        if (!open[i]) return false;
+        any = true;
+      }
+    }
+    return any;
+  };
+  return { ...r, openLow: r.low !== best && openAt(r.low), openHigh: r.high !== best && openAt(r.high) };
 }
 
 /** Warnings that every site result carries: what shear speeds alone cannot decide. */
@@ -570,6 +598,7 @@ export function siteFiguresForRanges(
   best: TwoLayerBest,
   ranges: TwoLayerRanges,
   options: SiteOptions = {},
+  open: OpenEnds = {},
 ): SiteFigures {
   if (!best || typeof best !== 'object') throw new InputError('best', 'best must be an object.');
   if (!ranges || typeof ranges !== 'object') throw new InputError('ranges', 'ranges must be an object.');
@@ -591,23 +620,39 @@ export function siteFiguresForRanges(
       throw new InputError(`ranges.${name}`, `The best ${name} (${value}) lies outside its range [${lo}, ${hi}].`);
     }
   }
-  if (H[0] <= 0) throw new InputError('ranges.thickness', 'ranges.thickness low end must be greater than 0 m.');
+  if (H[0] <= 0 && !open.thickness?.[0]) throw new InputError('ranges.thickness', 'ranges.thickness low end must be greater than 0 m.');
   if (V1[0] <= 0) throw new InputError('ranges.vs1', 'ranges.vs1 low end must be greater than 0 m/s.');
   if (V2[0] <= 0) throw new InputError('ranges.vs2', 'ranges.vs2 low end must be greater than 0 m/s.');
 
   const corners: [number, number, number][] = [];
-  for (const hh of H) for (const a of V1) for (const b of V2) corners.push([hh, a, b]);
-  const v30 = range(
+  const cornerOpen: [boolean, boolean, boolean][] = [];
+  const oH = open.thickness ?? [false, false];
+  const o1 = open.vs1 ?? [false, false];
+  const o2 = open.vs2 ?? [false, false];
+  for (let i = 0; i < 2; i++) {
+    for (let j = 0; j < 2; j++) {
+      for (let k = 0; k < 2; k++) {
+        corners.push([H[i], V1[j], V2[k]]);
+        cornerOpen.push([oH[i], o1[j], o2[k]]);
+      }
+    }
+  }
+  // Which parameters each figure depends on: a corner counts as open for a figure only through those.
+  const openBy = (useH: boolean, use1: boolean, use2: boolean) =>
+    cornerOpen.map(([a, b, c]) => (useH && a) || (use1 && b) || (use2 && c));
+  const v30 = openRange(
     twoLayerAverage(h, b1, b2, VS30_DEPTH_M),
     corners.map(([hh, a, b]) => twoLayerAverage(hh, a, b, VS30_DEPTH_M)),
+    openBy(true, true, true),
   );
-  const v100 = range(
+  const v100 = openRange(
     twoLayerAverage(h, b1, b2, VS100FT_DEPTH_M),
     corners.map(([hh, a, b]) => twoLayerAverage(hh, a, b, VS100FT_DEPTH_M)),
+    openBy(true, true, true),
   );
-  const f0 = range(b1 / (4 * h), corners.map(([hh, a]) => a / (4 * hh)));
-  const t0 = range((4 * h) / b1, corners.map(([hh, a]) => (4 * hh) / a));
-  const imp = range((r1 * b1) / (r2 * b2), corners.map(([, a, b]) => (r1 * a) / (r2 * b)));
+  const f0 = openRange(b1 / (4 * h), corners.map(([hh, a]) => a / (4 * hh)), openBy(true, true, false));
+  const t0 = openRange((4 * h) / b1, corners.map(([hh, a]) => (4 * hh) / a), openBy(true, true, false));
+  const imp = openRange((r1 * b1) / (r2 * b2), corners.map(([, a, b]) => (r1 * a) / (r2 * b)), openBy(false, true, true));
 
   const { classes, warnings } = siteClassesForRanges(
     { vs30: [v30.low, v30.high], vs100ft: [v100.low, v100.high], typeE: { thickness: H, vs1: V1, vs2: V2 } },
@@ -615,6 +660,23 @@ export function siteFiguresForRanges(
   );
   if (!Number.isFinite(H[1])) {
     warnings.push('The thickness has no upper bound, so f0 has no lower bound and T0 no upper bound.');
+  }
+  if (oH[0]) {
+    warnings.push(
+      'The thickness interval is open below, so the figures are taken down to no layer at all: f0 has no upper bound, ' +
+        'and Vs30 may reach the half-space speed.',
+    );
+  }
+  for (const [name, o] of [
+    ['layer', o1],
+    ['half-space', o2],
+  ] as const) {
+    if (o[0] || o[1]) {
+      warnings.push(
+        `The ${name} speed interval is open ${o[0] && o[1] ? 'at both ends' : o[0] ? 'below' : 'above'}, so the figures take that speed ` +
+          `out to the model's limits (${MODEL_BOUNDS.vsMin}–${MODEL_BOUNDS.vsMax} m/s, common practice) on that side.`,
+      );
+    }
   }
   if (V1[1] >= V2[0]) {
     warnings.push(
@@ -640,6 +702,17 @@ export interface Interval95 {
   best: number;
   low95: number;
   high95: number;
+  /** The interval reached the search range below: the data do not bound it there (low95 is then not used). */
+  openLow?: boolean;
+  /** The same above (high95 is then not used). */
+  openHigh?: boolean;
+}
+
+/** Which range ends are open ([low, high]) for siteFiguresForRanges: the data do not bound them. */
+export interface OpenEnds {
+  thickness?: readonly [boolean, boolean];
+  vs1?: readonly [boolean, boolean];
+  vs2?: readonly [boolean, boolean];
 }
 
 /** An estimate of one layer over a half-space: thickness and speeds with 95 % intervals, densities as used. */
@@ -652,18 +725,56 @@ export interface TwoLayerEstimate {
 }
 
 /**
- * Site figures of an estimate over the box of its 95 % intervals, the
- * speeds counted as estimated (siteFiguresForRanges with
- * estimatedVelocities). Throws InputError where siteFiguresForRanges does.
+ * Site figures of an estimate: the one path for every caller (the estimate
+ * itself, the app's figures view, sites-summary, GeoJSON, `shearfield site`
+ * on an estimate file), with one rule.
+ *
+ * Each figure is taken over the box of the 95 % intervals. An open interval
+ * end is not a bound: the figure is open on that side and extends to what
+ * the open end allows: thickness open below goes down to 0 m (no layer:
+ * Vs30 reaches the half-space speed, f0 is unbounded), open above to
+ * infinity; a speed open below or above goes to the model's limits
+ * (MODEL_BOUNDS, common practice), the layer kept no faster than the
+ * half-space's high end and the half-space no slower than the layer's low
+ * end. So the classes list every class the data cannot rule out.
+ *
+ * Level: the box contains every model within the profile Δχ² of the best
+ * (each marginal interval is that region's projection), so each figure's
+ * range covers that figure's own 95 % profile-likelihood interval (Wilks
+ * 1938) and usually more. It is not a joint 95 % region for all three
+ * parameters at once, and the classes of the three tables are each such a
+ * one-figure statement.
+ *
+ * The ±30 % speed sensitivity check applies only when `options` asks for
+ * it (a user's choice, no standard named). Throws InputError where
+ * siteFiguresForRanges does.
  */
-export function siteFiguresOfEstimate(r: TwoLayerEstimate): SiteFigures {
-  return siteFiguresForRanges(
-    { thickness: r.thickness.best, vs1: r.vs1.best, vs2: r.vs2.best, density1: r.density1, density2: r.density2 },
+export function siteFiguresOfEstimate(r: TwoLayerEstimate, options: SiteOptions = {}): SiteFigures {
+  const B = MODEL_BOUNDS;
+  const t = r.thickness;
+  const a = r.vs1;
+  const b = r.vs2;
+  const oH: [boolean, boolean] = [t.openLow === true, t.openHigh === true];
+  const o1: [boolean, boolean] = [a.openLow === true, a.openHigh === true];
+  const o2: [boolean, boolean] = [b.openLow === true, b.openHigh === true];
+  const v2High = o2[1] ? B.vsMax : b.high95;
+  const v1Low = o1[0] ? Math.min(B.vsMin, a.best) : a.low95;
+  const v1High = o1[1] ? Math.max(a.best, Math.min(B.vsMax, v2High)) : a.high95;
+  const v2Low = o2[0] ? Math.min(b.best, Math.max(B.vsMin, v1Low)) : b.low95;
+  const figures = siteFiguresForRanges(
+    { thickness: t.best, vs1: a.best, vs2: b.best, density1: r.density1, density2: r.density2 },
     {
-      thickness: [r.thickness.low95, r.thickness.high95],
-      vs1: [r.vs1.low95, r.vs1.high95],
-      vs2: [r.vs2.low95, r.vs2.high95],
+      thickness: [oH[0] ? 0 : t.low95, oH[1] ? Infinity : t.high95],
+      vs1: [v1Low, v1High],
+      vs2: [v2Low, v2High],
     },
-    { estimatedVelocities: true },
+    options,
+    { thickness: oH, vs1: o1, vs2: o2 },
   );
+  if (oH[0] && Number.isFinite(t.low95)) {
+    figures.warnings.unshift(
+      `The data do not rule out a layer thinner than ${fmt(t.low95)} m, the low end of the thickness search range${oH[1] ? '' : `: read the thickness as "at most ${fmt(t.high95)} m"`}.`,
+    );
+  }
+  return figures;
 }

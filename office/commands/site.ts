@@ -11,7 +11,7 @@
 import { parseArgs } from 'node:util';
 import { estimateFromJson, looksLikeEstimateJson } from '../../core/estimate/estimate-json';
 import { InputError } from '../../core/shared/errors';
-import { siteFigures, siteFiguresOfEstimate, VS100FT_DEPTH_M, type SiteFigures } from '../../core/site/site';
+import { siteFigures, siteFiguresOfEstimate, VS100FT_DEPTH_M, type FigureRange, type SiteFigures } from '../../core/site/site';
 import { oneModelPath, readModelFile, readTextFile } from '../cli-options';
 import type { Command, CommandIO } from '../command';
 
@@ -43,9 +43,10 @@ MODEL.json holds, in SI units named in the fields:
    "halfspace":{"vs_m_s":900,"density_kg_m3":2200}}
 
 Options:
-  --estimated-velocities  The speeds are estimated, not measured: list the ASCE/SEI 7-22
-                          classes for the average speed divided and multiplied by 1.3
-                          (from memory of ASCE/SEI 7-22 §20.3; verify). Default: off.
+  --estimated-velocities  A ±30 % speed sensitivity check of your choosing (no standard
+                          prescribes it here): the ASCE/SEI 7-22 classes also cover the
+                          average speed divided and multiplied by 1.3. For a model file
+                          or an estimate. Default: off.
   -h, --help              Show this help.
 
 Output: one line of JSON,
@@ -55,10 +56,12 @@ Output: one line of JSON,
 ESTIMATE.json: the output of shearfield estimate (for example
   shearfield estimate picks.csv > estimate.json; shearfield site estimate.json).
   The figures are those of the best model, with the classes over the box of the
-  95 % intervals (a thickness open towards depth counts as unbounded); the speeds
-  count as estimated. The output has the keys above, then
+  95 % intervals; an open interval end (one the data do not bound) makes the
+  figures open on that side, so the classes list every class it allows. The
+  output has the keys above, then
   "ranges":{"vs30_m_s":[low,high],"vs100ft_m_s":[…],"f0_hz":[…],"t0_s":[…],"impedance_ratio":[…]}
-  (null for an end without a bound) and the estimate's
+  (null for an end the data do not bound: read the other end as "at least" or
+  "at most") and the estimate's
   "verdict":{"level":"resolved | rough | unresolved","text":"…"}, unchanged: figures
   from an estimate whose thickness is not resolved are not resolved either, and
   the verdict's sentence says so ("not resolved").
@@ -88,9 +91,6 @@ const site: Command = {
       // Not JSON: readModelFile below says so in its own words.
     }
     if (looksLikeEstimateJson(parsed)) {
-      if (values['estimated-velocities']) {
-        throw new InputError('--estimated-velocities', '--estimated-velocities applies to a model file; the speeds of an estimate always count as estimated.');
-      }
       let est;
       try {
         est = estimateFromJson(parsed);
@@ -98,17 +98,16 @@ const site: Command = {
         if (e instanceof InputError) throw new InputError(e.field, `The estimate file "${path}" is invalid: ${e.message}`);
         throw e;
       }
-      const s = siteFiguresOfEstimate({
-        thickness: { ...est.thickness, high95: est.thickness.openHigh ? Infinity : est.thickness.high95 },
-        vs1: est.vs1,
-        vs2: est.vs2,
-        density1: est.density1,
-        density2: est.density2,
-      });
+      // The one path shared with the estimate itself: open interval ends make the figures open (site.ts).
+      const s = siteFiguresOfEstimate(
+        { thickness: est.thickness, vs1: est.vs1, vs2: est.vs2, density1: est.density1, density2: est.density2 },
+        { estimatedVelocities: values['estimated-velocities'] },
+      );
       if (est.verdict.level === 'unresolved') {
         s.warnings.unshift('The layer thickness is not resolved (see the verdict), so these figures rest on a thickness the picks do not resolve.');
       }
-      const ends = (r: { low: number; high: number }) => [finiteOrNull(r.low), finiteOrNull(r.high)];
+      // An end the data do not bound (from an open interval end) is null, never a number that reads like a bound.
+      const ends = (r: FigureRange) => [r.openLow ? null : finiteOrNull(r.low), r.openHigh ? null : finiteOrNull(r.high)];
       io.out(
         JSON.stringify({
           ...figuresJson(s),

@@ -26,10 +26,21 @@ export function figuresOf(r: EstimateResult): { figures?: SiteFigures; error?: s
   }
 }
 
-function rangeText(f: FigureRange, unit: string, digits = 3): string {
+/**
+ * The best value and its 95 % range. An end the data do not bound (from an
+ * open interval end, site.ts) is never shown as a bound: the text says
+ * "at least" or "at most" the other end, and names the model's limit apart.
+ */
+export function rangeText(f: FigureRange, unit: string, digits = 3): string {
   const same = f.low === f.best && f.high === f.best;
   const u = unit ? ` ${unit}` : '';
-  return same ? `${num(f.best, digits)}${u}` : `${num(f.best, digits)}${u} (95 %: ${num(f.low, digits)} to ${num(f.high, digits)}${u})`;
+  const best = `${num(f.best, digits)}${u}`;
+  if (same) return best;
+  const limit = (x: number) => (Number.isFinite(x) ? `; the model's limit is ${num(x, digits)}${u}` : '');
+  if (f.openLow && f.openHigh) return `${best} (not bounded by the data${Number.isFinite(f.low) && Number.isFinite(f.high) ? `; the model's limits are ${num(f.low, digits)} to ${num(f.high, digits)}${u}` : ''})`;
+  if (f.openLow) return `${best} (95 %: at most ${num(f.high, digits)}${u}, not bounded below by the data${limit(f.low)})`;
+  if (f.openHigh) return `${best} (95 %: at least ${num(f.low, digits)}${u}, not bounded above by the data${limit(f.high)})`;
+  return `${best} (95 %: ${num(f.low, digits)} to ${num(f.high, digits)}${u})`;
 }
 
 function classText(codes: string[]): string {
@@ -64,7 +75,10 @@ export function FiguresView(props: FiguresViewProps) {
         </p>
       ) : null}
       <Caution />
-      <p class="hint">From the estimated layer over half-space, over the 95 % intervals of H, β1 and β2.</p>
+      <p class="hint">
+        From the estimated layer over half-space, over the 95 % intervals of H, β1 and β2; an interval end the data do not
+        bound leaves the figures open on that side.
+      </p>
       {error ? (
         <p class="error" role="alert">
           {error}
