@@ -11,7 +11,8 @@
  *  - picks with residuals over 3σ, named;
  *  - picks that another mode of the best model fits much better;
  *  - picks outside the model's trapping range (phase velocity outside
- *    (β1, β2), group velocity above β2 or below the mode's Airy minimum) or
+ *    (β1, β2), group velocity above β2 or below the mode's Airy minimum,
+ *    each by more than 3 of the pick's sd, common practice) or
  *    below their mode's cutoff (Aki & Richards, 2nd ed. 2002, §7.2);
  *  - several separate minima;
  *  - parameters whose 95 % interval runs into the search range;
@@ -123,12 +124,56 @@ function describePick(P: EstimateProblem, i: number): string {
   return `${P.labels[i]} (${fmt(P.f[i])} Hz, ${P.isPhase[i] ? 'phase' : 'group'}, mode ${P.mode[i]}, ${fmt(P.v[i])} m/s)`;
 }
 
-/** Lowest group velocity of mode n (the Airy minimum), m/s, from a dense dimensionless table. */
-function airyMinimum(m: TwoLayer, mode: number): number {
+/** How many pick sds beyond a bound a pick must lie before it is called impossible for the model (common practice: 3σ). */
+export const OUTSIDE_SDS = 3;
+
+/**
+ * Lowest group velocity of mode n (the Airy minimum), m/s: the lowest
+ * sample of a dimensionless table (40 points a decade) locates it, then a
+ * golden-section search on the exact closed-form group velocity between the
+ * neighbouring samples refines it to about 1e-10 relative (the table's own
+ * minimum overstates it by up to ~1e-3).
+ */
+export function airyMinimum(m: TwoLayer, mode: number): number {
   const t = buildDimensionlessTable(m.vs2 / m.vs1, m.rho2 / m.rho1, mode, Math.log(1e-3), Math.log(1e3), { pointsPerDecade: 40 });
   let min = Infinity;
-  for (let i = 0; i < t.n; i++) min = Math.min(min, t.group[i]);
-  return min * m.vs1;
+  let at = -1;
+  for (let i = 0; i < t.n; i++) {
+    if (t.group[i] < min) {
+      min = t.group[i];
+      at = i;
+    }
+  }
+  if (at < 0) return NaN;
+  // x = f·H/β1, so f = x·β1/H; search ln f between the neighbours of the lowest sample.
+  const lnX = (i: number) => t.lnX0 + Math.min(Math.max(i, 0), t.n - 1) / t.invStep;
+  const u = (lnx: number) => {
+    const v = predictVelocity(m, (Math.exp(lnx) * m.vs1) / m.h, mode, false);
+    return Number.isFinite(v) ? v : Infinity;
+  };
+  let a = lnX(at - 1);
+  let b = lnX(at + 1);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let c = b - g * (b - a);
+  let d = a + g * (b - a);
+  let fc = u(c);
+  let fd = u(d);
+  for (let k = 0; k < 80 && b - a > 1e-12; k++) {
+    if (fc < fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - g * (b - a);
+      fc = u(c);
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + g * (b - a);
+      fd = u(d);
+    }
+  }
+  return Math.min(min * m.vs1, fc, fd);
 }
 
 export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
@@ -229,16 +274,18 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
       }
     }
     const v = P.v[i];
+    // Only a pick more than OUTSIDE_SDS of its own sd beyond a bound is called impossible: normal noise near a bound is not.
+    const margin = OUTSIDE_SDS * P.sd[i];
     let reason = '';
     if (P.isPhase[i]) {
-      if (!(v > m.vs1 && v < m.vs2)) {
-        reason = `a phase velocity must lie between the layer and half-space speeds (${fmt(m.vs1)}–${fmt(m.vs2)} m/s)`;
+      if (v <= m.vs1 - margin || v >= m.vs2 + margin) {
+        reason = `a phase velocity must lie between the layer and half-space speeds (${fmt(m.vs1)}–${fmt(m.vs2)} m/s), and this one is more than ${OUTSIDE_SDS} sd beyond`;
       }
     } else {
       if (!airy.has(P.mode[i])) airy.set(P.mode[i], airyMinimum(m, P.mode[i]));
       const umin = airy.get(P.mode[i]) as number;
-      if (v >= m.vs2) reason = `a group velocity cannot exceed the half-space speed (${fmt(m.vs2)} m/s)`;
-      else if (v < umin) reason = `the group velocity of mode ${P.mode[i]} never falls below ${fmt(umin)} m/s (its Airy minimum)`;
+      if (v >= m.vs2 + margin) reason = `a group velocity cannot exceed the half-space speed (${fmt(m.vs2)} m/s), and this one is more than ${OUTSIDE_SDS} sd above it`;
+      else if (v <= umin - margin) reason = `the group velocity of mode ${P.mode[i]} never falls below ${fmt(umin)} m/s (its Airy minimum), and this one is more than ${OUTSIDE_SDS} sd below it`;
     }
     if (reason) {
       outsideTrapping.push({ index: i, label: P.labels[i], reason });
