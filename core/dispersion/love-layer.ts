@@ -100,6 +100,19 @@ export function lovePeriodEquationResidual(p: TwoLayer, f: number, c: number): n
 }
 
 /**
+ * Where the residual at c = β2 is not positive: below the cutoff the mode
+ * does not exist ('bracket-lost'). But when loveModeCount counts the mode
+ * (f above loveCutoffHz by a few rounding units), the residual at β2 is
+ * within rounding of 0: the root is β2 itself to within that rounding
+ * (c → β2 as f → f_n⁺, shared/PHYSICS.md §2), so β2 is returned as
+ * converged rather than losing a mode the count says is there.
+ */
+function justAboveCutoff(p: TwoLayer, f: number, n: number, residualAtB2: number): RootOutcome {
+  if (f > 0 && f > loveCutoffHz(p, n)) return { status: 'converged', x: p.vs2, fx: residualAtB2, iterations: 0 };
+  return { status: 'bracket-lost', x: NaN, fx: NaN, iterations: 0 };
+}
+
+/**
  * Phase velocity of mode n at frequency f, with the solver outcome.
  * Brent's method on the phase residual over [β1, β2]; relative accuracy
  * about 1e-15. Below cutoff (the mode does not exist) the outcome has
@@ -110,7 +123,7 @@ export function lovePhaseVelocitySolve(p: TwoLayer, f: number, n: number): RootO
   const g = (c: number) => lovePhaseResidual(p, omega, c, n);
   const lo = -Math.PI / 2 - n * Math.PI; // g(β1) exactly
   const hi = g(p.vs2);
-  if (!(f > 0) || !(hi > 0)) return { status: 'bracket-lost', x: NaN, fx: NaN, iterations: 0 };
+  if (!(f > 0) || !(hi > 0)) return justAboveCutoff(p, f, n, hi);
   return brent(g, p.vs1, p.vs2, lo, hi);
 }
 
@@ -143,7 +156,7 @@ export function lovePhaseVelocityNear(p: TwoLayer, f: number, n: number, guess: 
   const D = Math.sqrt((p.vs2 - p.vs1) * (p.vs2 + p.vs1)) / (p.vs1 * p.vs2);
   const a = omega * p.h * D;
   const shift = n * Math.PI;
-  if (!(f > 0) || !(a - shift > 0)) return { status: 'bracket-lost', x: NaN, fx: NaN, iterations: 0 };
+  if (!(f > 0) || !(a - shift > 0)) return justAboveCutoff(p, f, n, a - shift);
   let lo = 0;
   let hi = Math.PI / 2;
   let phi = guess > p.vs1 && guess < p.vs2 ? Math.atan2(eta1(guess, p.vs1), eta2(guess, p.vs2)) : Math.PI / 4;
