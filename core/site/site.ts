@@ -52,21 +52,24 @@ export interface SiteClassTable {
   id: SiteClassTableId;
   /** The published table, for citations in outputs. */
   source: string;
-  /** Bands from slowest to fastest; they tile [0, ∞) without gaps or overlaps. */
+  /**
+   * Bands from slowest to fastest; they tile [0, ∞) without gaps. Where the
+   * published reproductions leave the side of a shared end open or disagree,
+   * both neighbours include it (a one-point overlap: that value straddles).
+   */
   bands: readonly SiteClassBand[];
 }
 
 const ft = (v: number): number => v * FOOT_M;
 
 /**
- * ASCE/SEI 7-16 Table 20.3-1 (v̄s in ft/s, converted exactly):
- *   A > 5000; B 2500 to 5000; C 1200 to 2500; D 600 to 1200; E < 600;
- *   F by site-specific evaluation (§20.3.1).
- * The table prints "2,500 to 5,000" and so on, leaving the shared ends
- * open. We take B 2500 < v ≤ 5000, C 1200 < v ≤ 2500, D 600 ≤ v ≤ 1200,
- * E < 600, as in the NEHRP provisions the table comes from
- * [memory, verify]. (shared/PHYSICS.md §7 lists the rounded m/s figures
- * 1524, 762, 366, 183; here the ft/s values are converted exactly.)
+ * ASCE/SEI 7-16 Table 20.3-1 (v̄s in ft/s, converted exactly), as
+ * reproduced in US Army Corps of Engineers risk-management documentation
+ * (the primary text was not at hand): A > 5000; B 2500 < v̄s ≤ 5000;
+ * C 1200 < v̄s ≤ 2500; D 600 ≤ v̄s ≤ 1200; E < 600; F by site-specific
+ * evaluation. An older reproduction gives D as 600 ≤ v̄s < 1200, so the
+ * side of 1200 ft/s is disputed: both D and C include it, and a speed of
+ * exactly 1200 ft/s straddles (siteClassesInRange lists D and C).
  */
 export const ASCE7_16_TABLE: SiteClassTable = {
   id: 'asce7_16',
@@ -74,14 +77,16 @@ export const ASCE7_16_TABLE: SiteClassTable = {
   bands: [
     { code: 'E', lower: 0, lowerInclusive: true, upper: ft(600), upperInclusive: false },
     { code: 'D', lower: ft(600), lowerInclusive: true, upper: ft(1200), upperInclusive: true },
-    { code: 'C', lower: ft(1200), lowerInclusive: false, upper: ft(2500), upperInclusive: true },
+    // Disputed side (see above): C includes 1200 ft/s too, so the value straddles D and C.
+    { code: 'C', lower: ft(1200), lowerInclusive: true, upper: ft(2500), upperInclusive: true },
     { code: 'B', lower: ft(2500), lowerInclusive: false, upper: ft(5000), upperInclusive: true },
     { code: 'A', lower: ft(5000), lowerInclusive: false, upper: Infinity, upperInclusive: false },
   ],
 };
 
 /**
- * ASCE/SEI 7-22 Table 20.2-1 (v̄s in ft/s, converted exactly):
+ * ASCE/SEI 7-22 Table 20.2-1 (v̄s in ft/s, converted exactly; as reproduced
+ * in the same US Army Corps of Engineers documentation):
  *   A > 5000; B > 3000 to 5000; BC > 2100 to 3000; C > 1450 to 2100;
  *   CD > 1000 to 1450; D > 700 to 1000; DE > 500 to 700; E ≤ 500;
  *   F site-specific. The "> x to y" form makes each band open below and
@@ -103,19 +108,21 @@ export const ASCE7_22_TABLE: SiteClassTable = {
 };
 
 /**
- * EN 1998-1:2004 Table 3.1 (vs,30 in m/s):
- *   A > 800; B 360–800; C 180–360; D < 180; E see below; S1, S2 special.
- * The table prints "360 – 800" and "180 – 360", leaving 360 open. We take
- * B 360 ≤ v ≤ 800 and C 180 ≤ v < 360, so that D (< 180) and A (> 800)
- * meet them as printed, and type E's "vs of type C or D" means vs < 360
- * [memory, verify].
+ * EN 1998-1:2004 Table 3.1 (vs,30 in m/s, as reproduced; the primary text
+ * was not at hand): A > 800; B 360–800; C 180–360; D < 180; E see below;
+ * S1, S2 special. The reproductions do not say which class 360 and 180
+ * belong to: both neighbours include them, so a value exactly there
+ * straddles (C and B at 360, D and C at 180). A > 800 makes 800 B.
+ * Type E's "vs of type C or D" is taken as vs < 360 (a layer at exactly
+ * 360 may be B).
  */
 export const EN1998_1_TABLE: SiteClassTable = {
   id: 'en1998_1',
   source: 'EN 1998-1:2004 Table 3.1',
   bands: [
-    { code: 'D', lower: 0, lowerInclusive: true, upper: 180, upperInclusive: false },
-    { code: 'C', lower: 180, lowerInclusive: true, upper: 360, upperInclusive: false },
+    // 180 and 360 are in both neighbours: the reproductions leave their side open, so they straddle.
+    { code: 'D', lower: 0, lowerInclusive: true, upper: 180, upperInclusive: true },
+    { code: 'C', lower: 180, lowerInclusive: true, upper: 360, upperInclusive: true },
     { code: 'B', lower: 360, lowerInclusive: true, upper: 800, upperInclusive: true },
     { code: 'A', lower: 800, lowerInclusive: false, upper: Infinity, upperInclusive: false },
   ],
@@ -146,17 +153,18 @@ export const EN_TYPE_E = {
 } as const;
 
 /**
- * ASCE/SEI 7-22 asks that where shear speeds are estimated rather than
- * measured, the class also be found with v̄s × 1.3 and v̄s / 1.3
- * [memory, verify: ASCE/SEI 7-22 §20.3]. SiteOptions.estimatedVelocities
- * widens the 7-22 range by this factor.
+ * The factor of the ±30 % speed sensitivity check (SiteOptions.estimatedVelocities):
+ * a user's choice, offered because estimated speeds are uncertain. It was
+ * not found in any reproduction of ASCE/SEI 7-22, so no standard is named
+ * for it anywhere in the output.
  */
 export const ASCE7_22_ESTIMATE_FACTOR = 1.3;
 
 export interface SiteOptions {
   /**
-   * The shear speeds were estimated, not measured: widen the ASCE/SEI 7-22
-   * range to [low / 1.3, high × 1.3] before classing (from memory, verify).
+   * Turn on the ±30 % speed sensitivity check (the user's choice, no
+   * standard named): widen the ASCE/SEI 7-22 range to [low / 1.3, high × 1.3]
+   * before classing.
    * @default false
    */
   estimatedVelocities?: boolean;
@@ -265,7 +273,11 @@ function checkRange(range: readonly [number, number], field: string, allowInfini
   return [lo, hi];
 }
 
-/** The class of one average speed (m/s) in a table (F, S1, S2 are never returned). */
+/**
+ * The class of one average speed (m/s) in a table (F, S1, S2 are never
+ * returned). Exactly on a disputed boundary this gives the slower class;
+ * siteClassesInRange([v, v]) lists both.
+ */
 export function siteClassOf(table: SiteClassTableId, vs: number): string {
   if (typeof vs !== 'number' || !Number.isFinite(vs) || vs <= 0) {
     throw new InputError('vs', `vs must be a finite speed above 0 m/s, but it is ${describeValue(vs)}.`);
@@ -313,12 +325,23 @@ export function enTypeE(r: TypeERanges): 'certain' | 'possible' | 'no' {
 }
 
 /**
+ * EN 1998-1:2004 Table 3.1 type A: "rock or other rock-like geological
+ * formation, including at most 5 m of weaker material at the surface"
+ * (as reproduced). Applied here: when everything below a surface column of
+ * at most 5 m is faster than 800 m/s, the ground is type A whatever Vs30
+ * says (4 m of 150 m/s over 1000 m/s has Vs30 = 568 m/s, B by speed, but is
+ * A by this description). At exactly 5 m type E (5–20 m) holds too: both
+ * are listed.
+ */
+export const EN_TYPE_A_MAX_WEAK_M = 5;
+
+/**
  * The soft column of a layered model for the EN type E test: the layers
  * above the first material faster than 800 m/s. Type E needs every one of
  * them slower than 360 m/s, their total 5–20 m, and everything below
  * faster than 800 m/s.
  */
-function typeEOfModel(m: LayeredModel): { isE: boolean; depth: number } {
+function typeEOfModel(m: LayeredModel): { isE: boolean; depth: number; baseFast: boolean } {
   const E = EN_TYPE_E;
   let k = 0;
   let depth = 0;
@@ -328,13 +351,14 @@ function typeEOfModel(m: LayeredModel): { isE: boolean; depth: number } {
   }
   const top = m.layers.slice(0, k);
   const below = [...m.layers.slice(k).map((l) => l.vs), m.halfspace.vs];
+  const baseFast = below.every((v) => v > E.baseVsAbove);
   const isE =
     top.length > 0 &&
     top.every((l) => l.vs < E.layerVsBelow) &&
-    below.every((v) => v > E.baseVsAbove) &&
+    baseFast &&
     depth >= E.minThickness &&
     depth <= E.maxThickness;
-  return { isE, depth };
+  return { isE, depth, baseFast };
 }
 
 const fmt = (x: number): string => (Number.isFinite(x) ? String(Math.round(x * 10) / 10) : 'unbounded');
@@ -379,7 +403,12 @@ function standingWarnings(): string[] {
 function straddleWarnings(classes: Record<SiteClassTableId, string[]>, ranges: Record<SiteClassTableId, FigureRange>): string[] {
   const out: string[] = [];
   for (const id of ['asce7_16', 'asce7_22', 'en1998_1'] as const) {
-    if (classes[id].length > 1) {
+    if (classes[id].length > 1 && ranges[id].low === ranges[id].high) {
+      out.push(
+        `The average shear speed ${fmt(ranges[id].low)} m/s lies exactly on a boundary of ${SITE_CLASS_TABLES[id].source} ` +
+          `whose side the published reproductions leave open or dispute: classes ${classes[id].join(', ')} are both possible.`,
+      );
+    } else if (classes[id].length > 1) {
       const r = ranges[id];
       out.push(
         `The average shear speed range ${fmt(r.low)}–${fmt(r.high)} m/s crosses a class boundary of ` +
@@ -446,14 +475,24 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
   const classes = speedClasses.classes;
   warnings.push(...speedClasses.warnings);
   const e = typeEOfModel(m);
+  const typeA = e.depth > 0 && e.depth <= EN_TYPE_A_MAX_WEAK_M && e.baseFast;
+  if (typeA) {
+    warnings.push(
+      `EN 1998-1 Table 3.1 ground type A includes at most ${EN_TYPE_A_MAX_WEAK_M} m of weaker material at the surface: ` +
+        `${fmt(e.depth)} m of it lies over material faster than 800 m/s. By Vs30 alone it would be type ${classes.en1998_1.join(', ')}.`,
+    );
+  }
   if (e.isE) {
     warnings.push(
       `EN 1998-1 Table 3.1 ground type E: ${fmt(e.depth)} m of type C or D soil (vs < 360 m/s) over material faster ` +
         `than 800 m/s. By Vs30 alone it would be type ${classes.en1998_1.join(', ')}.`,
       ...edgeWarning([e.depth, e.depth]),
     );
-    classes.en1998_1 = ['E'];
-  } else if (m.layers.length === 1) {
+    classes.en1998_1 = typeA ? ['A', 'E'] : ['E'];
+  } else if (typeA) {
+    classes.en1998_1 = ['A'];
+  }
+  if (!e.isE && m.layers.length === 1) {
     const l = m.layers[0];
     if (l.vs < EN_TYPE_E.layerVsBelow && m.halfspace.vs > EN_TYPE_E.baseVsAbove) {
       warnings.push(...edgeWarning([l.thickness, l.thickness]));
@@ -473,10 +512,10 @@ export function siteFigures(model: LayeredModel, options: SiteOptions = {}): Sit
 }
 
 function estimatedWarning(): string {
-  // The ×1.3 rule is from memory of ASCE/SEI 7-22 §20.3, not found in any reproduction (shared/PHYSICS.md §7): it is
-  // offered as a ±30 % sensitivity check, and the text a crew reads names no standard for it.
+  // A ×1.3 rule was not found in any reproduction of ASCE/SEI 7-22 (shared/PHYSICS.md §7): this is the user's own
+  // ±30 % sensitivity check, and the text names no standard for it.
   return (
-    'The shear speeds are estimated, not measured: as a ±30 % sensitivity check, the ASCE/SEI 7-22 classes cover the average speed divided and ' +
+    `Speed sensitivity check (±30 %, chosen by the user, not a rule of any standard): the ASCE/SEI 7-22 classes also cover the average speed divided and ` +
     `multiplied by ${ASCE7_22_ESTIMATE_FACTOR}.`
   );
 }
@@ -538,6 +577,21 @@ export function siteClassesForRanges(
       classes.en1998_1 = [...classes.en1998_1, 'E'];
     }
     if (e !== 'no') warnings.push(...edgeWarning(H));
+    // EN type A: at most 5 m of weaker material over material faster than 800 m/s (see EN_TYPE_A_MAX_WEAK_M).
+    const [h0, h1] = H;
+    const [b0, b1] = r.typeE.vs2;
+    if (h1 <= EN_TYPE_A_MAX_WEAK_M && b0 > EN_TYPE_E.baseVsAbove) {
+      warnings.push(
+        `EN 1998-1 Table 3.1 ground type A over the whole range: at most ${EN_TYPE_A_MAX_WEAK_M} m of weaker material over material faster than 800 m/s.`,
+      );
+      classes.en1998_1 = classes.en1998_1.includes('E') ? ['A', 'E'] : ['A'];
+    } else if (h0 <= EN_TYPE_A_MAX_WEAK_M && b1 > EN_TYPE_E.baseVsAbove && !classes.en1998_1.includes('A')) {
+      warnings.push(
+        `EN 1998-1 Table 3.1 ground type A (at most ${EN_TYPE_A_MAX_WEAK_M} m of weaker material over material faster than 800 m/s) is possible within the ranges, so it is listed too.`,
+      );
+      const withoutE = classes.en1998_1.filter((c) => c !== 'E');
+      classes.en1998_1 = [...withoutE, 'A', ...(classes.en1998_1.includes('E') ? ['E'] : [])];
+    }
   }
   warnings.push(...straddles);
   return { classes, warnings };
