@@ -1,0 +1,55 @@
+/**
+ * Rayleigh-wave benchmarks (issue 13). Targets on the 2-core machine,
+ * medians: one curve of 200 frequencies × 5 modes in ≤ 20 ms for a 5-layer
+ * model; a single root (the fundamental) in ≤ 20 µs. The model is the
+ * invented five-layer site of test/fixtures.ts with invented P speeds
+ * (vp = 2.2·vs in the layers, 1400 m/s in the half-space).
+ */
+import { logBand, rayleighCurves } from '../../core/dispersion/curve';
+import type { LayeredModel } from '../../core/dispersion/model';
+import { RayleighStackSolver, prepareRayleighStack, rayleighSecular } from '../../core/dispersion/rayleigh-stack';
+import { INVENTED_FIVE_LAYER_SITE } from '../fixtures';
+import { bench, type BenchResult } from './harness';
+
+const fiveLayer: LayeredModel = {
+  layers: INVENTED_FIVE_LAYER_SITE.layers.map((l) => ({ ...l, vp: 2.2 * l.vs })),
+  halfspace: { ...INVENTED_FIVE_LAYER_SITE.halfspace, vp: 1400 },
+};
+
+export default async function rayleighBench(): Promise<BenchResult[]> {
+  const band = logBand(2, 60, 200);
+  const results: BenchResult[] = [];
+  results.push(
+    await bench('rayleigh curve, 5 layers, 200 f × 5 modes', () => rayleighCurves(fiveLayer, band, { modes: 5 }), {
+      target_ms: 20,
+      samples: 21,
+      note: 'compound matrices, phase-resolved scan + dip probes + Brent, U by implicit differentiation',
+    }),
+  );
+  const stack = prepareRayleighStack(fiveLayer);
+  const solver = new RayleighStackSolver(stack);
+  const out = new Float64Array(1);
+  let f = 10;
+  results.push(
+    await bench(
+      'rayleigh single root, 5 layers (mode 0)',
+      () => {
+        f = f === 10 ? 10.5 : 10;
+        return solver.solve(2 * Math.PI * f, 1, out);
+      },
+      { inner: 200, samples: 31, target_ms: 0.02, note: 'scan from the floor to the first root, then Brent' },
+    ),
+  );
+  let c = 200;
+  results.push(
+    await bench(
+      'rayleigh secular function, 5 layers (one evaluation)',
+      () => {
+        c = c === 200 ? 201 : 200;
+        return rayleighSecular(stack, 2 * Math.PI * 10, c);
+      },
+      { inner: 5000, samples: 31, note: 'five-minor compound-matrix step per layer' },
+    ),
+  );
+  return results;
+}
