@@ -162,7 +162,7 @@ export async function importBundleText(store: FieldStore, text: string): Promise
  * Hands a bundle to the user: the system share sheet when the device can
  * share files (Web Share API level 2), else a download. Resolves to how.
  */
-export async function deliverBundle(file: BundleFile, type = 'application/json'): Promise<'shared' | 'downloaded' | 'cancelled'> {
+export async function deliverBundle(file: Pick<BundleFile, 'name' | 'text'>, type = 'application/json'): Promise<'shared' | 'downloaded' | 'cancelled'> {
   const blob = new Blob([file.text], { type });
   const nav = navigator as Navigator & { canShare?: (data: ShareData) => boolean };
   if (typeof File === 'function' && typeof nav.share === 'function' && typeof nav.canShare === 'function') {

@@ -276,7 +276,7 @@ export class PicksController {
       if (slug.length > 40) slug = slug.slice(0, 41).includes('-') ? slug.slice(0, 41).replace(/-[^-]*$/, '') : slug.slice(0, 40);
       const name = `shearfield-picks-${slug || 'site'}-${site.date || new Date().toISOString().slice(0, 10)}.csv`;
       const io = await import('../../sync/bundle-io');
-      const how = await io.deliverBundle({ name, text, sites: 1, picks: picks.length, demoLeftOut: 0 }, 'text/csv');
+      const how = await io.deliverBundle({ name, text }, 'text/csv');
       if (how !== 'cancelled') this.hub.notify('info', `${how === 'shared' ? 'Shared' : 'Saved'} ${name}: ${picks.length} ${picks.length === 1 ? 'pick' : 'picks'}.`);
     } catch (e) {
       this.hub.notify('error', `The picks file could not be made: ${messageOf(e)}`);
