@@ -247,14 +247,23 @@ function projector(L: Layout): (p: Float64Array) => void {
   };
 }
 
+/** Largest change of any log parameter (about 10 %) for which the previous model's roots start the next solve. */
+const WARM_DISTANCE = 0.1;
+
 class Misfit {
   private readonly predicted: Float64Array;
+  /** Each pick's root of the last model evaluated, and that model's parameters (warm starts, profile-forward.ts). */
+  private readonly guesses: Float64Array;
+  private readonly last: Float64Array;
+  private hasLast = false;
   evaluations = 0;
   constructor(
     private readonly P: Problem,
     private readonly L: Layout,
   ) {
     this.predicted = new Float64Array(P.n);
+    this.guesses = new Float64Array(P.n);
+    this.last = new Float64Array(L.k);
   }
   /** Weighted residuals at u into out; false when u has no model (out filled with FAILED_RESIDUAL). */
   residuals(u: ArrayLike<number>, out: Float64Array): boolean {
@@ -264,7 +273,12 @@ class Misfit {
       out.fill(FAILED_RESIDUAL);
       return false;
     }
-    predictPicks(this.P.picks, m, this.predicted);
+    let near = this.hasLast;
+    for (let j = 0; j < this.L.k && near; j++) near = Math.abs(u[j] - this.last[j]) <= WARM_DISTANCE;
+    if (!near) this.guesses.fill(NaN);
+    predictPicks(this.P.picks, m, this.predicted, this.guesses);
+    for (let j = 0; j < this.L.k; j++) this.last[j] = u[j];
+    this.hasLast = true;
     for (let i = 0; i < this.P.n; i++) {
       const r = (this.P.v[i] - this.predicted[i]) / this.P.sd[i];
       out[i] = Number.isFinite(r) ? r : FAILED_RESIDUAL;
