@@ -107,7 +107,8 @@ export interface ElasticLayer {
 /**
  * The layers with P speeds by the rule: `thickness`, `vs`, `density` of the
  * N layers, then the half-space (vs and density at index N). Returns the
- * layers (a layer cut by the water table becomes two) and the half-space.
+ * layers (a layer cut by the water table becomes two; a table inside the
+ * half-space makes the half-space's dry top a layer) and the half-space.
  * No validation here: the estimate checks the rule once.
  */
 export function withPSpeeds(
@@ -136,7 +137,11 @@ export function withPSpeeds(
     }
     top = bottom;
   }
-  return { layers, halfspace: { vs: vs[n], vp: vpAt(n, top >= table), density: density[n] } };
+  if (table > top && Number.isFinite(table)) {
+    // The water table lies in the half-space: its dry top becomes a layer.
+    layers.push({ thickness: table - top, vs: vs[n], vp: vpAt(n, false), density: density[n] });
+  }
+  return { layers, halfspace: { vs: vs[n], vp: vpAt(n, Number.isFinite(table)), density: density[n] } };
 }
 
 /**

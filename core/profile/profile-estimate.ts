@@ -460,13 +460,13 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
     );
   }
   const usable = tried.filter((N) => P.n > 2 * N + 1);
-  if (P.densityLayers && P.densityLayers.length < most) {
-    const name = label(options, 'densities');
-    throw new InputError(name, `${name} lists ${P.densityLayers.length} layer densities, but the estimate uses up to ${most} layers.`);
-  }
   if (P.rule.kind === 'fixed' && P.rule.layers.length < most) {
     const name = label(options, 'fixedVp');
     throw new InputError(name, `${name} lists ${P.rule.layers.length} layer P speeds, but the estimate uses up to ${most} layers.`);
+  }
+  if (P.densityLayers && P.densityLayers.length < most) {
+    const name = label(options, 'densities');
+    throw new InputError(name, `${name} lists ${P.densityLayers.length} layer densities, but the estimate uses up to ${most} layers.`);
   }
 
   // Effort and progress.
@@ -729,7 +729,9 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
     `Global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479; ${F.ensemble.count} models), Levenberg–Marquardt refinement of the best separate samples, ` +
     `then a Metropolis random walk around the fit (${chain.count} models kept, seed ${seed}) for the 68 %/95 % intervals, the depth band, Vs30 and the site classes` +
     (poorFit ? `, tempered by χ²/dof = ${round(scale)} because the fit is poor.` : '.') +
-    ` Forward step: Love waves by the Thomson–Haskell propagator${P.waves.rayleigh > 0 ? ', Rayleigh waves by the P-SV solver of core/dispersion' : ''}; group velocity from the energy integrals.`;
+    ` Forward step: ${P.waves.love > 0 ? 'Love waves by the Thomson–Haskell propagator, group velocity from the energy integrals' : ''}` +
+    `${P.waves.love > 0 && P.waves.rayleigh > 0 ? '; ' : ''}` +
+    `${P.waves.rayleigh > 0 ? 'Rayleigh waves by the compound-matrix secular function (Dunkin 1965), group velocity by implicit differentiation' : ''}.`;
 
   progress?.(1);
   return {

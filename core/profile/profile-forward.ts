@@ -7,8 +7,9 @@
  *    isolation (core/dispersion/love-stack.ts) and the energy-integral group
  *    velocity (core/dispersion/group-velocity.ts); Aki & Richards,
  *    *Quantitative Seismology*, 2nd ed. 2002, §7.2–7.3.
- *  - Rayleigh: the P-SV solver of core/dispersion (see RAYLEIGH_FORWARD),
- *    with the P speeds of p-speed.ts.
+ *  - Rayleigh: the compound-matrix P-SV secular function (Dunkin 1965, BSSA
+ *    55:335) with its root scan (core/dispersion/rayleigh-stack.ts) and
+ *    the group velocity U = c − k·F_k/F_c, with the P speeds of p-speed.ts.
  *
  * Warm starts: inside a fit, successive models differ little, so each
  * pick's root of the previous model starts the next search (`guesses`).
@@ -31,6 +32,14 @@
 import { loveStackGroupVelocity } from '../dispersion/group-velocity';
 import { LoveStackSolver, loveModesBelow, loveSecular, prepareLoveStack, type LoveStack } from '../dispersion/love-stack';
 import { brent } from '../numeric/roots';
+import {
+  prepareRayleighStack,
+  rayleighSearchFloor,
+  rayleighSecular,
+  RayleighStackSolver,
+  rayleighStackGroupVelocity,
+  type RayleighStack,
+} from '../dispersion/rayleigh-stack';
 import type { PickWave } from '../picks/picks';
 import type { ElasticLayer } from './p-speed';
 
@@ -52,6 +61,12 @@ export interface WaveForward {
 
 /** Largest relative move of a warm root before the full solver is asked instead. */
 export const WARM_MOVE = 0.05;
+/**
+ * Relative tolerance of a warm root: 1e-11, far below any pick's standard
+ * deviation (a few per cent), and a few Brent steps cheaper than full
+ * precision. The group velocity at such a root differs by about as much.
+ */
+const WARM_RTOL = 1e-11;
 /** First half-width of the warm bracket, relative to the guess; it grows ×3 up to five times. */
 const WARM_STEP = 2e-3;
 
@@ -86,7 +101,7 @@ function loveNear(stack: LoveStack, omega: number, mode: number, guess: number):
   if (!bracketNear(f, guess, stack.vsMin * (1 + 1e-12), stack.vsH, bracket)) return NaN;
   // Sturm count: exactly `mode` roots below a, `mode + 1` below b.
   if (loveModesBelow(stack, omega, bracket.a) !== mode || loveModesBelow(stack, omega, bracket.b) !== mode + 1) return NaN;
-  const r = brent(f, bracket.a, bracket.b, bracket.fa, bracket.fb);
+  const r = brent(f, bracket.a, bracket.b, bracket.fa, bracket.fb, { rtol: WARM_RTOL });
   return r.status === 'converged' ? r.x : NaN;
 }
 
@@ -114,10 +129,51 @@ export const LOVE_FORWARD: WaveForwardFactory = (model) => {
   };
 };
 
-/** The engines by wave type; null where this build has no solver for the wave. */
+function rayleighNear(stack: RayleighStack, floor: number, omega: number, guess: number): number {
+  if (!(guess > floor && guess < stack.vsH)) return NaN;
+  const f = (c: number) => rayleighSecular(stack, omega, c);
+  if (!bracketNear(f, guess, floor, stack.vsH, bracket)) return NaN;
+  // Parity: no single root between the scan floor and the bracket.
+  if (bracket.a > floor) {
+    const f0 = f(floor);
+    if (f0 === 0 || (f0 < 0) !== (bracket.fa < 0)) return NaN;
+  }
+  const r = brent(f, bracket.a, bracket.b, bracket.fa, bracket.fb, { rtol: WARM_RTOL });
+  return r.status === 'converged' ? r.x : NaN;
+}
+
+/**
+ * Rayleigh waves: the compound-matrix secular function with its scan and
+ * Brent refinement (core/dispersion/rayleigh-stack.ts) and its group
+ * velocity; warm starts for the fundamental mode only.
+ */
+export const RAYLEIGH_FORWARD: WaveForwardFactory = (model) => {
+  const stack = prepareRayleighStack(model);
+  const solver = new RayleighStackSolver(stack);
+  const floor = rayleighSearchFloor(stack);
+  let roots = new Float64Array(1);
+  const phase = (omega: number, mode: number): number => {
+    if (roots.length < mode + 1) roots = new Float64Array(mode + 1);
+    const found = solver.solve(omega, mode + 1, roots);
+    return found > mode ? roots[mode] : NaN;
+  };
+  return {
+    phase,
+    group(omega, _mode, c) {
+      return rayleighStackGroupVelocity(stack, omega, c);
+    },
+    phaseNear(omega, mode, guess) {
+      if (mode !== 0) return phase(omega, mode);
+      const c = rayleighNear(stack, floor, omega, guess);
+      return Number.isNaN(c) || Math.abs(c - guess) > WARM_MOVE * guess ? phase(omega, mode) : c;
+    },
+  };
+};
+
+/** The engines by wave type (null would mark a wave this build cannot solve). */
 export const WAVE_FORWARDS: Readonly<Record<PickWave, WaveForwardFactory | null>> = {
   love: LOVE_FORWARD,
-  rayleigh: null,
+  rayleigh: RAYLEIGH_FORWARD,
 };
 
 /** The picks in columns, as the forward step reads them. */

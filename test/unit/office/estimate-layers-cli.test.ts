@@ -14,11 +14,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { CAUTION } from '../../../core/shared/caution';
 import { picksToCsv } from '../../../core/picks/picks';
 import { main } from '../../../office/cli';
+import { vpFromPoisson } from '../../../core/profile/p-speed';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks, softSitePicks } from '../../fixtures';
 
 let dir = '';
 let good = '';
 let oneLayer = '';
+let rayleigh = '';
+let pSpeeds = '';
 
 async function run(...args: string[]) {
   let out = '';
@@ -31,6 +34,11 @@ beforeAll(() => {
   dir = mkdtempSync(join(tmpdir(), 'shearfield-layers-'));
   good = join(dir, 'two.csv');
   writeFileSync(good, picksToCsv(layeredPicks(INVENTED_TWO_LAYER_SITE, 'love', 24, 3, 50)));
+  rayleigh = join(dir, 'rayleigh.csv');
+  const vp = [...INVENTED_TWO_LAYER_SITE.layers.map((l) => vpFromPoisson(l.vs, 0.3)), vpFromPoisson(INVENTED_TWO_LAYER_SITE.halfspace.vs, 0.3)];
+  writeFileSync(rayleigh, picksToCsv(layeredPicks(INVENTED_TWO_LAYER_SITE, 'rayleigh', 10, 4, 40, undefined, vp)));
+  pSpeeds = join(dir, 'p-speeds.json');
+  writeFileSync(pSpeeds, JSON.stringify({ layers: [{ vp_m_s: 400, density_kg_m3: 1800 }], halfspace: { vp_m_s: 1300, density_kg_m3: 2100 } }));
   oneLayer = join(dir, 'one.csv');
   writeFileSync(oneLayer, picksToCsv(softSitePicks(20)));
 });
@@ -63,6 +71,18 @@ describe('shearfield estimate --layers N', () => {
     expect(Object.keys(JSON.parse(one.out))[0]).toBe('thickness_m');
   });
 
+  it('takes Rayleigh picks (the wave column) with a Poisson ratio, or fixed P speeds from a model file', async () => {
+    const r = await run(rayleigh, '--poisson', '0.3', '--seed', '2');
+    expect(r.err).toBe('');
+    const j = JSON.parse(r.out);
+    expect(j.layers).toBe(1);
+    expect(j.waves).toEqual({ love: 0, rayleigh: 10 });
+    expect(j.p_speed).toMatchObject({ rule: 'poisson', poisson: 0.3, poisson_defaulted: false, used: true });
+    const fixed = JSON.parse((await run(rayleigh, '--p-speeds', pSpeeds, '--seed', '2')).out);
+    expect(fixed.p_speed).toMatchObject({ rule: 'fixed', layers_vp_m_s: [400], halfspace_vp_m_s: 1300 });
+    expect(fixed.density_kg_m3).toEqual({ layers: [1800], halfspace: 2100 });
+  });
+
   it('--help documents the layered options and names every key of the layered JSON', async () => {
     const help = (await run('--help')).out;
     for (const flag of ['--layers N|auto', '--poisson NU', '--water-table-m D', '--p-speeds MODEL.json', '--seed S']) expect(help).toContain(flag);
@@ -78,11 +98,13 @@ describe('shearfield estimate --layers: bad input exits 1 with one sentence nami
     ['a word for the layers', ['--layers', 'many'], '--layers must be a whole number from 1 to 4 or "auto", but it is "many".'],
     ['a P-speed option with Love picks only', ['--layers', '2', '--poisson', '0.3'], '--poisson sets P speeds for Rayleigh picks, but every pick in the file is a Love pick (Love waves do not depend on P speed).'],
     ['a one-layer option with --layers 2', ['--layers', '2', '--vs1', '200'], '--vs1 applies only to the one-layer Love estimate, not to the layered estimate (--layers or Rayleigh picks).'],
+    ['a P-speed model file with too few layers', ['--layers', '2', '--p-speeds', 'P'], '--p-speeds lists 1 layer P speeds, but the estimate uses up to 2 layers.'],
     ['a seed for the one-layer estimate', ['--seed', '3'], '--seed applies only to the layered estimate (--layers 2–4 or auto, or Rayleigh picks); the one-layer estimate has no randomness.'],
   ];
   for (const [what, args, message] of cases) {
     it(what, async () => {
-      const r = await run(good, ...args);
+      const file = args.includes('--p-speeds') ? rayleigh : good;
+      const r = await run(file, ...args.map((a) => (a === 'P' ? pSpeeds : a)));
       expect(r.code).toBe(1);
       expect(r.out).toBe('');
       expect(r.err).toBe(`shearfield estimate: ${message}\n`);

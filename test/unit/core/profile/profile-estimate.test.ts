@@ -14,6 +14,7 @@ import { CAUTION } from '../../../../core/shared/caution';
 import { estimateProfile, type ProfileOptions } from '../../../../core/profile/profile-estimate';
 import { profileJson } from '../../../../core/profile/profile-json';
 import { mulberry32 } from '../../../../core/shared/random';
+import { vpFromPoisson } from '../../../../core/profile/p-speed';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../../../fixtures';
 import { inputError } from '../../../input-error';
 
@@ -84,6 +85,40 @@ describe('recovery of the generating model from exact synthetic picks', () => {
   it('is the same for the same seed', () => {
     const again = estimateProfile(exact, quick);
     expect(again.profile).toEqual(r.profile);
+  });
+});
+
+describe('Rayleigh picks, alone and with Love picks', () => {
+  // P speeds of the invented site from ν = 0.3 (the same rule the estimate is given).
+  const vp = [...TRUE.layers.map((l) => vpFromPoisson(l.vs, 0.3)), vpFromPoisson(TRUE.halfspace.vs, 0.3)];
+
+  it('recovers the two layers from exact Rayleigh picks to 1e-3 relative when told the Poisson ratio', () => {
+    const picks = layeredPicks(TRUE, 'rayleigh', 14, 3, 50, undefined, vp);
+    const r = estimateProfile(picks, { ...quick, poisson: 0.3, effort: { iterations: 6, chainSteps: 300, burnIn: 100 } });
+    const got = [...r.profile.layers.flatMap((l) => [l.thickness.best, l.vs.best]), r.profile.halfspace.vs.best];
+    const want = [5, 180, 10, 320, 600];
+    got.forEach((g, i) => expect(Math.abs(g - want[i]) / want[i], `parameter ${i}: expected ${want[i]}, got ${g}`).toBeLessThan(1e-3));
+    expect(r.waves).toEqual({ love: 0, rayleigh: 14 });
+    expect(r.profile.layers[0].vp).toBeCloseTo(vp[0], 6);
+    expect(r.warnings[0]).toBe("P speeds come from the given Poisson's ratio 0.3.");
+  });
+
+  it('fits Love and Rayleigh picks jointly, and says when the Poisson ratio was assumed', () => {
+    const picks = [...layeredPicks(TRUE, 'love', 8, 3, 50), ...layeredPicks(TRUE, 'rayleigh', 8, 3, 50, undefined, vp)];
+    const r = estimateProfile(picks, { ...quick, effort: { iterations: 6, chainSteps: 300, burnIn: 100 } });
+    expect(r.waves).toEqual({ love: 8, rayleigh: 8 });
+    // ν defaults to 0.3, the value that made the picks, so the fit is exact here too.
+    expect(Math.abs(r.profile.layers[0].thickness.best - 5) / 5).toBeLessThan(1e-3);
+    expect(r.warnings[0]).toMatch(/^P speeds come from an assumed Poisson's ratio of 0\.3 \(the default/);
+    expect(r.method).toMatch(/Thomson–Haskell.*compound-matrix secular function \(Dunkin 1965\)/);
+  });
+
+  it('keeps P at 1500 m/s or more below a given water table (common practice)', () => {
+    const picks = layeredPicks(TRUE, 'rayleigh', 10, 4, 40, undefined, vp);
+    const r = estimateProfile(picks, { layers: 1, compareLayers: false, waterTableDepth: 3, seed: 2, effort: { iterations: 4, chainSteps: 100, burnIn: 50 } });
+    expect(r.pRule).toEqual({ kind: 'water-table', poisson: 0.3, defaulted: true, depth: 3 });
+    expect(r.profile.halfspace.vp).toBeGreaterThanOrEqual(1500);
+    expect(r.warnings.join(' ')).toMatch(/Below the water table at 3 m the P speed is at least 1500 m\/s/);
   });
 });
 

@@ -33,6 +33,20 @@ describe('P speeds from a Poisson ratio or a water table', () => {
     expect(m.halfspace.vp).toBeCloseTo(Math.max(WATER_P_SPEED, vpFromPoisson(600, 0.3)), 12);
   });
 
+  it('makes the dry top of the half-space a layer when the water table lies below every interface', () => {
+    const m = withPSpeeds([4], [150, 600], [1800, 2100], { kind: 'water-table', poisson: 0.3, defaulted: false, depth: 10 });
+    expect(m.layers.map((l) => [l.thickness, l.vs])).toEqual([
+      [4, 150],
+      [6, 600],
+    ]);
+    expect(m.layers[1].vp).toBeCloseTo(vpFromPoisson(600, 0.3), 12);
+    expect(m.halfspace.vp).toBe(Math.max(WATER_P_SPEED, vpFromPoisson(600, 0.3)));
+    // No water table: nothing is split and nothing is raised.
+    const dry = withPSpeeds([4], [150, 600], [1800, 2100], { kind: 'poisson', poisson: 0.3, defaulted: false });
+    expect(dry.layers).toHaveLength(1);
+    expect(dry.halfspace.vp).toBeCloseTo(vpFromPoisson(600, 0.3), 12);
+  });
+
   it('refuses a Poisson ratio outside (−1, 0.5) and a negative water-table depth, naming the field', () => {
     expect(inputError(() => checkPoisson(0.5, '--poisson')).message).toBe(
       '--poisson is 0.5, outside the range −1 to 0.5 (exclusive) of a stable elastic solid; soils are about 0.25–0.49.',
