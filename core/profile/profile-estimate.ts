@@ -58,7 +58,7 @@ const FAILED_RESIDUAL = 1e3;
 /** Points of the depth band. */
 const BAND_POINTS = 161;
 /** How many separate samples of the search are refined. */
-const REFINED_STARTS = 3;
+const REFINED_STARTS = 5;
 
 // ---------------------------------------------------------------- the problem
 
@@ -336,7 +336,7 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
   const order = Array.from({ length: ensemble.count }, (_, i) => i).filter((i) => Number.isFinite(ensemble.misfit[i]));
   order.sort((a, b) => ensemble.misfit[a] - ensemble.misfit[b]);
   const starts: number[] = [];
-  const apart = 0.25 * Math.sqrt(L.k);
+  const apart = 0.12 * Math.sqrt(L.k);
   for (const i of order) {
     if (starts.length >= REFINED_STARTS) break;
     const far = starts.every((s) => {
@@ -490,7 +490,21 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
 
   // 1–2. Search and refine each layer count.
   const fits = new Map<number, LayerFit>();
-  for (const N of usable) fits.set(N, fitLayers(P, N, efforts.get(N)!, seed + 7919 * N, tick));
+  for (const N of usable) {
+    let fit = fitLayers(P, N, efforts.get(N)!, seed + 7919 * N, tick);
+    // A fit the picks' errors cannot explain may be a local minimum the search settled in:
+    // search once more with fresh samples and keep the better (the misfit decides, nothing else).
+    const dofN = P.n - (2 * N + 1);
+    if (dofN > 0 && fit.minima[0].chi2 > chi2Upper95(dofN)) {
+      const again = fitLayers(P, N, efforts.get(N)!, seed + 7919 * N + 104729, tick);
+      if (again.minima[0].chi2 < fit.minima[0].chi2) {
+        again.minima.push(...fit.minima);
+        again.minima.sort((a, b) => a.chi2 - b.chi2);
+        fit = again;
+      }
+    }
+    fits.set(N, fit);
+  }
 
   // 4. Model choice (BIC).
   const choices: LayerChoice[] = usable.map((N) => {
