@@ -143,6 +143,7 @@ export function pickOf(r: PickRecord): Pick {
   const p: Pick = { frequency: r.frequency, velocity: r.velocity, kind: r.kind, mode: r.mode };
   if (r.period !== undefined) p.period = r.period;
   if (r.sd !== undefined) p.sd = r.sd;
+  if (r.wave !== undefined) p.wave = r.wave;
   if (r.note !== undefined) p.note = r.note;
   if (r.time !== undefined) p.time = r.time;
   return p;
@@ -165,7 +166,7 @@ export function checkPick(pick: PickRecord, where = 'pick'): PickRecord {
   const clean = validatePick(candidate, where);
   // Keep every other field (history, conflicts, …); replace the pick values by their clean form.
   const out: PickRecord = { ...pick, frequency: clean.frequency, velocity: clean.velocity, kind: clean.kind, mode: clean.mode };
-  for (const key of ['period', 'sd', 'note', 'time'] as const) {
+  for (const key of ['period', 'sd', 'wave', 'note', 'time'] as const) {
     if (clean[key] === undefined) delete out[key];
     else (out as unknown as Record<string, unknown>)[key] = clean[key];
   }

@@ -52,6 +52,7 @@ const VIEWS: { id: ViewName; label: string; short: string }[] = [
   { id: 'picks', label: 'Picks & plot', short: 'Picks' },
   { id: 'records', label: 'Records', short: 'Records' },
   { id: 'estimate', label: 'Estimate', short: 'Result' },
+  { id: 'profile', label: 'Layered profile', short: 'Layers' },
   { id: 'figures', label: 'Site figures', short: 'Figures' },
   { id: 'whatif', label: 'What-if', short: 'What-if' },
   { id: 'survey', label: 'Survey plan', short: 'Plan' },
@@ -239,6 +240,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
               onKind={(r, k, m) => void c.picks.setKind(r, k, m)}
               onSort={() => void c.picks.sortByFrequency()}
               onExport={() => void c.picks.exportPicksCsv()}
+              onWave={(r, w) => void c.picks.setWave(r, w)}
               onDelete={(id) => void c.picks.deletePick(id)}
               onDiscard={(r) => c.picks.discardDraft(r)}
               onSelect={(id) => c.picks.selectPick(id)}
@@ -294,6 +296,15 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           theme={s.theme}
           records={c.records}
           onPlot={(p) => c.settings.setPlot(p)}
+        />
+      ) : s.view === 'profile' && views ? (
+        <views.ProfileView
+          profile={s.profile}
+          pickCount={s.picks.length}
+          rayleighCount={s.picks.filter((p) => p.wave === 'rayleigh').length}
+          onSettings={(patch) => c.profiles.setSettings(patch)}
+          onRun={() => void c.profiles.run()}
+          onCancel={() => c.profiles.cancel()}
         />
       ) : s.view === 'figures' && views ? (
         <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} onSurvey={() => c.sites.setView('survey')} />

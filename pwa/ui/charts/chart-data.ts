@@ -29,6 +29,8 @@ export interface PlotPick {
   kind: PickKind;
   mode: number;
   sd?: number;
+  /** Love (default) or Rayleigh. */
+  wave?: 'love' | 'rayleigh';
 }
 
 /** Picks in columns: x (Hz or s), velocity, sd (m/s), and mode/kind per pick. */
@@ -39,6 +41,8 @@ export interface PickColumns {
   mode: Int32Array;
   /** 1 for phase, 0 for group. */
   phase: Uint8Array;
+  /** 1 for a Rayleigh pick, 0 for Love. */
+  wave: Uint8Array;
 }
 
 /** Model curves in columns on one shared x. */
@@ -96,6 +100,7 @@ export function pickColumns(picks: readonly PlotPick[], axis: AxisQuantity): Pic
     sd: new Float64Array(n),
     mode: new Int32Array(n),
     phase: new Uint8Array(n),
+    wave: new Uint8Array(n),
   };
   for (let i = 0; i < n; i++) {
     const p = picks[i];
@@ -104,6 +109,7 @@ export function pickColumns(picks: readonly PlotPick[], axis: AxisQuantity): Pic
     out.sd[i] = effectiveSd({ ...p, mode: p.mode, kind: p.kind });
     out.mode[i] = p.mode;
     out.phase[i] = p.kind === 'phase' ? 1 : 0;
+    out.wave[i] = p.wave === 'rayleigh' ? 1 : 0;
   }
   return out;
 }

@@ -46,6 +46,8 @@ interface Palette {
   grid: string;
   select: string;
   cutoff: string;
+  /** Rayleigh picks (told apart from Love by shape as well). */
+  rayleigh: string;
 }
 
 function palette(el: HTMLElement): Palette {
@@ -57,6 +59,7 @@ function palette(el: HTMLElement): Palette {
     grid: v('--grid', '#ccc'),
     select: v('--select', '#d00'),
     cutoff: v('--ink-soft', '#555'),
+    rayleigh: v('--rayleigh', '#8a4f00'),
   };
 }
 
@@ -267,7 +270,8 @@ export class DispersionPlot {
       const y = u.valToPos(p.y[i], 'y', true);
       const y0 = u.valToPos(Math.max(p.y[i] - p.sd[i], 1e-9), 'y', true);
       const y1 = u.valToPos(p.y[i] + p.sd[i], 'y', true);
-      const colour = modeColour(this.pal, p.mode[i]);
+      const rayleigh = p.wave[i] === 1;
+      const colour = rayleigh ? this.pal.rayleigh : modeColour(this.pal, p.mode[i]);
       ctx.strokeStyle = colour;
       ctx.fillStyle = colour;
       ctx.lineWidth = 1.5 * pr;
@@ -280,7 +284,20 @@ export class DispersionPlot {
       ctx.lineTo(x + r * 0.8, y1);
       ctx.stroke();
       ctx.beginPath();
-      if (p.phase[i]) {
+      if (rayleigh) {
+        // Rayleigh picks: squares (group, filled) and triangles (phase, open), so no colour is needed to tell them from Love.
+        if (p.phase[i]) {
+          ctx.moveTo(x, y - r * 1.3);
+          ctx.lineTo(x + r * 1.2, y + r * 0.9);
+          ctx.lineTo(x - r * 1.2, y + r * 0.9);
+          ctx.closePath();
+          ctx.lineWidth = 2 * pr;
+          ctx.stroke();
+        } else {
+          ctx.rect(x - r * 0.9, y - r * 0.9, r * 1.8, r * 1.8);
+          ctx.fill();
+        }
+      } else if (p.phase[i]) {
         // phase picks: open diamonds
         ctx.moveTo(x, y - r * 1.2);
         ctx.lineTo(x + r * 1.2, y);

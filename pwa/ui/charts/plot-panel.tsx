@@ -63,7 +63,7 @@ export function PlotPanel(props: PlotPanelProps) {
   }, [props.picks, props.model, props.compare, props.selectedId, props.settings, props.theme, props.curveLabel]);
 
   const s = props.settings;
-  const kinds = new Set(props.picks.map((p) => p.kind));
+  const kinds = new Set(props.picks.map((p) => `${p.wave === 'rayleigh' ? 'rayleigh' : 'love'}-${p.kind}`));
   const modes = [...new Set(props.picks.map((p) => p.mode))].sort((a, b) => a - b);
   const summary =
     `Dispersion plot: ${props.picks.length} pick(s), velocity in m/s against ${s.axis === 'frequency' ? 'frequency in Hz' : 'period in s'}` +
@@ -108,9 +108,11 @@ export function PlotPanel(props: PlotPanelProps) {
             <span class={`swatch m${m % 4}`} aria-hidden="true" /> mode {m}
           </li>
         ))}
-        {kinds.has('group') ? <li><span class="glyph disc" aria-hidden="true" /> group-velocity pick ± 1 sd</li> : null}
-        {kinds.has('phase') ? <li><span class="glyph diamond" aria-hidden="true" /> phase-velocity pick ± 1 sd</li> : null}
-        {props.model ? <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} curve (dashed: phase)</li> : null}
+        {kinds.has('love-group') ? <li><span class="glyph disc" aria-hidden="true" /> Love group-velocity pick ± 1 sd</li> : null}
+        {kinds.has('love-phase') ? <li><span class="glyph diamond" aria-hidden="true" /> Love phase-velocity pick ± 1 sd</li> : null}
+        {kinds.has('rayleigh-group') ? <li><span class="glyph square" aria-hidden="true" /> Rayleigh group-velocity pick ± 1 sd</li> : null}
+        {kinds.has('rayleigh-phase') ? <li><span class="glyph triangle" aria-hidden="true" /> Rayleigh phase-velocity pick ± 1 sd</li> : null}
+        {props.model ? <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} Love curve (dashed: phase)</li> : null}
         {props.model && props.compare ? <li><span class="glyph dash" aria-hidden="true" /> best fit, for comparison (thin, grey, dotted)</li> : null}
         {props.model && modes.some((m) => m > 0) ? <li><span class="glyph dash" aria-hidden="true" /> higher-mode cutoff</li> : null}
         <li>Tap a pick to select its row.</li>

@@ -16,6 +16,7 @@ import { ImportController } from './import-controller';
 import { PicksController } from './picks-controller';
 import { RecordsController, type RecordsCompute } from './records-controller';
 import { RecordingsController } from './recordings-controller';
+import { ProfileController, type ProfileRunner } from './profile-controller';
 import { SettingsController } from './settings-controller';
 import { SitesController } from './sites-controller';
 import { messageOf, StateHub } from './state-hub';
@@ -43,7 +44,10 @@ export class AppController {
   /** Seismograph records, their dispersion image and the picks taken from it. */
   readonly records: RecordsController;
 
-  constructor(estimate?: EstimateRunner, slice?: SliceRunner, recordsCompute?: RecordsCompute) {
+  /** The layered estimate: run on request, progress and cancel. */
+  readonly profiles: ProfileController;
+
+  constructor(estimate?: EstimateRunner, slice?: SliceRunner, recordsCompute?: RecordsCompute, profile?: ProfileRunner) {
     this.estimates = new EstimateController(this.hub, estimate, slice);
     this.picks = new PicksController(this.hub, this.estimates);
     this.imports = new ImportController(this.hub, this.picks, this.estimates);
@@ -52,6 +56,7 @@ export class AppController {
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
     this.sync = new SyncController(this.hub, this.sites, this.picks, this.recordings);
     this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute, this.recordings);
+    this.profiles = new ProfileController(this.hub, profile);
   }
 
   get current(): AppState {

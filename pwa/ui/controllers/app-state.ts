@@ -3,15 +3,16 @@
  * change (state-hub.ts). Each concern's controller in this folder owns its
  * slices and their async work. Pure helpers here.
  */
-import type { PickCells, PickKind, PickProblem } from '../../../core/picks/picks';
+import type { PickCells, PickKind, PickProblem, PickWave } from '../../../core/picks/picks';
 import type { AnyRecord, PickRecord, RecordingRecord, SiteRecord } from '../../../core/exchange/records';
 import type { SyncStatus } from '../../sync/client';
 import type { AxisQuantity } from '../charts/chart-data';
 import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
 import type { RecordsState } from './records-controller';
+import type { ProfileResult } from '../../../core/profile/profile-estimate';
 
-export type ViewName = 'picks' | 'records' | 'estimate' | 'figures' | 'whatif' | 'survey' | 'details';
+export type ViewName = 'picks' | 'records' | 'estimate' | 'profile' | 'figures' | 'whatif' | 'survey' | 'details';
 export type SiteSort = 'recent' | 'name' | 'date';
 export type Theme = 'standard' | 'sun';
 
@@ -19,6 +20,8 @@ export type Theme = 'standard' | 'sun';
 export interface RowDraft {
   cells: PickCells;
   kind?: PickKind;
+  /** The wave chosen in the row's wave box, not saved yet. */
+  wave?: PickWave;
   /** The message of the last failed check or write; the input stays on screen. */
   error?: string;
   /** The column the error is about, for aria-invalid. */
@@ -149,6 +152,22 @@ export interface AppState {
   /** Seismograph records of the open site, the dispersion image and its ridge (records-controller.ts). */
   records: RecordsState;
   recordings: RecordingsState;
+  profile: ProfileState;
+}
+
+/** The layered estimate of the open site (profile-controller.ts): run on request, with progress and cancel. */
+export interface ProfileState {
+  status: 'idle' | 'running' | 'done' | 'error';
+  /** Fraction done, 0–1, while running. */
+  progress: number;
+  result?: ProfileResult;
+  error?: string;
+  /** Layers above the half-space, or let the picks decide. */
+  layers: number | 'auto';
+  /** Poisson's ratio as typed ('' = the default, warned about). */
+  poissonText: string;
+  /** Water-table depth in m as typed ('' = none given). */
+  waterTableText: string;
 }
 
 /** The estimate of the open site, as the worker last answered. */
@@ -185,6 +204,7 @@ export const initialState: AppState = {
   sync: { busy: false, formError: '', conflicted: [], siteNames: {} },
   records: { list: [], method: 'phase-shift', overrides: { first: '', spacing: '', delay: '' }, status: 'idle', mode: '0', removed: [] },
   recordings: { list: [], busy: false },
+  profile: { status: 'idle', progress: 0, layers: 2, poissonText: '', waterTableText: '' },
 };
 
 /** Sites matching the search text (name, crew, notes, date), in the chosen order. */

@@ -7,7 +7,7 @@
  * a fresh estimate.
  */
 import { InputError } from '../../../core/shared/errors';
-import { checkPickSet, pickFromCells, picksToCsv, type Pick, type PickCells, type PickKind } from '../../../core/picks/picks';
+import { checkPickSet, pickFromCells, picksToCsv, type Pick, type PickCells, type PickKind, type PickWave } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
 import { newPick, pickOf, type FieldStore } from '../../store';
 import { byFrequency, handEntryMessage, NEW_ROW, replaceById, without, type RowDraft } from './app-state';
@@ -92,6 +92,12 @@ export class PicksController {
     if (rowKey !== NEW_ROW) await this.commitRow(rowKey);
   }
 
+  /** Sets a row's wave (Love or Rayleigh); a stored pick is saved at once. */
+  async setWave(rowKey: string, wave: PickWave): Promise<void> {
+    this.setDraft(rowKey, { wave });
+    if (rowKey !== NEW_ROW) await this.commitRow(rowKey);
+  }
+
   /** Clears a row's unsaved text (the stored pick shows again). */
   discardDraft(rowKey: string): void {
     this.hub.set({ drafts: without(this.hub.current.drafts, rowKey) });
@@ -105,7 +111,7 @@ export class PicksController {
   private draftsAfterSave(rowKey: string, saved: RowDraft): Record<string, RowDraft> {
     const drafts = this.hub.current.drafts;
     const current = drafts[rowKey];
-    if (!current || (current.cells === saved.cells && current.kind === saved.kind)) {
+    if (!current || (current.cells === saved.cells && current.kind === saved.kind && current.wave === saved.wave)) {
       return without(drafts, rowKey);
     }
     return { ...drafts, [rowKey]: { ...current, saving: false, next: undefined } };
@@ -134,6 +140,8 @@ export class PicksController {
     const modeText = typed.mode ?? (rec ? String(rec.mode) : '');
     if (modeText.trim() !== '') cells.mode = modeText;
     cells.kind = draft.kind ?? rec?.kind ?? 'group';
+    const wave = draft.wave ?? rec?.wave;
+    if (wave !== undefined) cells.wave = wave;
     return cells;
   }
 
@@ -169,7 +177,7 @@ export class PicksController {
       const hasVel = (cells.velocity_m_s ?? '').trim() !== '';
       const anything = Object.values(draft.cells).some((t) => t !== undefined && t.trim() !== '');
       if (!anything) {
-        if (!draft.kind) this.discardDraft(rowKey);
+        if (!draft.kind && !draft.wave) this.discardDraft(rowKey);
         return;
       }
       if (!force && !(hasAbs && hasVel)) return;
@@ -206,7 +214,7 @@ export class PicksController {
           undo: { label: `adding pick ${index + 1}`, revert: () => this.removePick(saved.id) },
         });
       } else {
-        const changes: Partial<PickRecord> = { ...pick, period: pick.period, sd: pick.sd };
+        const changes: Partial<PickRecord> = { ...pick, period: pick.period, sd: pick.sd, wave: pick.wave };
         const saved = await store.savePick(nextRevision(rec!, changes));
         const before = rec!;
         this.hub.set({

@@ -10,7 +10,7 @@
  */
 import { Fragment } from 'preact';
 import { useEffect, useRef } from 'preact/hooks';
-import { morePickProblemsNote, type PickKind } from '../../../core/picks/picks';
+import { morePickProblemsNote, type PickKind, type PickWave } from '../../../core/picks/picks';
 import type { PickRecord } from '../../../core/exchange/records';
 import { cellText, type PickTextColumn } from '../controllers/form-text';
 import { NEW_ROW, type ImportState, type RowDraft, type UndoEntry } from '../controllers/app-state';
@@ -28,6 +28,7 @@ export interface PicksTableProps {
   onSort?: () => void;
   /** Shares or downloads the site's picks as a CSV file. */
   onExport?: () => void;
+  onWave: (row: string, wave: PickWave) => void;
   onDelete: (id: string) => void;
   onDiscard: (row: string) => void;
   onSelect: (id: string | undefined) => void;
@@ -118,6 +119,7 @@ export function PicksTable(props: PicksTableProps) {
               <th scope="col">Velocity (m/s)</th>
               <th scope="col">sd (m/s)</th>
               <th scope="col">Kind, mode</th>
+              <th scope="col">Wave</th>
               <th scope="col" aria-label="Remove"></th>
             </tr>
           </thead>
@@ -130,6 +132,7 @@ export function PicksTable(props: PicksTableProps) {
               const modeText = d?.cells.mode ?? (rec ? String(rec.mode) : '0');
               const mode = /^\d+$/.test(modeText.trim()) ? Number(modeText.trim()) : 0;
               const modes = MODES_OFFERED.includes(mode) ? MODES_OFFERED : [...MODES_OFFERED, mode].sort((a, b) => a - b);
+              const wave = d?.wave ?? rec?.wave ?? 'love';
               const errId = `err-${key}`;
               /** One text cell of this row; Enter saves and moves to column `enterTo` of the next row. */
               const cellInput = (
@@ -243,6 +246,17 @@ export function PicksTable(props: PicksTableProps) {
                     </select>
                   </td>
                   <td>
+                    <select
+                      class={`cell wave-${wave}`}
+                      aria-label={`${label}, wave`}
+                      value={wave}
+                      onChange={(e) => props.onWave(key, e.currentTarget.value as PickWave)}
+                    >
+                      <option value="love">Love</option>
+                      <option value="rayleigh">Rayleigh</option>
+                    </select>
+                  </td>
+                  <td>
                     {rec ? (
                       <button type="button" class="icon" aria-label={`Remove pick ${r + 1}`} onClick={() => props.onDelete(rec.id)}>
                         <svg viewBox="0 0 24 24" width="22" height="22" aria-hidden="true">
@@ -304,7 +318,7 @@ export function ImportPanel(props: ImportPanelProps) {
       <h2 id="import-h">Paste or import picks (CSV)</h2>
       <p class="hint">
         A header row names the columns, units in the names: <code>frequency_hz</code> or <code>period_s</code>,{' '}
-        <code>velocity_m_s</code>, and optionally <code>sd_m_s</code>, <code>kind</code>, <code>mode</code>. Comma or
+        <code>velocity_m_s</code>, and optionally <code>sd_m_s</code>, <code>kind</code>, <code>mode</code>, <code>wave</code>. Comma or
         semicolon separated. A file with any bad row is not imported at all.
       </p>
       <label class="field">

@@ -7,5 +7,6 @@
 export { EstimateView } from './estimate-view';
 export { FiguresView } from './figures-view';
 export { RecordsView } from './records-view';
+export { ProfileView } from './profile-view';
 export { SurveyView } from './survey-view';
 export { WhatIfView } from './whatif-view';
