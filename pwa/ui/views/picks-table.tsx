@@ -108,7 +108,7 @@ export function PicksTable(props: PicksTableProps) {
       <p class="hint">
         Type picks in as: frequency, Next, velocity, Enter (the sd is optional: an empty sd uses 3 % of the velocity, common
         practice). Kind, mode: G0 is a group velocity on the fundamental mode, P1 a phase velocity on the first higher
-        mode. Every change is saved on this device at once; a half-typed row waits as a draft.
+        mode; the wave below it is L for Love, R for Rayleigh. Every change is saved on this device at once; a half-typed row waits as a draft.
       </p>
       <div class="table-wrap">
         <table class="picks" ref={table}>
@@ -118,8 +118,7 @@ export function PicksTable(props: PicksTableProps) {
               <th scope="col">{absLabel}</th>
               <th scope="col">Velocity (m/s)</th>
               <th scope="col">sd (m/s)</th>
-              <th scope="col">Kind, mode</th>
-              <th scope="col">Wave</th>
+              <th scope="col">Kind, mode, wave</th>
               <th scope="col" aria-label="Remove"></th>
             </tr>
           </thead>
@@ -244,16 +243,18 @@ export function PicksTable(props: PicksTableProps) {
                         )),
                       )}
                     </select>
-                  </td>
-                  <td>
                     <select
-                      class={`cell wave-${wave}`}
+                      class={`cell wavesel wave-${wave}`}
                       aria-label={`${label}, wave`}
                       value={wave}
                       onChange={(e) => props.onWave(key, e.currentTarget.value as PickWave)}
                     >
-                      <option value="love">Love</option>
-                      <option value="rayleigh">Rayleigh</option>
+                      <option value="love" aria-label="Love">
+                        L
+                      </option>
+                      <option value="rayleigh" aria-label="Rayleigh">
+                        R
+                      </option>
                     </select>
                   </td>
                   <td>
