@@ -1,0 +1,90 @@
+/**
+ * The layered profile end to end, offline, in real Chromium against the
+ * built app (dist/): load the app, let the service worker take control, go
+ * offline and reload; create a site, paste 12 Rayleigh picks, choose two
+ * layers and Poisson's ratio 0.3, run the layered estimate in the worker
+ * (progress bar, then the result) and see the profile band, the depth of
+ * investigation, Vs30 with its range and the caution. The tablet screenshot
+ * of the profile view goes to docs/screenshot-profile.png for the README.
+ *
+ * Picks: phase and group velocities of an invented two-layer site
+ * (test/fixtures.ts) from the core's forward step (the compound-matrix
+ * Rayleigh solver, Dunkin 1965), P speeds from ν = 0.3, rounded to 0.1 m/s
+ * as a crew would type them.
+ */
+import { copyFileSync, mkdirSync } from 'node:fs';
+import { join } from 'node:path';
+import type { Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { picksToCsv } from '../../core/picks/picks';
+import { vpFromPoisson } from '../../core/profile/p-speed';
+import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../fixtures';
+import { ARTIFACT_DIR, openApp, reload, REPO_ROOT, setOffline, VIEWPORTS, waitForServiceWorkerControl, type AppSession } from './harness';
+
+const SITE = 'E2E layered terrace (invented)';
+const M = INVENTED_TWO_LAYER_SITE;
+const VP = [...M.layers.map((l) => vpFromPoisson(l.vs, 0.3)), vpFromPoisson(M.halfspace.vs, 0.3)];
+const CSV = picksToCsv(
+  layeredPicks(M, 'rayleigh', 12, 3, 50, undefined, VP).map((p) => ({
+    ...p,
+    frequency: Number(p.frequency.toFixed(2)),
+    velocity: Number(p.velocity.toFixed(1)),
+    sd: Number(p.sd!.toFixed(1)),
+  })),
+  { lineEnding: '\n' },
+);
+
+let app: AppSession;
+let page: Page;
+const pageErrors: string[] = [];
+
+beforeAll(async () => {
+  app = await openApp(VIEWPORTS.tabletLandscape);
+  page = app.page;
+  page.on('pageerror', (e) => pageErrors.push(e.message));
+});
+afterAll(async () => {
+  await app?.close();
+});
+
+describe('the layered profile in Chromium, offline', () => {
+  it('runs a two-layer Rayleigh estimate from pasted picks to the profile band with the caution', async () => {
+    await page.getByRole('heading', { name: 'Field sites' }).waitFor();
+    await waitForServiceWorkerControl(page);
+    await setOffline(app.browser.context, true);
+    const r = await reload(page);
+    expect(r.fromServiceWorker()).toBe(true);
+
+    await page.getByLabel('Site name').fill(SITE);
+    await page.getByRole('button', { name: 'Create site' }).click();
+    await page.getByRole('heading', { name: SITE }).waitFor();
+    await page.getByRole('button', { name: 'Picks & plot' }).click();
+    await page.getByLabel('CSV text').fill(CSV);
+    await page.getByRole('button', { name: 'Import pasted text' }).click();
+    await page.getByRole('heading', { name: 'Picks (12)', exact: true }).waitFor({ timeout: 10_000 });
+    expect(await page.getByLabel('Pick 1, wave', { exact: true }).inputValue()).toBe('rayleigh');
+    await page.getByText('Rayleigh group-velocity pick ± 1 sd').waitFor();
+
+    await page.getByRole('button', { name: 'Layered profile' }).click();
+    await page.getByLabel('Number of layers').selectOption('2');
+    await page.getByLabel("Poisson's ratio").fill('0.3');
+    await page.getByRole('button', { name: 'Estimate the profile' }).click();
+    await page.getByTestId('profile-progress').waitFor({ timeout: 10_000 });
+    await page.getByTestId('profile-chart').waitFor({ timeout: 180_000 });
+
+    await page.locator('.caution').filter({ hasText: 'Screening estimate only.' }).first().waitFor();
+    const vs30 = (await page.getByTestId('profile-vs30').textContent()) ?? '';
+    expect(vs30).toMatch(/^Vs30 \d+ m\/s \(68 %: \d+–\d+; 95 %: \d+–\d+\)$/);
+    expect(await page.getByText(/depth of investigation ≈ \d+/).count()).toBeGreaterThan(0);
+    expect(await page.locator('.profile-chart polygon.band95').count()).toBe(1);
+    const level = await page.getByTestId('profile-verdict').getAttribute('data-level');
+    expect(['resolved', 'rough', 'unresolved']).toContain(level);
+    expect(pageErrors).toEqual([]);
+
+    mkdirSync(ARTIFACT_DIR, { recursive: true });
+    const shot = join(ARTIFACT_DIR, 'profile-tablet.png');
+    // The result itself (verdict, caution, band, Vs30, layers), as the README shows it.
+    await page.getByTestId('profile-result').screenshot({ path: shot });
+    copyFileSync(shot, join(REPO_ROOT, 'docs', 'screenshot-profile.png'));
+  }, 300_000);
+});
