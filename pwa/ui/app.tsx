@@ -307,7 +307,13 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           onCancel={() => c.profiles.cancel()}
         />
       ) : s.view === 'figures' && views ? (
-        <views.FiguresView result={s.estimate.result} running={s.estimate.status === 'running'} onSurvey={() => c.sites.setView('survey')} />
+        <views.FiguresView
+          result={s.estimate.result}
+          running={s.estimate.status === 'running'}
+          onSurvey={() => c.sites.setView('survey')}
+          site={site}
+          picks={s.picks}
+        />
       ) : s.view === 'whatif' && views ? (
         <views.WhatIfView
           model={s.whatif}

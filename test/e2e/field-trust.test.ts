@@ -119,6 +119,19 @@ describe('field trust at tablet size', () => {
     expect(first).toContain('These figures rest on a layer thickness the picks do not resolve');
     expect(first).not.toMatch(/H\s*[=≈]\s*[\d.]+\s*m/);
 
+    // The one-page summary (to print, save or share) says it too, with the picks and the caution.
+    const [summary] = await Promise.all([
+      app.browser.context.waitForEvent('page'),
+      page.getByRole('button', { name: 'One-page site summary (print, save or share)' }).click(),
+    ]);
+    await summary.getByText(/^Layer thickness: not resolved/).waitFor();
+    const sheet = (await summary.locator('body').textContent()) ?? '';
+    expect(sheet).toContain(`Site summary: ${UNRESOLVED}`);
+    expect(sheet).toContain('Site figures (resting on an unresolved thickness)');
+    expect(sheet).toContain(CAUTION);
+    expect(await summary.locator('svg circle').count()).toBe(HIGH_ONLY.length);
+    await summary.close();
+
     // The caution is on the first screen of What-if and Survey plan too.
     for (const v of ['What-if', 'Survey plan']) {
       await view(v);

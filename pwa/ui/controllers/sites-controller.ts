@@ -48,8 +48,10 @@ export class SitesController {
         const f: SiteFacts = { picks: picks.length, lastChange };
         const t = est?.summary.thickness_m as { best?: unknown; low95?: unknown; high95?: unknown } | undefined;
         const open = (est?.summary.open_ends as { thickness_m?: { low?: unknown; high?: unknown } } | undefined)?.thickness_m;
-        if (t && typeof t.best === 'number' && typeof t.low95 === 'number' && typeof t.high95 === 'number') {
-          f.thickness = { best: t.best, low95: t.low95, high95: t.high95, openLow: open?.low === true, openHigh: open?.high === true };
+        // An open end is written as null (core/estimate/estimate-json.ts): read as "not bounded" (NaN).
+        const end = (x: unknown) => (typeof x === 'number' ? x : NaN);
+        if (t && typeof t.best === 'number') {
+          f.thickness = { best: t.best, low95: end(t.low95), high95: end(t.high95), openLow: open?.low === true, openHigh: open?.high === true };
           f.verdict = storedVerdict(est?.summary);
         }
         facts[site.id] = f;

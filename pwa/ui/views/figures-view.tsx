@@ -6,7 +6,10 @@
  */
 import type { EstimateResult } from '../../../core/estimate/estimate';
 import { siteFiguresOfEstimate, type FigureRange, type SiteFigures } from '../../../core/site/site';
+import { useState } from 'preact/hooks';
+import type { PickRecord, SiteRecord } from '../../../core/exchange/records';
 import { Caution, VerdictHeadline } from './estimate-view';
+import { buildSiteSummary } from './site-summary-page';
 import { num } from './format';
 
 export interface FiguresViewProps {
@@ -14,6 +17,35 @@ export interface FiguresViewProps {
   running: boolean;
   /** Opens the survey plan (beside an unresolved thickness). */
   onSurvey?: () => void;
+  /** For the one-page summary. */
+  site?: SiteRecord;
+  picks?: readonly PickRecord[];
+}
+
+/** Opens the one-page site summary in a page of its own, to print or save as PDF; a reason when the device refuses. */
+function SummaryButton(props: { site: SiteRecord; picks: readonly PickRecord[]; result?: EstimateResult; figures?: SiteFigures }) {
+  const [refused, setRefused] = useState('');
+  const open = () => {
+    const w = window.open('', '_blank');
+    if (!w) {
+      setRefused('The device did not open a new page for the summary (pop-ups blocked); allow pop-ups for this app and try again.');
+      return;
+    }
+    setRefused('');
+    buildSiteSummary(w.document, props.site, props.picks, props.result, props.figures);
+  };
+  return (
+    <div class="row-form">
+      <button type="button" onClick={open}>
+        One-page site summary (print, save or share)
+      </button>
+      {refused ? (
+        <p class="error" role="alert">
+          {refused}
+        </p>
+      ) : null}
+    </div>
+  );
 }
 
 /** The figures for an estimate, over its 95 % intervals; an error message when the core refuses. */
@@ -75,6 +107,7 @@ export function FiguresView(props: FiguresViewProps) {
         </p>
       ) : null}
       <Caution />
+      {props.site ? <SummaryButton site={props.site} picks={props.picks ?? []} result={props.result} figures={figures} /> : null}
       <p class="hint">
         From the estimated layer over half-space, over the 95 % intervals of H, β1 and β2; an interval end the data do not
         bound leaves the figures open on that side.

@@ -35,8 +35,8 @@ export function thicknessLine(f: SiteFacts): string {
   const v = f.verdict;
   if (!v) return `H = ${num(t.best)} m (estimate kept before verdicts; open the site to judge it)`;
   if (v.level === 'unresolved') {
-    if (t.openHigh && !t.openLow) return `H not resolved: more than ${num(t.low95)} m`;
-    if (t.openLow && !t.openHigh) return `H not resolved: less than ${num(t.high95)} m`;
+    if (t.openHigh && !t.openLow && Number.isFinite(t.low95)) return `H not resolved: more than ${num(t.low95)} m`;
+    if (t.openLow && !t.openHigh && Number.isFinite(t.high95)) return `H not resolved: less than ${num(t.high95)} m`;
     return 'H not resolved';
   }
   return `H ${v.level === 'rough' ? '≈' : '='} ${num(t.best)} m (${LEVEL_WORDS[v.level]})`;
