@@ -46,8 +46,10 @@
  *
  * Domain and units: SI; ω > 0 rad/s; the model validated with its P speeds
  * (model.ts checkRayleighModel). Accuracy: roots to about 4e-14 relative
- * (Brent's tolerance, ROOT_RTOL; F is not better conditioned); group
- * velocity to about 1e-10 relative.
+ * (Brent's tolerance, ROOT_RTOL) where F is well conditioned; a layer much
+ * stiffer than c (β/c ≈ 10) loses digits in the (β/c)⁴ terms of the layer
+ * step, down to about 1e-8 relative. Group velocity to about 1e-9
+ * relative, less beside such roots.
  */
 import { brent, type RootStatus } from '../numeric/roots';
 import { rayleighSecular, rayleighSecularDerivatives, secularScale, type RayleighStack } from './rayleigh-secular';
@@ -186,44 +188,47 @@ export class RayleighStackSolver {
     let c0 = this.floor;
     let f0 = this.f(c0);
     let g0 = magnitude(f0);
-    let phi0 = this.phase(c0);
-    let cPrev = NaN;
-    let fPrev = NaN;
+    let c1 = this.nextPoint(c0, this.phase(c0), top);
+    let f1 = this.f(c1);
+    let g1 = magnitude(f1);
     let gPrev = NaN;
-    // True when the cell (cPrev, c0) has already been searched (a sign change or a probe).
-    let leftDone = true;
+    let changePrev = false;
+    // Each cell (c0, c1) is settled with its neighbours' values at hand (one grid point of look-ahead).
     while (o.found < modes) {
       if (c0 >= top) {
         o.complete = true;
         break;
       }
-      const c1 = this.nextPoint(c0, phi0, top);
-      const f1 = this.f(c1);
-      const g1 = magnitude(f1);
-      // |F| lowest at c0 of three grid points: two close roots may hide in either neighbouring cell whose
-      // ends share a sign (also beside a cell with a sign change, whose root pulls |F| down too).
-      const dip = g0 < gPrev && g0 <= g1 && f0 !== 0;
-      const probeLeft = dip && !leftDone && f0 * fPrev > 0;
-      let rootRight = NaN;
-      if (f1 === 0 || f0 * f1 < 0) {
-        const r = this.root(c0, f0, c1, f1);
-        if (probeLeft) this.probe(cPrev, fPrev, c0, f0, out, modes);
-        this.emit(r.x, r.status, modes, out);
-        rootRight = r.x;
-      } else {
-        if (probeLeft) this.probe(cPrev, fPrev, c0, f0, out, modes);
-        // The last cell has no right neighbour to show a dip: search it always.
-        if (dip || c1 >= top) this.probe(c0, f0, c1, f1, out, modes);
+      let c2 = NaN;
+      let f2 = NaN;
+      let g2 = NaN;
+      if (c1 < top) {
+        c2 = this.nextPoint(c1, this.phase(c1), top);
+        f2 = this.f(c2);
+        g2 = magnitude(f2);
       }
-      const rightDone = !Number.isNaN(rootRight) || c1 >= top;
-      cPrev = c0;
-      fPrev = f0;
+      const change = f1 === 0 || f0 * f1 < 0;
+      if (change) {
+        this.refine(c0, f0, c1, f1, out, modes);
+      } else if (f0 !== 0) {
+        // Two close roots pull |F| down towards the cell from both sides: search a cell whose |F| is
+        // lower at each end than beyond it (a root next door counts as lower beyond), or whose end is a
+        // dip of |F|. The last cell has no right neighbour: it counts as walled.
+        const changeNext = c1 < top && (f2 === 0 || f1 * f2 < 0);
+        const leftWall = Number.isNaN(gPrev) || g0 < gPrev || changePrev;
+        const rightWall = c1 >= top || g1 < g2 || changeNext;
+        const dipLeft = g0 < gPrev && g0 <= g1;
+        const dipRight = c1 < top && g1 < g0 && g1 <= g2;
+        if ((leftWall && rightWall) || dipLeft || dipRight) this.probe(c0, f0, c1, f1, out, modes);
+      }
       gPrev = g0;
-      leftDone = rightDone;
+      changePrev = change;
       c0 = c1;
       f0 = f1;
       g0 = g1;
-      phi0 = this.phase(c1);
+      c1 = c2;
+      f1 = f2;
+      g1 = g2;
     }
     // Close pairs among the roots found.
     for (let i = 0; i + 1 < o.found; i++) {

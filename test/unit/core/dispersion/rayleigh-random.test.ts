@@ -74,8 +74,10 @@ describe('the Rayleigh solver never misses or duplicates a mode', () => {
       }
       // Every solver root is a sign change of the reference.
       for (let i = 0; i < found; i++) {
-        const a = Fr(out[i] * (1 - 1e-9));
-        const b = Fr(out[i] * (1 + 1e-9));
+        // ±1e-7 relative: F is noisy at about 1e-8 relative around roots in models with a layer ten times
+        // stiffer than c (terms in (β/c)⁴ cancel), though the root itself is a clean sign change beyond that.
+        const a = Fr(out[i] * (1 - 1e-7));
+        const b = Fr(out[i] * (1 + 1e-7));
         expect(a * b <= 0, `root ${i} at ${out[i]} is no sign change of the reference: ${ctx()}`).toBe(true);
         if (i > 0) expect(out[i], ctx()).toBeGreaterThan(out[i - 1]);
       }
@@ -88,13 +90,16 @@ describe('the Rayleigh solver never misses or duplicates a mode', () => {
       // Extra solver roots (two in one scan interval) are real: each is a sign change of the reference
       // (checked above) and they are distinct (farther apart than that check's width).
       if (found !== brackets.length) refined++;
-      for (let i = 1; i < found; i++) expect(out[i] - out[i - 1], ctx()).toBeGreaterThan(4e-9 * out[i]);
+      for (let i = 1; i < found; i++) expect(out[i] - out[i - 1], ctx()).toBeGreaterThan(2e-7 * out[i]);
       expect(found, `mode count: ${ctx()}`).toBeGreaterThanOrEqual(brackets.length);
       modesChecked += found;
       if (trial % 5 === 0 && found > 0) {
         let n = trial % 3 === 0 ? found - 1 : 0;
-        // Next to a cutoff (c within 0.1 % of β_H) the mode is missing on one side of the difference: take the fundamental.
-        if (out[n] > 0.999 * stack.vsH) n = 0;
+        // Next to a cutoff (c within 0.1 % of β_H) the mode is missing on one side of the difference, and next to
+        // another root (within 1 %) the numbering may pass to the other branch across the difference: take the fundamental.
+        const crowded = (i: number) => (i > 0 && out[i] - out[i - 1] < 0.01 * out[i]) || (i + 1 < found && out[i + 1] - out[i] < 0.01 * out[i]);
+        if (out[n] > 0.999 * stack.vsH || crowded(n)) n = 0;
+        if (crowded(n)) continue;
         const c = out[n];
         const kAt = (w: number) => {
           const r = new Float64Array(n + 1);
@@ -113,5 +118,5 @@ describe('the Rayleigh solver never misses or duplicates a mode', () => {
     expect(gvChecked).toBeGreaterThan(20);
     expect(gvBad.slice(0, 3)).toEqual([]);
     expect(refined).toBeLessThan(12);
-  });
+  }, 180_000);
 });
