@@ -55,10 +55,15 @@ export const INVENTED_SOFT_SITE: Readonly<TwoLayer> = Object.freeze({ h: 12, vs1
  * without, the velocities are exact.
  */
 export function softSitePicks(count: number, rand?: () => number): Pick[] {
+  return oneLayerPicks(INVENTED_SOFT_SITE, count, rand);
+}
+
+/** The same picks (3–40 Hz, every third a phase pick, sd 3 %, optional seeded noise) of any one-layer site. */
+export function oneLayerPicks(site: Readonly<TwoLayer>, count: number, rand?: () => number): Pick[] {
   const out: Pick[] = [];
   for (let i = 0; i < count; i++) {
     const f = 3 * Math.pow(40 / 3, i / (count - 1));
-    const v = loveVelocities(INVENTED_SOFT_SITE, f, 0);
+    const v = loveVelocities(site, f, 0);
     const phase = i % 3 === 0;
     const exact = phase ? v.phase : v.group;
     const sd = 0.03 * exact;
