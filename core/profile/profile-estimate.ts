@@ -659,7 +659,8 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
   const bestSite = siteModel(bestModel);
   const vs30 = intervalOf(v30, vsAverage(bestSite, VS30_DEPTH_M));
   const vs100ft = intervalOf(v100, vsAverage(bestSite, VS100FT_DEPTH_M));
-  const classed = siteClassesForRanges({ vs30: [vs30.low95, vs30.high95], vs100ft: [vs100ft.low95, vs100ft.high95] }, { estimatedVelocities: true });
+  // One rule for every estimate (issue 9 §2, §6): the ±30 % speed check is the user's choice, off here.
+  const classed = siteClassesForRanges({ vs30: [vs30.low95, vs30.high95], vs100ft: [vs100ft.low95, vs100ft.high95] });
   const share = (values: Float64Array, table: 'asce7_16' | 'asce7_22' | 'en1998_1'): Record<string, number> => {
     const counts: Record<string, number> = {};
     for (const x of values) {
