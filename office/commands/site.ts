@@ -66,6 +66,11 @@ ESTIMATE.json: the output of shearfield estimate (for example
   from an estimate whose thickness is not resolved are not resolved either, and
   the verdict's sentence says so ("not resolved").
 
+A layered estimate (shearfield estimate --layers N > profile.json) gives the
+figures of its best model, the classes over its ensemble's 95 % range,
+"ranges":{"vs30_m_s":[low,high],"vs100ft_m_s":[low,high]} over the ensemble,
+and its "verdict" unchanged.
+
 Exit status: 0 success; 1 bad file or model (one line on stderr naming the field);
 2 usage error.`;
 
@@ -123,12 +128,63 @@ const site: Command = {
       );
       return 0;
     }
+    if (parsed && typeof parsed === 'object' && 'profile' in parsed) {
+      io.out(JSON.stringify(layeredFigures(parsed as Record<string, unknown>, path, values['estimated-velocities'])) + '\n');
+      return 0;
+    }
     const model = readModelFile(path);
     const s = siteFigures(model, { estimatedVelocities: values['estimated-velocities'] });
     io.out(JSON.stringify(figuresJson(s)) + '\n');
     return 0;
   },
 };
+
+/**
+ * Site figures of a layered estimate (the JSON of `shearfield estimate
+ * --layers N`): those of its best model, with the classes, Vs30 and v̄s100ft
+ * ranges over its ensemble (the 95 % range the estimate computed), and its
+ * verdict carried unchanged.
+ */
+function layeredFigures(j: Record<string, unknown>, path: string, estimatedVelocities: boolean) {
+  const bad = (field: string, what: unknown): never => {
+    throw new InputError(field, `The estimate file "${path}" is invalid: ${field} must be a number, but it is ${JSON.stringify(what) ?? 'missing'}.`);
+  };
+  const at = (o: unknown, keys: (string | number)[]): number => {
+    let v: unknown = o;
+    for (const k of keys) v = v && typeof v === 'object' ? (v as Record<string | number, unknown>)[k] : undefined;
+    if (typeof v !== 'number' || !Number.isFinite(v)) bad(keys.map((k) => (typeof k === 'number' ? `[${k}]` : `.${k}`)).join('').slice(1), v);
+    return v as number;
+  };
+  const profile = j.profile as { layers?: unknown[] } | undefined;
+  const n = Array.isArray(profile?.layers) ? profile!.layers.length : 0;
+  if (n === 0) throw new InputError('profile.layers', `The estimate file "${path}" is invalid: profile.layers must list at least one layer.`);
+  const layers = Array.from({ length: n }, (_, i) => ({
+    thickness: at(j, ['profile', 'layers', i, 'thickness_m', 'best']),
+    vs: at(j, ['profile', 'layers', i, 'vs_m_s', 'best']),
+    density: at(j, ['density_kg_m3', 'layers', i]),
+  }));
+  const model = { layers, halfspace: { vs: at(j, ['profile', 'halfspace', 'vs_m_s', 'best']), density: at(j, ['density_kg_m3', 'halfspace']) } };
+  const s = siteFigures(model, { estimatedVelocities });
+  const verdict = j.verdict as { level?: string } | undefined;
+  if (verdict?.level === 'unresolved') {
+    s.warnings.unshift('The layered profile is not resolved (see the verdict), so these figures rest on layers the picks do not resolve.');
+  }
+  const ensembleClasses = j.site_class as Record<string, { classes?: string[] }> | undefined;
+  const classes = {
+    asce7_16: ensembleClasses?.asce7_16?.classes ?? s.classes.asce7_16,
+    asce7_22: ensembleClasses?.asce7_22?.classes ?? s.classes.asce7_22,
+    en1998_1: ensembleClasses?.en1998_1?.classes ?? s.classes.en1998_1,
+  };
+  return {
+    ...figuresJson(s),
+    site_class: classes,
+    ranges: {
+      vs30_m_s: [at(j, ['vs30_m_s', 'low95']), at(j, ['vs30_m_s', 'high95'])],
+      vs100ft_m_s: [at(j, ['vs100ft_m_s', 'low95']), at(j, ['vs100ft_m_s', 'high95'])],
+    },
+    verdict: j.verdict,
+  };
+}
 
 function finiteOrNull(x: number): number | null {
   return Number.isFinite(x) ? x : null;

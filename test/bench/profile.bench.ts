@@ -28,12 +28,28 @@ export default async function (): Promise<BenchResult[]> {
       note: 'Node, one thread (as in the worker); NA search for N = 1, 2, 3, LM refinement, 1500-step ensemble, band, Vs30',
     }),
   ];
+  // Rayleigh trials use the lighter effort of the npm-test version (the Rayleigh forward step is several times slower than Love's).
+  const light = { iterations: 4, chainSteps: 600, burnIn: 150 };
   const cases: CoverageCase[] = [
     { name: 'Love, 2 layers, 20 picks', model: INVENTED_TWO_LAYER_SITE, waves: [{ wave: 'love', count: 20, from: 3, to: 50 }], poisson: 0.3, trials: 200, seed: 2026 },
+    { name: 'Rayleigh, 2 layers, 12 picks (light effort)', model: INVENTED_TWO_LAYER_SITE, waves: [{ wave: 'rayleigh', count: 12, from: 3, to: 50 }], poisson: 0.3, trials: 200, seed: 2027, effort: light },
+    {
+      name: 'Love 8 + Rayleigh 8 picks, 2 layers (light effort)',
+      model: INVENTED_TWO_LAYER_SITE,
+      waves: [
+        { wave: 'love', count: 8, from: 3, to: 50 },
+        { wave: 'rayleigh', count: 8, from: 3, to: 50 },
+      ],
+      poisson: 0.3,
+      trials: 200,
+      seed: 2028,
+      effort: light,
+    },
   ];
   for (const c of cases) {
     const t0 = performance.now();
     const r = runCoverage(c);
+    console.error(JSON.stringify(r));
     const perTrial = (performance.now() - t0) / c.trials;
     const rates = r.rates.map((x) => `${x.parameter} ${x.rate68.toFixed(3)}/${x.rate95.toFixed(3)}`).join(', ');
     out.push({

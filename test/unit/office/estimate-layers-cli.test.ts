@@ -111,3 +111,39 @@ describe('shearfield estimate --layers: bad input exits 1 with one sentence nami
     });
   }
 });
+
+describe('shearfield site on a layered estimate', () => {
+  async function site(...args: string[]) {
+    let out = '';
+    let err = '';
+    const code = await main(['site', ...args], { out: (t) => void (out += t), err: (t) => void (err += t) });
+    return { code, out, err };
+  }
+
+  it('gives the figures of the best layered model, the classes and Vs30 range over the ensemble, and the verdict', async () => {
+    const est = await run(good, '--layers', '2', '--seed', '4');
+    const path = join(dir, 'profile.json');
+    writeFileSync(path, est.out);
+    const j = JSON.parse(est.out);
+    const r = await site(path);
+    expect(r.err).toBe('');
+    const s = JSON.parse(r.out);
+    // Vs30 of the best model: EN 1998-1 eq. 3.1, 30 / Σ h/β with the half-space below the layers.
+    const [l1, l2] = j.profile.layers;
+    const hs = j.profile.halfspace.vs_m_s.best;
+    const rest = 30 - l1.thickness_m.best - l2.thickness_m.best;
+    expect(s.vs30_m_s).toBeCloseTo(30 / (l1.thickness_m.best / l1.vs_m_s.best + l2.thickness_m.best / l2.vs_m_s.best + rest / hs), 9);
+    expect(s.site_class.en1998_1).toEqual(j.site_class.en1998_1.classes);
+    expect(s.ranges.vs30_m_s).toEqual([j.vs30_m_s.low95, j.vs30_m_s.high95]);
+    expect(s.verdict).toEqual(j.verdict);
+    expect(s.caution).toBe(CAUTION);
+  });
+
+  it('refuses a layered estimate with a bad number, naming the field', async () => {
+    const path = join(dir, 'bad-profile.json');
+    writeFileSync(path, JSON.stringify({ profile: { layers: [{ thickness_m: { best: 'x' } }] } }));
+    const r = await site(path);
+    expect(r.code).toBe(1);
+    expect(r.err).toBe(`shearfield site: The estimate file "${path}" is invalid: profile.layers[0].thickness_m.best must be a number, but it is "x".\n`);
+  });
+});
