@@ -10,12 +10,15 @@
  *   (pwa/sw/sw.ts) and writes the precache list from the build output into
  *   it, and writes the web app manifest.
  * - The compute worker is bundled as an ES module chunk of its own.
+ * - The built index.html carries the app's Content-Security-Policy and
+ *   referrer policy as meta tags (office/app-csp.ts).
  * - vitest reads the `test` key; it runs from the repository root.
  */
 import { fileURLToPath } from 'node:url';
 import preact from '@preact/preset-vite';
 import { VitePWA } from 'vite-plugin-pwa';
 import { defineConfig } from 'vite';
+import { APP_CSP_META } from './office/app-csp.ts';
 
 const here = (p: string) => fileURLToPath(new URL(p, import.meta.url));
 
@@ -36,6 +39,15 @@ export default defineConfig({
   preview: { host: '127.0.0.1', port: 4173, strictPort: true },
   plugins: [
     preact(),
+    // The app's security policy in the built page too, for static hosts (the office server also sends it as a header).
+    {
+      name: 'shearfield-security-meta',
+      apply: 'build',
+      transformIndexHtml: () => [
+        { tag: 'meta', attrs: { 'http-equiv': 'Content-Security-Policy', content: APP_CSP_META }, injectTo: 'head-prepend' },
+        { tag: 'meta', attrs: { name: 'referrer', content: 'no-referrer' }, injectTo: 'head-prepend' },
+      ],
+    },
     // The service worker and manifest are build products; vitest needs neither.
     process.env.VITEST
       ? null

@@ -286,12 +286,41 @@ export class OfficeStore {
       .all() as DeviceRow[];
   }
 
-  /** Revokes a device by name or numeric id; its token stops working at once. */
-  revokeDevice(nameOrId: string, now = new Date()): DeviceRow {
-    const row = (/^\d+$/.test(nameOrId)
-      ? this.db.prepare('SELECT id, name FROM devices WHERE id = ? OR name = ?').get(Number(nameOrId), nameOrId)
-      : this.db.prepare('SELECT id, name FROM devices WHERE name = ?').get(nameOrId)) as { id: number; name: string } | undefined;
-    if (!row) throw new InputError('NAME', `No device is named or numbered ${describeValue(nameOrId)}; see shearfield device list.`);
+  /**
+   * Finds the device a revoke (or any command) names: `{ id }`, `{ name }`,
+   * or a bare word that may be either. A bare word that is the id of one
+   * device and the name of another is refused (nothing is chosen for the
+   * user); so is a word that names no device.
+   */
+  findDevice(which: string | { id?: string; name?: string }): DeviceRow {
+    const rows = this.listDevices();
+    const describe = (d: DeviceRow) => `device ${d.id} (${JSON.stringify(d.name)})`;
+    if (typeof which === 'string') {
+      const byId = /^\d{1,15}$/.test(which) ? rows.find((d) => d.id === Number(which)) : undefined;
+      const byName = rows.find((d) => d.name === which);
+      if (byId && byName && byId.id !== byName.id) {
+        throw new InputError(
+          'NAME',
+          `${JSON.stringify(which)} is the id of ${describe(byId)} and the name of ${describe(byName)}; say which with --id ${which} or --name ${JSON.stringify(which)}. Nothing was changed.`,
+        );
+      }
+      const found = byId ?? byName;
+      if (!found) throw new InputError('NAME', `No device is named or numbered ${describeValue(which)}; see shearfield device list.`);
+      return found;
+    }
+    if (which.id !== undefined) {
+      const found = /^\d{1,15}$/.test(which.id) ? rows.find((d) => d.id === Number(which.id)) : undefined;
+      if (!found) throw new InputError('--id', `No device has the id ${describeValue(which.id)}; see shearfield device list.`);
+      return found;
+    }
+    const found = rows.find((d) => d.name === which.name);
+    if (!found) throw new InputError('--name', `No device is named ${describeValue(which.name)}; see shearfield device list.`);
+    return found;
+  }
+
+  /** Revokes one device (see findDevice for how it is named); its token stops working at once. Returns it as it now is. */
+  revokeDevice(which: string | { id?: string; name?: string }, now = new Date()): DeviceRow {
+    const row = this.findDevice(which);
     this.db.prepare('UPDATE devices SET revoked_at = COALESCE(revoked_at, ?) WHERE id = ?').run(now.toISOString(), row.id);
     return this.listDevices().find((d) => d.id === row.id)!;
   }

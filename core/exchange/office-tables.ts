@@ -1,18 +1,20 @@
 /**
  * Office tables as CSV (RFC 4180: quoted fields, doubled quotes, CRLF):
  * the list of sites, and the per-site estimate summary. Numbers in SI units
- * named in the column; text exactly as stored, except that a text cell
- * starting with = + - @ (which a spreadsheet would run as a formula) gets a
- * leading apostrophe (common practice, the OWASP "CSV injection" advice).
+ * named in the column; text as stored, except that an apostrophe goes
+ * before every character that could start a formula in a spreadsheet, at
+ * the start of the cell or after any separator a spreadsheet may split on
+ * (core/shared/spreadsheet-text.ts).
  * Every table ends each row with the caution.
  */
 import { CAUTION } from '../shared/caution';
+import { spreadsheetSafeText } from '../shared/spreadsheet-text';
 import type { PickRecord, SiteRecord } from './records';
 import type { SiteSummary } from './site-summary';
 
 function textCell(s: string | undefined): string {
   if (s === undefined || s === '') return '';
-  const safe = /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+  const safe = spreadsheetSafeText(s);
   return /[",\r\n]/.test(safe) || safe !== safe.trim() ? `"${safe.replace(/"/g, '""')}"` : safe;
 }
 

@@ -28,6 +28,7 @@
  * throws the first; checkPicksCsv lists them all (up to a cap).
  */
 import { InputError, describeValue } from '../shared/errors';
+import { spreadsheetSafeText } from '../shared/spreadsheet-text';
 import { MODEL_BOUNDS } from '../dispersion/model';
 
 export type PickKind = 'group' | 'phase';
@@ -584,7 +585,8 @@ function isBlank(r: CsvRecord): boolean {
 }
 
 // Header names that are not columns but show what was meant.
-const HEADER_HINTS: Record<string, string> = {
+// A Map, so that a header such as "__proto__" or "constructor" finds no hint.
+const HEADER_HINTS: ReadonlyMap<string, string> = new Map(Object.entries({
   frequency: 'give the unit in the name: frequency_hz',
   freq: 'give the unit in the name: frequency_hz',
   f: 'give the unit in the name: frequency_hz',
@@ -598,7 +600,7 @@ const HEADER_HINTS: Record<string, string> = {
   sd: 'give the unit in the name: sd_m_s',
   sigma: 'give the unit in the name: sd_m_s',
   sd_km_s: 'standard deviations must be in m/s: sd_m_s',
-};
+}));
 
 /** The file's layout, read from its text and header before any row. */
 interface PicksFileLayout {
@@ -671,7 +673,7 @@ function readPicksLayout(text: string): PicksFileLayout {
       throw new InputError('header', `Line ${headerLine}: header column ${k + 1} is empty; name every column.`);
     }
     if (!(PICK_COLUMNS as readonly string[]).includes(h)) {
-      const hint = HEADER_HINTS[h];
+      const hint = HEADER_HINTS.get(h);
       const shown = describeValue(headerRecord.fields[k].trim());
       throw new InputError(
         'header',
@@ -901,6 +903,12 @@ export interface PicksCsvOptions {
   decimalComma?: boolean;
   /** Line ending (RFC 4180 uses CRLF). @default '\r\n' */
   lineEnding?: '\r\n' | '\n';
+  /**
+   * For a spreadsheet, not for reading back: text cells (id, note, time) get
+   * an apostrophe wherever they could start a formula
+   * (core/shared/spreadsheet-text.ts). @default false
+   */
+  forSpreadsheet?: boolean;
 }
 
 /**
@@ -956,8 +964,10 @@ export function picksToCsv(picks: readonly Pick[], options: PicksCsvOptions = {}
           return String(p.mode);
         case 'wave':
           return p.wave ?? '';
-        default:
-          return quote(p[c] === '' ? undefined : p[c]);
+        default: {
+          const text = p[c] === '' ? undefined : p[c];
+          return quote(text !== undefined && options.forSpreadsheet ? spreadsheetSafeText(text) : text);
+        }
       }
     });
     lines.push(cells.join(separator));

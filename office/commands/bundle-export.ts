@@ -4,7 +4,9 @@
  */
 import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
-import { bundleToJson, makeBundle } from '../../core/exchange/bundle';
+import { bundleRecords, bundleToJson, makeBundle, MAX_BUNDLE_CHARS } from '../../core/exchange/bundle';
+import { checkRecordLimits } from '../../core/exchange/record-limits';
+import type { AnyRecord } from '../../core/exchange/records';
 import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
@@ -14,11 +16,28 @@ const HELP = `Usage: shearfield bundle-export OUT.json [--site SITE_ID ...] [--d
 Writes every site in the office store (or only the --site ones) with its picks and
 estimates as one site bundle (JSON, format version 1; schema/site-bundle.schema.json),
 deletions and kept conflicts included, for a tablet to import. "-" writes to stdout.
+The file is compact JSON, one record per line, and always imports again: a record beyond
+the record bound (32 levels, 262,144 characters) or a file over the bundle limit (64 Mi
+characters) stops the export with a sentence saying which, and nothing is written.
 
 Options:
   --site ID   Only this site (repeatable). Default: every site.
   --data DIR  Folder of the office store. Default ${DEFAULT_DATA_DIR}.
   -h, --help  Show this help.`;
+
+/** Refuses a record the bundle check would refuse on import (one stored before the record bound existed). */
+function checkExportable(rec: AnyRecord): void {
+  try {
+    checkRecordLimits(rec, '');
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    const site = rec.type === 'site' ? rec.id : rec.siteId;
+    throw new InputError(
+      '--site',
+      `${e.message.replace(/; it was refused\.$/, '')}, so a bundle holding it could not be imported again; nothing was written. Export the other sites with --site, leaving out site ${JSON.stringify(site)}.`,
+    );
+  }
+}
 
 const bundleExport: Command = {
   name: 'bundle-export',
@@ -38,7 +57,15 @@ const bundleExport: Command = {
       const known = new Set(records.filter((r) => r.type === 'site').map((r) => r.id));
       for (const id of values.site ?? []) if (!known.has(id)) throw new InputError('--site', `No site with id ${JSON.stringify(id)} is in the office store.`);
       const bundle = makeBundle(records, { exportedBy: 'office', siteIds: values.site });
+      // The office's own export always imports again: every record within the record bound, the file within the bundle limit.
+      for (const rec of bundleRecords(bundle)) checkExportable(rec);
       const text = bundleToJson(bundle);
+      if (text.length > MAX_BUNDLE_CHARS) {
+        throw new InputError(
+          '--site',
+          `The bundle would be ${text.length} characters, more than the ${MAX_BUNDLE_CHARS} a bundle may hold, so it could not be imported again; nothing was written. Export fewer sites per file with --site.`,
+        );
+      }
       if (positionals[0] === '-') io.out(text);
       else {
         writeFileSync(positionals[0], text);

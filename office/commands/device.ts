@@ -11,6 +11,8 @@ const HELP = `Usage:
   shearfield device add NAME [--data DIR]        Register a tablet; prints its token ONCE.
   shearfield device list [--data DIR]            List devices: id, name, added, last batch, revoked.
   shearfield device revoke NAME-or-id [--data DIR]  Stop a device's token from working, at once.
+  shearfield device revoke --id N | --name NAME     The same, saying which: a word that is one
+                                                    device's id and another's name is refused.
 
 The office keeps only the SHA-256 of each token, so a lost token cannot be shown again:
 revoke the device and add it again under a new name. Enter the token and the office
@@ -18,6 +20,8 @@ address in the app's sync settings; every sync call sends it as "Authorization: 
 
 Options:
   --data DIR  Folder of the office store (created by add if missing). Default ${DEFAULT_DATA_DIR}.
+  --id N      (revoke) The device with this id.
+  --name NAME (revoke) The device with this name.
   -h, --help  Show this help.`;
 
 const device: Command = {
@@ -27,7 +31,7 @@ const device: Command = {
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({
       args,
-      options: { data: { type: 'string', default: DEFAULT_DATA_DIR } },
+      options: { data: { type: 'string', default: DEFAULT_DATA_DIR }, id: { type: 'string' }, name: { type: 'string' } },
       allowPositionals: true,
       strict: true,
     });
@@ -35,7 +39,13 @@ const device: Command = {
     if (action !== 'add' && action !== 'list' && action !== 'revoke') {
       throw new InputError('action', `Say what to do: shearfield device add NAME, device list or device revoke NAME (got ${action === undefined ? 'nothing' : JSON.stringify(action)}).`);
     }
-    const wantsName = action !== 'list';
+    if ((values.id !== undefined || values.name !== undefined) && action !== 'revoke') {
+      throw new InputError(values.id !== undefined ? '--id' : '--name', `--id and --name go with device revoke only.`);
+    }
+    if (values.id !== undefined && values.name !== undefined) throw new InputError('--id', 'Give --id or --name, not both.');
+    const chosen = values.id !== undefined ? { id: values.id } : values.name !== undefined ? { name: values.name } : undefined;
+    if (chosen && rest.length !== 0) throw new InputError('NAME', `device revoke takes ${values.id !== undefined ? '--id' : '--name'} or one device name or id, not both.`);
+    const wantsName = action !== 'list' && !chosen;
     if (wantsName && rest.length !== 1) {
       throw new InputError('NAME', `device ${action} takes one device name${action === 'revoke' ? ' or id' : ''} (quote a name with spaces), but ${rest.length} were given.`);
     }
@@ -65,8 +75,13 @@ const device: Command = {
           io.out(table.map((r) => r.map((c, i) => c.padEnd(widths[i])).join('  ').trimEnd()).join('\n') + '\n');
         }
       } else {
-        const d = store.revokeDevice(rest[0]);
-        io.out(`Revoked device ${d.id}: ${d.name} (since ${d.revokedAt}). Its token no longer works.\n`);
+        const target = store.findDevice(chosen ?? rest[0]);
+        if (target.revokedAt) {
+          io.out(`Device ${target.id}: ${target.name} was already revoked (since ${target.revokedAt}); nothing changed.\n`);
+        } else {
+          const d = store.revokeDevice({ id: String(target.id) });
+          io.out(`Revoked device ${d.id}: ${d.name} (added ${d.createdAt}, last batch ${d.lastBatchAt ?? 'none'}, revoked ${d.revokedAt}). Its token no longer works.\n`);
+        }
       }
     } finally {
       store.close();

@@ -41,9 +41,9 @@ export function removeTempDataDirs(): void {
   for (const d of madeDirs.splice(0)) rmSync(d, { recursive: true, force: true });
 }
 
-/** Starts `office/server.ts` on `port` (0 = a free one) with `dataDir`; resolves when it listens. */
-export async function startOffice(dataDir: string, port = 0, distDir = join(REPO_ROOT, 'dist')): Promise<OfficeProcess> {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'office/server.ts', '--port', String(port), '--data', dataDir, '--dist', distDir], {
+/** Starts `office/server.ts` on `port` (0 = a free one) with `dataDir` (and any further server options); resolves when it listens. */
+export async function startOffice(dataDir: string, port = 0, distDir = join(REPO_ROOT, 'dist'), extraArgs: readonly string[] = []): Promise<OfficeProcess> {
+  const child = spawn(process.execPath, ['--import', 'tsx', 'office/server.ts', '--port', String(port), '--data', dataDir, '--dist', distDir, ...extraArgs], {
     cwd: REPO_ROOT,
     detached: true,
     stdio: ['ignore', 'pipe', 'pipe'],

@@ -98,6 +98,11 @@ describe('a record the tablet cannot keep is never skipped (Chromium)', () => {
     const b = await launchBrowser(VIEWPORTS.tabletLandscape);
     browsers.push(b);
     const page = b.context.pages()[0] ?? (await b.context.newPage());
+    // The app runs under the office's Content-Security-Policy (issue 11 item 15): nothing it does may be refused.
+    const refusals: string[] = [];
+    page.on('console', (m) => {
+      if (/Content Security Policy|Refused to/i.test(m.text())) refusals.push(m.text());
+    });
     await page.goto(office.url, { waitUntil: 'load' });
     await page.getByRole('heading', { name: 'Field sites' }).waitFor();
     await waitForServiceWorkerControl(page);
@@ -126,5 +131,9 @@ describe('a record the tablet cannot keep is never skipped (Chromium)', () => {
     await page.getByRole('button', { name: 'Sync now' }).click();
     await waitText(page, 'sync-message', /^Synced: 0 sent, \d+ received/);
     expect(await idb<string[]>(page, 'estimates')).toEqual(['bd-deep']);
+    // The site opens with its picks and estimate under the policy too.
+    await page.getByRole('button', { name: /Invented bound site/ }).first().click();
+    await page.getByRole('heading', { name: 'Invented bound site' }).waitFor();
+    expect(refusals).toEqual([]);
   }, 180_000);
 });

@@ -67,7 +67,7 @@ describe('devices', () => {
     const status = () => fetch(`${srv.url}/api/v1/status`, { headers: { Authorization: `Bearer ${token}` } });
     expect((await status()).status).toBe(200);
     const revoked = await cli(['device', 'revoke', 'Tablet 7', '--data', d]);
-    expect(revoked.out).toMatch(/^Revoked device 1: Tablet 7 \(since .+\)\. Its token no longer works\.\n$/);
+    expect(revoked.out).toMatch(/^Revoked device 1: Tablet 7 \(added .+, last batch none, revoked .+\)\. Its token no longer works\.\n$/);
     const after = await status();
     expect(after.status).toBe(401);
     expect(await after.json()).toEqual({ error: 'The device token is not valid or has been revoked; ask the office for a new one.' });
@@ -146,8 +146,10 @@ describe('server edges', () => {
     expect(await unknown.json()).toEqual({ error: 'There is no API at /api/v1/nothing; the sync API has /api/v1/status, /api/v1/push and /api/v1/pull.' });
     const wrong = await fetch(`${srv.url}/api/v1/push`, { headers: { Authorization: `Bearer ${token}` } });
     expect(wrong.status).toBe(405);
-    const pre = await fetch(`${srv.url}/api/v1/push`, { method: 'OPTIONS' });
+    // CORS answers only the office's own origin (and --allow-origin ones).
+    const pre = await fetch(`${srv.url}/api/v1/push`, { method: 'OPTIONS', headers: { Origin: srv.url } });
     expect(pre.status).toBe(204);
+    expect(pre.headers.get('access-control-allow-origin')).toBe(srv.url);
     expect(pre.headers.get('access-control-allow-headers')).toBe('Authorization, Content-Type');
     const badCursor = await fetch(`${srv.url}/api/v1/pull?since=abc`, { headers: { Authorization: `Bearer ${token}` } });
     expect(badCursor.status).toBe(400);
@@ -157,7 +159,7 @@ describe('server edges', () => {
     running.push(bare);
     const page = await fetch(bare.url);
     expect(page.status).toBe(503);
-    expect(await page.text()).toContain('Run <code>npm run build</code> in the Shearfield folder, then restart the office server.');
+    expect(await page.text()).toContain('run <code>npm run build</code> in the Shearfield folder, then restart the server.');
   });
 });
 

@@ -1,0 +1,26 @@
+/**
+ * The Content-Security-Policy of the field app, in one place for the office
+ * server's header (office/server-guards.ts) and the meta tag the build puts
+ * into index.html for static hosts (vite.config.ts). No inline script or
+ * style; the sync API may live at any office address the crew types in, so
+ * connect-src allows http: and https:. A meta tag cannot carry
+ * frame-ancestors (browsers ignore it there), so only the header has it.
+ */
+const DIRECTIVES = [
+  "default-src 'self'",
+  "script-src 'self'",
+  "style-src 'self'",
+  "img-src 'self' data: blob:",
+  "font-src 'self'",
+  "connect-src 'self' http: https:",
+  "worker-src 'self'",
+  "manifest-src 'self'",
+  "object-src 'none'",
+  "base-uri 'self'",
+  "form-action 'self'",
+];
+
+/** For the index.html meta tag. */
+export const APP_CSP_META = DIRECTIVES.join('; ');
+/** For the HTTP header. */
+export const APP_CSP = [...DIRECTIVES, "frame-ancestors 'none'"].join('; ');
