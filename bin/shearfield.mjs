@@ -1,8 +1,7 @@
 #!/usr/bin/env node
-// The office command line. The TypeScript sources run through tsx, which is
-// a runtime dependency, so `npx shearfield …` works right after npm install.
-import { register } from 'tsx/esm/api';
+// The office command line. It runs the plain JavaScript build in build/office/ (made by npm ci and
+// npm run build), or the TypeScript sources through tsx when they are newer (bin/launch.mjs).
+import { load } from './launch.mjs';
 
-register();
-const { main } = await import('../office/cli.ts');
+const { main } = await load('cli');
 process.exitCode = await main(process.argv.slice(2));

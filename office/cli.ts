@@ -3,28 +3,61 @@
  * office/commands/, turns bad input into a one-line message on stderr and a
  * non-zero exit, and never prints a stack trace for an input error.
  */
-import { readdirSync } from 'node:fs';
-import { dirname, join } from 'node:path';
+import { existsSync, readdirSync, readFileSync } from 'node:fs';
+import { dirname, extname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
 import { InputError } from '../core/shared/errors';
 import type { Command, CommandIO } from './command';
-import { busyMessage, isBusyError } from './store';
+import { busyMessage, isBusyError } from './store-busy';
 
-const commandsDir = join(dirname(fileURLToPath(import.meta.url)), 'commands');
+// The commands sit beside this file: office/commands/*.ts, or build/office/commands/*.js in the build (scripts/build-office.mjs).
+const here = fileURLToPath(import.meta.url);
+const commandsDir = join(dirname(here), 'commands');
+const commandExt = extname(here) === '.js' ? '.js' : '.ts';
 
-async function loadCommands(): Promise<Command[]> {
+/** A command as the dispatcher knows it before loading it: its name, its summary and how to load it. */
+interface CommandEntry {
+  name: string;
+  summary: string;
+  load(): Promise<Command>;
+}
+
+async function importCommand(file: string): Promise<Command | undefined> {
+  const mod = (await import(pathToFileURL(join(commandsDir, file)).href)) as { default?: Command };
+  return mod.default;
+}
+
+/**
+ * Every command. The build (scripts/build-office.mjs) writes commands.json
+ * with each command's name and summary, so that the list and one command's
+ * run load only that command; from the sources every file is imported.
+ */
+async function loadCommands(): Promise<CommandEntry[]> {
+  const manifest = join(dirname(here), 'commands.json');
+  if (commandExt === '.js' && existsSync(manifest)) {
+    const listed = JSON.parse(readFileSync(manifest, 'utf8')) as { name: string; summary: string; file: string }[];
+    return listed.map((c) => ({
+      name: c.name,
+      summary: c.summary,
+      load: async () => {
+        const command = await importCommand(c.file);
+        if (!command) throw new Error(`The built command file ${c.file} has no command; run npm run build again.`);
+        return command;
+      },
+    }));
+  }
   const files = readdirSync(commandsDir)
-    .filter((f) => f.endsWith('.ts') && !f.endsWith('.d.ts'))
+    .filter((f) => f.endsWith(commandExt) && !f.endsWith('.d.ts'))
     .sort();
-  const commands: Command[] = [];
+  const commands: CommandEntry[] = [];
   for (const f of files) {
-    const mod = (await import(pathToFileURL(join(commandsDir, f)).href)) as { default?: Command };
-    if (mod.default) commands.push(mod.default);
+    const command = await importCommand(f);
+    if (command) commands.push({ name: command.name, summary: command.summary, load: async () => command });
   }
   return commands;
 }
 
-function usage(commands: Command[]): string {
+function usage(commands: CommandEntry[]): string {
   const width = Math.max(...commands.map((c) => c.name.length));
   return [
     'Usage: shearfield <command> [options]',
@@ -85,11 +118,12 @@ export async function main(argv: string[], io: CommandIO = processIO): Promise<n
     io.out(usage(commands) + '\n');
     return name === undefined ? 2 : 0;
   }
-  const command = commands.find((c) => c.name === name);
-  if (!command) {
+  const entry = commands.find((c) => c.name === name);
+  if (!entry) {
     io.err(`shearfield: unknown command "${name}". Commands: ${commands.map((c) => c.name).join(', ')}.\n`);
     return 2;
   }
+  const command = await entry.load();
   if (rest.includes('--help') || rest.includes('-h')) {
     io.out(command.help.trimEnd() + '\n');
     return 0;

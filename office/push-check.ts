@@ -6,7 +6,7 @@
  * on meanwhile. Smaller bodies are checked in place. Either way the result
  * is the same: the checked push, or the same InputError / HttpError.
  */
-import { readFileSync } from 'node:fs';
+import { existsSync, readFileSync } from 'node:fs';
 import { dirname, extname, join } from 'node:path';
 import { createRequire } from 'node:module';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -77,7 +77,8 @@ function spawnWorker(): Worker {
   const here = fileURLToPath(import.meta.url);
   const ext = extname(here);
   const file = new URL(`./push-check-worker${ext}`, import.meta.url);
-  if (ext !== '.ts') return new Worker(file);
+  // In the build this code may sit in build/office/chunks/, one folder below the worker.
+  if (ext !== '.ts') return new Worker(existsSync(file) ? file : new URL(`../push-check-worker${ext}`, import.meta.url));
   // The ES module entry of tsx/esm/api, found through tsx's own package.json exports.
   const pkgFile = createRequire(import.meta.url).resolve('tsx/package.json');
   const pkg = JSON.parse(readFileSync(pkgFile, 'utf8')) as { exports: Record<string, { import: { default: string } }> };

@@ -411,7 +411,11 @@ function seconds(text: string | undefined, name: string, fallbackMs: number, min
   return Math.round(v * 1000);
 }
 
-async function main(argv: string[]): Promise<number> {
+/**
+ * `npm run office -- …`: parses the options, starts the server and prints
+ * where it listens. Resolves to an exit code, or -1 while the server runs.
+ */
+export async function runServerCommand(argv: string[]): Promise<number> {
   let values: ReturnType<typeof parseOptions>['values'];
   try {
     ({ values } = parseOptions(argv));
@@ -509,6 +513,6 @@ function parseOptions(argv: string[]) {
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(resolve(process.argv[1])).href) {
-  const code = await main(process.argv.slice(2));
+  const code = await runServerCommand(process.argv.slice(2));
   if (code >= 0) process.exit(code);
 }

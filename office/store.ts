@@ -44,6 +44,9 @@ import type { AnyRecord } from '../core/exchange/records';
 import { revisionKey } from '../core/exchange/revision';
 import { planMerge, type MergePlan } from '../core/exchange/sync';
 import { checkSiteReferences } from '../core/exchange/bundle';
+import { DEFAULT_BUSY_TIMEOUT_MS } from './store-busy';
+
+export { busyMessage, DEFAULT_BUSY_TIMEOUT_MS, isBusyError } from './store-busy';
 
 /** Default data folder (relative to the working directory); gitignored. */
 export const DEFAULT_DATA_DIR = '.office-data';
@@ -162,9 +165,6 @@ function checkDeviceName(name: unknown): string {
   return name;
 }
 
-/** How long a command waits for another writer (the server, another command) before giving up, ms. */
-export const DEFAULT_BUSY_TIMEOUT_MS = 30_000;
-
 export interface StoreOpenOptions {
   /** Create the folder and the file when missing. @default false */
   create?: boolean;
@@ -174,17 +174,6 @@ export interface StoreOpenOptions {
    * retries without blocking (office/server.ts). @default DEFAULT_BUSY_TIMEOUT_MS
    */
   busyTimeoutMs?: number;
-}
-
-/** True for SQLite's "another connection holds the lock" errors (SQLITE_BUSY…, SQLITE_LOCKED…). */
-export function isBusyError(e: unknown): boolean {
-  const code = (e as { code?: unknown } | null)?.code;
-  return typeof code === 'string' && (code.startsWith('SQLITE_BUSY') || code.startsWith('SQLITE_LOCKED'));
-}
-
-/** The sentence a command prints when the store stayed locked by another writer past the busy timeout. */
-export function busyMessage(waitMs = DEFAULT_BUSY_TIMEOUT_MS): string {
-  return `The office store stayed busy with another writer (the office server or another shearfield command) for ${Math.round(waitMs / 1000)} s, so this step saved nothing; try again.`;
 }
 
 /** Makes the store file and its -wal and -shm files readable by their owner only, where they exist and we may. */

@@ -48,5 +48,31 @@ export default async function (): Promise<BenchResult[]> {
     }
   }
 
+  // CLI start-up: a new process each time, as `npx shearfield --help` runs it.
+  const build = spawnSync(process.execPath, ['scripts/build-office.mjs'], { cwd: ROOT, encoding: 'utf8' });
+  if (build.status !== 0) throw new Error(`scripts/build-office.mjs failed: ${build.stderr}`);
+  const run = (args: string[], env: NodeJS.ProcessEnv = process.env) => () => {
+    const r = spawnSync(process.execPath, args, { cwd: ROOT, env, encoding: 'utf8' });
+    if (r.status !== 0) throw new Error(`${args.join(' ')} exited ${r.status}: ${r.stderr}`);
+  };
+  results.push(
+    await bench('CLI start-up: shearfield --help (built JavaScript)', run(['bin/shearfield.mjs', '--help']), {
+      samples: 15,
+      warmup: 2,
+      target_ms: 300,
+      note: 'node bin/shearfield.mjs --help, a new process per call; build/office/ from npm ci / npm run build',
+    }),
+  );
+  results.push(
+    await bench('CLI start-up: node -e 0 (for comparison)', run(['-e', '0']), { samples: 15, warmup: 2, note: 'the bare Node start on this machine now: the floor of the figure above' }),
+  );
+  results.push(
+    await bench('CLI start-up: shearfield --help from the TypeScript sources (tsx)', run(['bin/shearfield.mjs', '--help'], { ...process.env, SHEARFIELD_FROM_SOURCE: '1' }), {
+      samples: 7,
+      warmup: 1,
+      note: 'SHEARFIELD_FROM_SOURCE=1, as while developing (for comparison)',
+    }),
+  );
+
   return results;
 }
