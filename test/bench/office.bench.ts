@@ -14,6 +14,7 @@ import { tmpdir } from 'node:os';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import type { AnyRecord } from '../../core/exchange/records';
+import { startOfficeServer } from '../../office/server';
 import { OfficeStore } from '../../office/store';
 import { bench, type BenchResult } from './harness';
 
@@ -46,6 +47,45 @@ export default async function (): Promise<BenchResult[]> {
       store.close();
       rmSync(dir, { recursive: true, force: true });
     }
+  }
+
+  // Other requests during a big push: status answers while one push of 40,000 picks (about 10 MiB) is received, checked (worker thread) and written.
+  {
+    const dir = mkdtempSync(join(tmpdir(), 'shearfield-bench-big-'));
+    const store = OfficeStore.open(dir, { create: true });
+    const { token } = store.addDevice('bench-tablet');
+    store.close();
+    const srv = await startOfficeServer({ port: 0, dataDir: dir, distDir: join(dir, 'no-app') });
+    const site = { type: 'site', id: 'bench-site', rev: 1, updatedAt: T, name: 'Invented bench site', date: '2026-05-04', crew: '', notes: '', axisUnit: 'hz', settings: {} };
+    const body = JSON.stringify({ batchId: 'big', records: [site, ...picks('big', 40_000)] });
+    const waits: number[] = [];
+    let pushing = true;
+    const push = fetch(`${srv.url}/api/v1/push`, { method: 'POST', headers: { Authorization: `Bearer ${token}` }, body }).then(async (r) => {
+      await r.arrayBuffer();
+      pushing = false;
+      if (r.status !== 200) throw new Error(`push answered ${r.status}`);
+    });
+    const t0 = performance.now();
+    while (pushing) {
+      const t = performance.now();
+      await (await fetch(`${srv.url}/api/v1/status`, { headers: { Authorization: `Bearer ${token}` } })).arrayBuffer();
+      waits.push(performance.now() - t);
+      await new Promise((ok) => setTimeout(ok, 10));
+    }
+    await push;
+    const total = performance.now() - t0;
+    await srv.close();
+    rmSync(dir, { recursive: true, force: true });
+    waits.sort((a, b) => a - b);
+    const q = (p: number) => waits[Math.min(waits.length - 1, Math.floor(p * (waits.length - 1)))];
+    results.push({
+      name: 'status answers during one 40,000-pick push (about 10 MiB)',
+      median_ms: q(0.5),
+      p10_ms: q(0.1),
+      p90_ms: q(0.9),
+      samples: waits.length,
+      note: `longest wait ${waits[waits.length - 1].toFixed(0)} ms; the push took ${total.toFixed(0)} ms; parsing and checks run in a worker thread, the merge and SQLite write on the main thread`,
+    });
   }
 
   // CLI start-up: a new process each time, as `npx shearfield --help` runs it.
