@@ -94,6 +94,11 @@ describe('phones: 390×844, touch, device scale 2', () => {
           await openView(v);
           const w = await sideways();
           expect(w.scrollWidth, `${site} / ${v} / ${theme}: ${w.outside.join('; ')}`).toBeLessThanOrEqual(w.clientWidth);
+          // No table hides a column behind a sideways swipe either.
+          const tables = await page.evaluate(() =>
+            Array.from(document.querySelectorAll('.table-wrap')).map((t) => [t.scrollWidth, t.clientWidth, t.querySelector('table')?.className ?? '']),
+          );
+          for (const [sw, cw, name] of tables) expect(Number(sw), `${site} / ${v} / ${theme}: table ${name}`).toBeLessThanOrEqual(Number(cw));
         }
       }
     }
@@ -102,7 +107,7 @@ describe('phones: 390×844, touch, device scale 2', () => {
     const w = await sideways();
     expect(w.scrollWidth, `sites: ${w.outside.join('; ')}`).toBeLessThanOrEqual(w.clientWidth);
     await page.getByRole('button', { name: 'Sunlight contrast' }).click();
-  });
+  }, 120_000);
 
   it('2. the picks table fits without a sideways swipe, and the plot stays in view while a pick is typed', async () => {
     await page.locator('.site-card', { hasText: 'Invented demo:' }).click();

@@ -115,8 +115,14 @@ export function PicksTable(props: PicksTableProps) {
           <thead>
             <tr>
               <th scope="col">No.</th>
-              <th scope="col">{absLabel}</th>
-              <th scope="col">Velocity (m/s)</th>
+              <th scope="col">
+                <span class="long-label">{absLabel}</span>
+                <span class="short-label">{props.unit === 's' ? 'T (s)' : 'f (Hz)'}</span>
+              </th>
+              <th scope="col">
+                <span class="long-label">Velocity (m/s)</span>
+                <span class="short-label">v (m/s)</span>
+              </th>
               <th scope="col">sd (m/s)</th>
               <th scope="col">Kind, mode, wave</th>
               <th scope="col" aria-label="Remove"></th>
