@@ -10,12 +10,15 @@
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it, vi } from 'vitest';
 import { CAUTION } from '../../../core/shared/caution';
 import { picksToCsv } from '../../../core/picks/picks';
 import { main } from '../../../office/cli';
 import { vpFromPoisson } from '../../../core/profile/p-speed';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks, softSitePicks } from '../../fixtures';
+
+// Whole estimates (search, refinement, ensemble) run here: generous time on a busy 2-core machine; speed is measured by the bench, not here.
+vi.setConfig({ testTimeout: 180_000 });
 
 let dir = '';
 let good = '';

@@ -9,7 +9,7 @@
  * test/reference/love-thin-layer.test.ts); the models are invented
  * (test/fixtures.ts).
  */
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { CAUTION } from '../../../../core/shared/caution';
 import { estimateProfile, type ProfileOptions } from '../../../../core/profile/profile-estimate';
 import { profileJson } from '../../../../core/profile/profile-json';
@@ -17,6 +17,9 @@ import { mulberry32 } from '../../../../core/shared/random';
 import { vpFromPoisson } from '../../../../core/profile/p-speed';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../../../fixtures';
 import { inputError } from '../../../input-error';
+
+// Whole estimates (search, refinement, ensemble) run here: generous time on a busy 2-core machine; speed is measured by the bench, not here.
+vi.setConfig({ testTimeout: 180_000 });
 
 const TRUE = INVENTED_TWO_LAYER_SITE;
 const exact = layeredPicks(TRUE, 'love', 30, 3, 50);

@@ -7,13 +7,16 @@
  * result when another site opens.
  */
 import 'fake-indexeddb/auto';
-import { afterEach, describe, expect, it } from 'vitest';
+import { afterEach, describe, expect, it, vi } from 'vitest';
 import { estimateProfile, type ProfileResult } from '../../../../../core/profile/profile-estimate';
 import { openFieldStore, type FieldStore } from '../../../../../pwa/store';
 import { AppController } from '../../../../../pwa/ui/controllers/app-controller';
 import { NEW_ROW } from '../../../../../pwa/ui/controllers/app-state';
 import type { ProfileRunner } from '../../../../../pwa/ui/controllers/profile-controller';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../../../../fixtures';
+
+// Whole estimates (search, refinement, ensemble) run here: generous time on a busy 2-core machine; speed is measured by the bench, not here.
+vi.setConfig({ testTimeout: 180_000 });
 
 let dbCount = 0;
 let store: FieldStore;
