@@ -15,6 +15,7 @@ import { settingText, SETTING_FIELDS, type SettingKey } from '../controllers/for
 import { num } from './format';
 import { MisfitMapView } from '../charts/misfit-map';
 import { LEVEL_WORDS } from './verdict-text';
+import { handEntryMessage } from '../controllers/app-state';
 import type { EstimateState, SiteFormError } from '../controllers/app-state';
 
 export interface EstimateViewProps {
@@ -177,7 +178,8 @@ export function EstimateResultView(props: { r: EstimateResult; slice?: MisfitSli
         <h3 id="diag-h">What the picks say (most serious first)</h3>
         <ul class="plain diag">
           {r.warnings.map((w, i) => (
-            <li key={i}>{w}</li>
+            // The crew reads column words here too ("sd", not the CSV name sd_m_s).
+            <li key={i}>{handEntryMessage(w)}</li>
           ))}
         </ul>
       </section>
