@@ -33,6 +33,12 @@ import {
 import { checkPullQuery } from '../core/exchange/sync-protocol-check';
 import { checkPush, HttpError, stopPushChecks } from './push-check';
 import { allowedHostNames, answerAndClose, API_CSP, APP_CSP, COMMON_HEADERS, corsHeaders, hostAllowed, normaliseOrigin, readBody } from './server-guards';
+import {
+  checkRecordingsPullQuery,
+  checkRecordingsPushBody,
+  type RecordingsPullResponse,
+  type RecordingsPushResponse,
+} from '../core/exchange/recording-sync';
 import { DEFAULT_DATA_DIR, isBusyError, OfficeStore } from './store';
 
 /** Defaults of `npm run office`. */
@@ -186,6 +192,10 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, ct
     return;
   }
   const path = url.pathname.slice(API_PREFIX.length);
+  if (path === '/recordings') {
+    await handleRecordings(req, res, url, ctx, device.name, cors);
+    return;
+  }
   const method = API_METHODS[path];
   if (method === undefined) {
     refuse(req, res, 404, `There is no API at ${url.pathname}; the sync API has ${API_PREFIX}/status, ${API_PREFIX}/push and ${API_PREFIX}/pull.`, cors);
@@ -243,6 +253,32 @@ async function handleApi(req: IncomingMessage, res: ServerResponse, url: URL, ct
     if (left > 0) ctx.activePushes.set(device.id, left);
     else ctx.activePushes.delete(device.id);
   }
+}
+
+/** GET and POST /recordings (core/exchange/recording-sync.ts): seismograph recordings and their raw files. */
+async function handleRecordings(req: IncomingMessage, res: ServerResponse, url: URL, ctx: ApiContext, source: string, cors: Record<string, string>): Promise<void> {
+  const { store } = ctx;
+  if (req.method === 'GET') {
+    const page = store.pullRecordings(checkRecordingsPullQuery(url.searchParams).since);
+    const body: RecordingsPullResponse = { recordings: page.recordings, files: page.files, cursor: String(page.cursor), more: page.more };
+    sendJson(res, 200, body, cors);
+    return;
+  }
+  if (req.method !== 'POST') {
+    refuse(req, res, 405, `${req.method} is not allowed on ${url.pathname}; use GET or POST.`, { Allow: 'GET, POST', ...cors });
+    return;
+  }
+  const raw = await readBody(req, MAX_PUSH_BYTES, ctx.bodyTimeoutMs);
+  let data: unknown;
+  try {
+    data = JSON.parse(raw.toString('utf8'));
+  } catch {
+    throw new HttpError(400, 'The request body is not valid JSON; nothing was saved.');
+  }
+  const push = checkRecordingsPushBody(data);
+  const result = await whenStoreFree(() => store.applyRecordings(push.recordings, push.files, source), ctx.writeWaitMs);
+  const body: RecordingsPushResponse = { accepted: result.accepted, ignored: result.ignored, conflicts: result.conflicts, cursor: String(result.cursor) };
+  sendJson(res, 200, body, cors);
 }
 
 function serveApp(req: IncomingMessage, res: ServerResponse, url: URL, distDir: string): void {

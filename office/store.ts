@@ -40,7 +40,9 @@ import { createHash, randomBytes } from 'node:crypto';
 import { chmodSync, closeSync, existsSync, mkdirSync, openSync, statSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { InputError, describeValue } from '../core/shared/errors';
-import type { AnyRecord } from '../core/exchange/records';
+import type { AnyRecord, RecordingRecord } from '../core/exchange/records';
+import type { RecordingFile } from '../core/exchange/bundle';
+import { MAX_ATTACHED_FILE_BYTES, MAX_RECORDINGS_PAGE_BYTES, MAX_RECORDINGS_PER_PUSH } from '../core/exchange/recording-sync';
 import { revisionKey } from '../core/exchange/revision';
 import { planMerge, type MergePlan } from '../core/exchange/sync';
 import { checkSiteReferences } from '../core/exchange/bundle';
@@ -115,6 +117,22 @@ const MIGRATIONS: readonly string[] = [
     FROM batches;
   DROP TABLE batches;
   ALTER TABLE batches_v2 RENAME TO batches;
+  `,
+  `
+  CREATE TABLE recordings (
+    id TEXT PRIMARY KEY,
+    site_id TEXT NOT NULL,
+    rev INTEGER NOT NULL,
+    rev_key TEXT NOT NULL,
+    deleted INTEGER NOT NULL DEFAULT 0,
+    seq INTEGER NOT NULL UNIQUE,
+    body TEXT NOT NULL
+  );
+  CREATE TABLE recording_files (
+    id TEXT PRIMARY KEY,
+    sha256 TEXT NOT NULL,
+    bytes BLOB NOT NULL
+  );
   `,
 ];
 
@@ -463,6 +481,96 @@ export class OfficeStore {
   conflicted(): AnyRecord[] {
     const rows = this.db.prepare('SELECT body FROM records WHERE conflicts > 0 ORDER BY seq').all() as { body: string }[];
     return rows.map((r) => JSON.parse(r.body) as AnyRecord);
+  }
+
+  // --- recordings (core/exchange/recording-sync.ts) --------------------------
+
+  /**
+   * Merges pushed recording records with the core rules and keeps their raw
+   * files, in one `BEGIN IMMEDIATE` transaction. Each recording's site must
+   * be in the store; a file is kept only when its SHA-256 (checked here) is
+   * the one its stored recording states. A refused push writes nothing.
+   */
+  applyRecordings(
+    recordings: readonly RecordingRecord[],
+    files: readonly { id: string; sha256: string; bytes: Uint8Array }[],
+    source: string,
+  ): { accepted: number; ignored: number; conflicts: number; cursor: number } {
+    files.forEach((f, i) => {
+      if (createHash('sha256').update(f.bytes).digest('hex') !== f.sha256) {
+        throw new InputError(`files[${i}]`, `files[${i}] does not have the SHA-256 its recording states; the file was changed on the way.`);
+      }
+    });
+    const isSite = this.db.prepare("SELECT 1 FROM records WHERE id = ? AND type = 'site' AND deleted = 0");
+    const getBody = this.db.prepare('SELECT body FROM recordings WHERE id = ?');
+    const upsert = this.db.prepare(
+      `INSERT INTO recordings (id, site_id, rev, rev_key, deleted, seq, body) VALUES (@id, @siteId, @rev, @key, @deleted, @seq, @body)
+       ON CONFLICT (id) DO UPDATE SET site_id = excluded.site_id, rev = excluded.rev, rev_key = excluded.rev_key,
+         deleted = excluded.deleted, seq = excluded.seq, body = excluded.body`,
+    );
+    const hasFile = this.db.prepare('SELECT 1 FROM recording_files WHERE id = ?');
+    const putFile = this.db.prepare('INSERT INTO recording_files (id, sha256, bytes) VALUES (?, ?, ?)');
+    const dropFile = this.db.prepare('DELETE FROM recording_files WHERE id = ?');
+    return this.db
+      .transaction(() => {
+        recordings.forEach((r, i) => {
+          if (isSite.get(r.siteId) === undefined) {
+            throw new InputError(`recordings[${i}].siteId`, `The recording recordings[${i}] (${JSON.stringify(r.id)}) belongs to site ${describeValue(r.siteId)}, which is not in the office store; sync the site first.`);
+          }
+        });
+        const lookup = (id: string) => {
+          const row = getBody.get(id) as { body: string } | undefined;
+          return row ? (JSON.parse(row.body) as AnyRecord) : undefined;
+        };
+        const plan = planMerge(recordings as unknown as AnyRecord[], lookup, { from: source });
+        let seq = (this.db.prepare('SELECT COALESCE(MAX(seq), 0) AS c FROM recordings').get() as { c: number }).c;
+        for (const w of plan.writes as unknown as RecordingRecord[]) {
+          seq += 1;
+          upsert.run({ id: w.id, siteId: w.siteId, rev: w.rev, key: revisionKey(w), deleted: w.deleted ? 1 : 0, seq, body: JSON.stringify(w) });
+          if (w.deleted) dropFile.run(w.id);
+        }
+        for (const f of files) {
+          const stored = lookup(f.id) as unknown as RecordingRecord | undefined;
+          if (!stored || stored.deleted || stored.sha256 !== f.sha256 || hasFile.get(f.id) !== undefined) continue;
+          putFile.run(f.id, f.sha256, Buffer.from(f.bytes.buffer, f.bytes.byteOffset, f.bytes.byteLength));
+        }
+        return { accepted: plan.accepted, ignored: plan.ignored, conflicts: plan.conflicts, cursor: seq };
+      })
+      .immediate();
+  }
+
+  /**
+   * Recordings changed after `since`, oldest first, with the raw file of
+   * each live recording whose site chose to send it (attach) and that the
+   * office holds, up to MAX_RECORDINGS_PAGE_BYTES of files per page (the
+   * first file always goes; a file over MAX_ATTACHED_FILE_BYTES never does).
+   */
+  pullRecordings(since: number): { recordings: RecordingRecord[]; files: RecordingFile[]; cursor: number; more: boolean } {
+    const rows = this.db.prepare('SELECT seq, body FROM recordings WHERE seq > ? ORDER BY seq LIMIT ?').all(since, MAX_RECORDINGS_PER_PUSH + 1) as {
+      seq: number;
+      body: string;
+    }[];
+    const getFile = this.db.prepare('SELECT sha256, bytes FROM recording_files WHERE id = ?');
+    const recordings: RecordingRecord[] = [];
+    const files: RecordingFile[] = [];
+    let bytes = 0;
+    let cursor = since;
+    let more = rows.length > MAX_RECORDINGS_PER_PUSH;
+    for (const row of rows.slice(0, MAX_RECORDINGS_PER_PUSH)) {
+      const rec = JSON.parse(row.body) as RecordingRecord;
+      const file = rec.attach && !rec.deleted && rec.byteLength <= MAX_ATTACHED_FILE_BYTES ? (getFile.get(rec.id) as { sha256: string; bytes: Buffer } | undefined) : undefined;
+      if (file && recordings.length > 0 && bytes + file.bytes.length > MAX_RECORDINGS_PAGE_BYTES) {
+        more = true;
+        break;
+      }
+      recordings.push(rec);
+      if (file) {
+        files.push({ id: rec.id, sha256: file.sha256, bytes_base64: file.bytes.toString('base64') });
+        bytes += file.bytes.length;
+      }
+      cursor = row.seq;
+    }
+    return { recordings, files, cursor, more };
   }
 
   /** Counts for status lines. */

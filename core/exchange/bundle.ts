@@ -259,6 +259,32 @@ export function checkRecord(value: unknown, where: string): AnyRecord {
 }
 
 /**
+ * Checks one recording record from an outside source (a sync push) against
+ * the bundle schema and the recording rules; `where` names it. Throws
+ * InputError.
+ */
+export function checkRecordingRecord(value: unknown, where: string): RecordingRecord {
+  const lead = 'The record is not valid';
+  if (value === null || typeof value !== 'object' || Array.isArray(value)) {
+    throw new InputError(where, `${lead}: ${where} must be an object, but it is ${describeValue(value)}.`);
+  }
+  checkRecordLimits(value, where);
+  const validate = compiled().recording;
+  if (!validate(value)) throw schemaMessage(validate.errors![0], where, lead);
+  const rec = value as RecordingRecord;
+  for (const [version, at] of [[rec, where], ...(rec.conflicts ?? []).map((c, k) => [c.record, `${where}.conflicts[${k}].record`])] as [RecordingRecord, string][]) {
+    try {
+      checkRecordingFields(version as unknown as Record<string, unknown>);
+    } catch (e) {
+      if (e instanceof InputError) throw new InputError(`${at}.${e.field}`, `${lead}: in ${at}, ${e.message.charAt(0).toLowerCase()}${e.message.slice(1)}`);
+      throw e;
+    }
+  }
+  checkConflictKeys(rec as unknown as AnyRecord, where);
+  return rec;
+}
+
+/**
  * The reference rule every batch from outside meets, a sync push and a
  * bundle alike: a pick or an estimate (and each version its conflicts list
  * carries) belongs to a site that is in the same batch or already stored

@@ -38,6 +38,7 @@ import { InputError } from '../../core/shared/errors';
 import { hasConflicts, planMerge } from '../../core/exchange/sync';
 import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/exchange/sync-protocol';
 import { StoreError, type FieldStore } from '../store';
+import { pullRecordings, pushRecordings, RECORDINGS_CURSOR_KEY } from './recording-sync';
 import { checkRecord as checkFieldRecord } from '../store/validate';
 
 /** Settings keys in the field store. */
@@ -304,7 +305,10 @@ export class SyncClient {
     const previous = await this.store.getSetting<string>(SYNC_KEYS.serverUrl);
     await this.store.putSetting(SYNC_KEYS.serverUrl, serverUrl);
     await this.store.putSetting(SYNC_KEYS.token, t);
-    if (previous !== serverUrl) await this.store.putSetting(SYNC_KEYS.cursor, '0');
+    if (previous !== serverUrl) {
+      await this.store.putSetting(SYNC_KEYS.cursor, '0');
+      await this.store.putSetting(RECORDINGS_CURSOR_KEY, '0');
+    }
     await this.store.putSetting(SYNC_KEYS.lastError, '');
     await this.refresh();
     return device;
@@ -326,6 +330,7 @@ export class SyncClient {
     await this.store.putSetting(SYNC_KEYS.serverUrl, '');
     await this.store.putSetting(SYNC_KEYS.token, '');
     await this.store.putSetting(SYNC_KEYS.cursor, '0');
+    await this.store.putSetting(RECORDINGS_CURSOR_KEY, '0');
     await this.refresh();
   }
 
@@ -367,9 +372,19 @@ export class SyncClient {
       const push = await this.push(serverUrl, token);
       pushed = push.pushed;
       conflicts += push.conflicts;
+      // Seismograph recordings after the records (their sites must reach the office first); see recording-sync.ts.
+      const call = <T>(method: 'GET' | 'POST', path: string, body?: unknown) => this.request<T>(serverUrl, token, method, path, body);
+      const all = await this.store.allRecords();
+      const held = (await this.store.getSetting<string>(SYNC_KEYS.includeDemo)) === 'yes' ? new Set<string>() : demoRecordIds(all);
+      const pushedRecordings = await pushRecordings(this.store, call, held);
+      pushed += pushedRecordings.pushed;
+      conflicts += pushedRecordings.conflicts;
       const pull = await this.pull(serverUrl, token);
       pulled = pull.pulled;
       conflicts += pull.conflicts;
+      const pulledRecordings = await pullRecordings(this.store, call);
+      pulled += pulledRecordings.pulled;
+      conflicts += pulledRecordings.conflicts;
       this.failures = 0;
       await this.store.putSetting(SYNC_KEYS.lastSuccess, this.now().toISOString());
       await this.store.putSetting(SYNC_KEYS.lastError, '');
@@ -447,7 +462,7 @@ export class SyncClient {
     const orphanSeqs: number[] = [];
     for (const e of entries) {
       if (held.has(e.recordId)) continue;
-      // Recordings wait in the outbox until the office protocol carries them; they are not dropped as orphans.
+      // Recordings go by their own call after the records (pushRecordings); they are not dropped as orphans here.
       if (e.type === 'recording') continue;
       const rec = byId.get(e.recordId);
       if (!rec || rec.rev < e.rev) {

@@ -75,7 +75,7 @@ describe('keeping a recording with its site', () => {
     expect(await store.recordingBytes(rec.id)).toEqual(bytes);
     const queued = (await store.outbox()).slice(before);
     expect(queued.map((q) => [q.recordId, q.type, q.rev])).toEqual([[rec.id, 'recording', 1]]);
-    // The record is kept apart from sync's record list until the office protocol carries recordings.
+    // Recordings are not in the record list; they sync by their own call (pwa/sync/recording-sync.ts).
     expect((await store.allRecords()).some((r) => r.id === rec.id)).toBe(false);
   });
 
