@@ -373,7 +373,7 @@ export class SyncClient {
       pushed = push.pushed;
       conflicts += push.conflicts;
       // Seismograph recordings after the records (their sites must reach the office first); see recording-sync.ts.
-      const call = <T>(method: 'GET' | 'POST', path: string, body?: unknown) => this.request<T>(serverUrl, token, method, path, body);
+      const call = <T>(method: 'GET' | 'POST', path: string, body?: unknown) => this.request<T | undefined>(serverUrl, token, method, path, body, true);
       const all = await this.store.allRecords();
       const held = (await this.store.getSetting<string>(SYNC_KEYS.includeDemo)) === 'yes' ? new Set<string>() : demoRecordIds(all);
       const pushedRecordings = await pushRecordings(this.store, call, held);
@@ -412,7 +412,7 @@ export class SyncClient {
   }
 
   /** One HTTP call; turns every failure into a SyncError in plain words. */
-  private async request<T>(serverUrl: string, token: string, method: 'GET' | 'POST', path: string, body?: unknown): Promise<T> {
+  private async request<T>(serverUrl: string, token: string, method: 'GET' | 'POST', path: string, body?: unknown, optional = false): Promise<T> {
     const controller = new AbortController();
     const timer = setTimeout(() => controller.abort(), this.opts.requestTimeoutMs);
     let res: Response;
@@ -441,6 +441,8 @@ export class SyncClient {
       throw new SyncError(`${serverUrl} answered, but not like a Shearfield office server (HTTP ${res.status}). Check the address.`, res.status >= 500);
     }
     if (res.ok) return data as T;
+    // An office from before a call was added answers 404: an optional call then has nothing to do.
+    if (optional && res.status === 404) return undefined as T;
     const said = (data as ErrorResponse | null)?.error;
     if (res.status === 401) {
       throw new SyncError('The office did not accept this tablet\'s token (unknown or revoked). Ask the office for a new one (shearfield device add) and enter it in the sync settings.', false);

@@ -20,8 +20,12 @@ import { planMerge } from '../../core/exchange/sync';
 import type { FieldStore } from '../store';
 import { sha256Hex } from '../store/recordings';
 
-/** One call to the office: the sync client's own request (auth, timeouts, plain-word errors). */
-export type OfficeCall = <T>(method: 'GET' | 'POST', path: string, body?: unknown) => Promise<T>;
+/**
+ * One call to the office: the sync client's own request (auth, timeouts,
+ * plain-word errors); undefined when the office does not have the call (an
+ * office from before recordings travelled: they then stay queued).
+ */
+export type OfficeCall = <T>(method: 'GET' | 'POST', path: string, body?: unknown) => Promise<T | undefined>;
 
 /** The setting that holds the recordings pull cursor (reset with the records cursor). */
 export const RECORDINGS_CURSOR_KEY = 'sync.recordingsCursor';
@@ -55,24 +59,34 @@ export async function pushRecordings(store: FieldStore, call: OfficeCall, heldSi
   const flush = async () => {
     if (batch.length === 0) return;
     const reply = await call<RecordingsPushResponse>('POST', '/api/v1/recordings', { recordings: batch, files });
+    if (!reply) {
+      // The office does not take recordings yet: they stay queued for a later sync.
+      batch = [];
+      files = [];
+      bytes = 0;
+      return false;
+    }
     await store.ackOutbox(batch.flatMap((r) => seqsOf.get(r.id) ?? []));
     pushed += batch.length;
     conflicts += reply.conflicts;
     batch = [];
     files = [];
     bytes = 0;
+    return true;
   };
   for (const id of seqsOf.keys()) {
     const rec = byId.get(id)!;
     const raw = rec.attach && !rec.deleted && rec.byteLength <= MAX_ATTACHED_FILE_BYTES ? await store.recordingBytes(id) : undefined;
-    if (batch.length >= MAX_RECORDINGS_PER_PUSH || (batch.length > 0 && raw && bytes + raw.byteLength > MAX_RECORDINGS_PAGE_BYTES)) await flush();
+    if (batch.length >= MAX_RECORDINGS_PER_PUSH || (batch.length > 0 && raw && bytes + raw.byteLength > MAX_RECORDINGS_PAGE_BYTES)) {
+      if (!(await flush())) return { pushed, conflicts };
+    }
     batch.push(rec);
     if (raw) {
       files.push({ id, sha256: rec.sha256, bytes_base64: toBase64(raw) });
       bytes += raw.byteLength;
     }
   }
-  await flush();
+  if (!(await flush())) return { pushed, conflicts };
   if (orphans.length > 0) await store.ackOutbox(orphans);
   return { pushed, conflicts };
 }
@@ -90,8 +104,10 @@ export async function pullRecordings(store: FieldStore, call: OfficeCall): Promi
   let conflicts = 0;
   for (;;) {
     const page = await call<RecordingsPullResponse>('GET', `/api/v1/recordings?since=${encodeURIComponent(cursor)}`);
+    // An office without recordings (404, or an answer without a recordings list) has nothing to send.
+    if (!page || !Array.isArray(page.recordings)) return { pulled, conflicts };
     const files = new Map<string, { sha256: string; bytes: Uint8Array }>();
-    for (const [i, f] of page.files.entries()) {
+    for (const [i, f] of (Array.isArray(page.files) ? page.files : []).entries()) {
       const bytes = fromBase64(f.bytes_base64, `files[${i}].bytes_base64`).slice();
       if ((await sha256Hex(bytes)) !== f.sha256) {
         throw new Error(`the office sent a raw file (recording ${JSON.stringify(f.id)}) whose bytes do not have the SHA-256 its recording states; nothing of it was stored`);
