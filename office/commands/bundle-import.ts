@@ -7,6 +7,7 @@ import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import { randomUUID } from 'node:crypto';
 import { importSummary, MAX_BUNDLE_CHARS, parseBundle, bundleRecords } from '../../core/exchange/bundle';
+import { fromBase64 } from '../../core/exchange/base64';
 import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { busyMessage, DEFAULT_BUSY_TIMEOUT_MS, DEFAULT_DATA_DIR, isBusyError, OfficeStore } from '../store';
@@ -80,6 +81,18 @@ const bundleImport: Command = {
           throw e;
         }
         io.out(`${basename(path)}: ${importSummary(bundle, result.plan)}\n`);
+        if (bundle.recordings && bundle.recordings.length > 0) {
+          // Seismograph file records (and the raw files the site chose to send), after their sites.
+          const files = (bundle.recordingFiles ?? []).map((f, i) => ({ id: f.id, sha256: f.sha256, bytes: fromBase64(f.bytes_base64, `recordingFiles[${i}].bytes_base64`) }));
+          try {
+            const rec = store.applyRecordings(bundle.recordings, files, source);
+            io.out(`${basename(path)}: ${bundle.recordings.length} seismograph file record(s), ${files.length} with the raw file: ${rec.accepted} new or newer, ${rec.ignored} already here or older${rec.conflicts > 0 ? `, ${rec.conflicts} conflict(s) kept for review` : ''}.\n`);
+          } catch (e) {
+            if (isBusyError(e)) throw new InputError(path, `${basename(path)}: the sites, picks and estimates are imported, but not its seismograph files: ${busyMessage(waitMs)}`);
+            if (e instanceof InputError) throw new InputError(e.field, `${basename(path)}: the sites, picks and estimates are imported, but not its seismograph files: ${e.message}`);
+            throw e;
+          }
+        }
       }
     } finally {
       store.close();

@@ -16,8 +16,11 @@ import { geometrySummary } from '../../core/recordings/recording';
 import { readRecording } from '../../core/recordings/read';
 import { writeSeg2 } from '../../core/recordings/seg2-write';
 import { newSite, openFieldStore, type FieldStore } from '../../pwa/store';
+import { exportBundle } from '../../pwa/sync/bundle-io';
 import { SyncClient } from '../../pwa/sync/client';
-import { addDevice, query, removeTempDataDirs, snapshot, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { addDevice, cli, query, removeTempDataDirs, snapshot, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
 
 const stores: FieldStore[] = [];
 const offices: OfficeProcess[] = [];
@@ -123,5 +126,21 @@ describe('recordings through the office', () => {
       `The recording recordings[0] (${JSON.stringify(rec.id)}) belongs to site "no-such-site", which is not in the office store; sync the site first. Nothing was saved.`,
     );
     expect(snapshot(data)).toBe(before);
+  }, 60_000);
+
+  it('shearfield bundle-import keeps the seismograph file records of a bundle and the raw files it carries', async () => {
+    const a = await tablet();
+    const site = await a.saveSite(newSite({ name: 'Invented site: office import', date: '2026-05-04' }));
+    const one = shot(3);
+    const rec = await a.saveRecording({ siteId: site.id, name: 'shot-3.sg2', ...one, attach: true });
+    const data = tempDataDir();
+    const file = join(data, 'bundle.json');
+    writeFileSync(file, (await exportBundle(a)).text);
+    const run = await cli(['bundle-import', file, '--data', data]);
+    expect(run.code).toBe(0);
+    expect(run.out).toContain('bundle.json: 1 seismograph file record(s), 1 with the raw file: 1 new or newer, 0 already here or older.');
+    expect(query<{ body: string }>(data, 'SELECT body FROM recordings').map((r) => JSON.parse(r.body))).toEqual([rec]);
+    const files = query<{ bytes: Buffer }>(data, 'SELECT bytes FROM recording_files');
+    expect(files.map((f) => new Uint8Array(f.bytes))).toEqual([one.bytes]);
   }, 60_000);
 });
