@@ -4,6 +4,7 @@
  * the dispersion image with the site's picks and best-fit curves over it,
  * the followed ridge's points (trim, delete, mode) and "Add to picks".
  */
+import { bestFitCaption } from './verdict-text';
 import { useEffect } from 'preact/hooks';
 import { CAUTION } from '../../../core/shared/caution';
 import { MARGINAL } from '../../../core/signal/image';
@@ -227,7 +228,7 @@ export function RecordsView(p: RecordsViewProps) {
                     data-low95={String(result.thickness.low95)}
                     data-high95={String(result.thickness.high95)}
                   >
-                    - - best fit (H = {fmt(result.thickness.best)} m, 95 %: {fmt(result.thickness.low95)}–{fmt(result.thickness.high95)} m). {CAUTION}
+                    - - {bestFitCaption(result.thickness, result.verdict)} {CAUTION}
                   </span>
                 ) : (
                   <span class="key">Best-fit curves appear once the site has an estimate.</span>
