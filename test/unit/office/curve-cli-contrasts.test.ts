@@ -8,32 +8,17 @@
  * Roësset 1981). Kept apart from curve-cli.test.ts so each file's runs
  * stay few.
  */
-import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnShearfield, type CliRun } from './cli-process';
 
-const root = join(import.meta.dirname, '..', '..', '..');
 let dir = '';
 
-interface Run {
-  code: number | null;
-  out: string;
-  err: string;
-}
+type Run = CliRun;
 
-function run(...args: string[]): Promise<Run> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [join(root, 'bin', 'shearfield.mjs'), 'curve', ...args], { cwd: dir });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (d) => (out += d));
-    child.stderr.on('data', (d) => (err += d));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, out, err }));
-  });
-}
+const run = (...args: string[]): Promise<Run> => spawnShearfield(['curve', ...args], dir);
 
 const results = new Map<string, Run>();
 function get(name: string): Run {

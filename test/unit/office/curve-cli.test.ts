@@ -6,34 +6,19 @@
  * Seismology*, 2nd ed. 2002, §7.2–7.3) for an invented model; the cutoff of
  * mode 1 is the closed form f_1 = β1β2 / (2H√(β2² − β1²)).
  */
-import { spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnShearfield, type CliRun } from './cli-process';
 import { logBand } from '../../../core/dispersion/curve';
 import { loveCutoffHz, loveVelocities } from '../../../core/dispersion/love-layer';
 
-const root = join(import.meta.dirname, '..', '..', '..');
 let dir = '';
 
-interface Run {
-  code: number | null;
-  out: string;
-  err: string;
-}
+type Run = CliRun;
 
-function run(...args: string[]): Promise<Run> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [join(root, 'bin', 'shearfield.mjs'), 'curve', ...args], { cwd: dir });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (d) => (out += d));
-    child.stderr.on('data', (d) => (err += d));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, out, err }));
-  });
-}
+const run = (...args: string[]): Promise<Run> => spawnShearfield(['curve', ...args], dir);
 
 const MODEL = '{"layers":[{"thickness_m":10,"vs_m_s":200,"density_kg_m3":1800}],"halfspace":{"vs_m_s":500,"density_kg_m3":2000}}';
 const P = { h: 10, vs1: 200, vs2: 500, rho1: 1800, rho2: 2000 };

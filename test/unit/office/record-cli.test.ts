@@ -7,34 +7,19 @@
  * seg2-write.ts (checked against the standards' layouts and segyio in
  * test/unit/core/recordings/ and test/reference/).
  */
-import { spawn } from 'node:child_process';
 import { mkdirSync, mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnShearfield, type CliRun } from './cli-process';
 import { writeSeg2 } from '../../../core/recordings/seg2-write';
 import { writeSegy } from '../../../core/recordings/segy-write';
 
-const root = join(import.meta.dirname, '..', '..', '..');
 let dir = '';
 
-interface Run {
-  code: number | null;
-  out: string;
-  err: string;
-}
+type Run = CliRun;
 
-function run(...args: string[]): Promise<Run> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [join(root, 'bin', 'shearfield.mjs'), 'record', ...args], { cwd: dir });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (d) => (out += d));
-    child.stderr.on('data', (d) => (err += d));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, out, err }));
-  });
-}
+const run = (...args: string[]): Promise<Run> => spawnShearfield(['record', ...args], dir);
 
 const wave = (k: number) => Array.from({ length: 64 }, (_, i) => Math.sin(0.2 * i - k));
 const gather = writeSegy(

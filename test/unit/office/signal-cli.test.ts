@@ -6,37 +6,22 @@
  * picks CSV that `shearfield estimate` reads; the truth for the thickness is
  * the invented model itself (H = 12 m).
  */
-import { spawn } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { spawnShearfield, type CliRun } from './cli-process';
 import { parsePicksCsv } from '../../../core/picks/picks';
 import { writeSeg2 } from '../../../core/recordings/seg2-write';
 import { writeSegy } from '../../../core/recordings/segy-write';
 import { INVENTED_SOFT_SITE } from '../../fixtures';
 import { softSiteGather, softSiteTrace } from '../../signal-fixtures';
 
-const root = join(import.meta.dirname, '..', '..', '..');
 let dir = '';
 
-interface Run {
-  code: number | null;
-  out: string;
-  err: string;
-}
+type Run = CliRun;
 
-function run(args: string[]): Promise<Run> {
-  return new Promise((resolve, reject) => {
-    const child = spawn(process.execPath, [join(root, 'bin', 'shearfield.mjs'), ...args], { cwd: dir });
-    let out = '';
-    let err = '';
-    child.stdout.on('data', (d) => (out += d));
-    child.stderr.on('data', (d) => (err += d));
-    child.on('error', reject);
-    child.on('close', (code) => resolve({ code, out, err }));
-  });
-}
+const run = (args: string[]): Promise<Run> => spawnShearfield([...args], dir);
 
 const V = ['--velocity', '100:700:241'];
 const scenarios: Record<string, string[]> = {
