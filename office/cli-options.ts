@@ -10,6 +10,18 @@ import { modelFromJson, type LayeredModel } from '../core/dispersion/model';
 import type { PickRecord, SiteRecord } from '../core/exchange/records';
 import { OfficeStore } from './store';
 
+/** Why a file could not be read, as the end of a sentence: "does not exist", "is a folder, not a file", … */
+export function unreadableBecause(e: unknown): string {
+  const code = (e as { code?: string }).code;
+  return code === 'ENOENT'
+    ? 'does not exist'
+    : code === 'EISDIR'
+      ? 'is a folder, not a file'
+      : code === 'EACCES'
+        ? 'cannot be read (permission denied)'
+        : `cannot be read (${code ?? 'unknown error'})`;
+}
+
 /**
  * The text of a file named on the command line. A file that cannot be read
  * throws an InputError on `field`: `The ${what} file "PATH" does not exist.`
@@ -19,16 +31,7 @@ export function readTextFile(path: string, field: string, what: string): string 
   try {
     return readFileSync(path, 'utf8');
   } catch (e) {
-    const code = (e as { code?: string }).code;
-    const why =
-      code === 'ENOENT'
-        ? 'does not exist'
-        : code === 'EISDIR'
-          ? 'is a folder, not a file'
-          : code === 'EACCES'
-            ? 'cannot be read (permission denied)'
-            : `cannot be read (${code ?? 'unknown error'})`;
-    throw new InputError(field, `The ${what} file "${path}" ${why}.`);
+    throw new InputError(field, `The ${what} file "${path}" ${unreadableBecause(e)}.`);
   }
 }
 

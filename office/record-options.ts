@@ -8,6 +8,7 @@ import { readFileSync } from 'node:fs';
 import { readRecording } from '../core/recordings/read';
 import { COMPONENTS, type Component, type GeometryOverrides, type Recording } from '../core/recordings/recording';
 import { InputError } from '../core/shared/errors';
+import { unreadableBecause } from './cli-options';
 
 export const RECORD_OPTIONS = {
   offsets: { type: 'string' },
@@ -77,16 +78,7 @@ export function readRecordFile(path: string, values: RecordValues): Recording {
   try {
     bytes = readFileSync(path);
   } catch (e) {
-    const code = (e as { code?: string }).code;
-    const why =
-      code === 'ENOENT'
-        ? 'does not exist'
-        : code === 'EISDIR'
-          ? 'is a folder, not a file'
-          : code === 'EACCES'
-            ? 'cannot be read (permission denied)'
-            : `cannot be read (${code ?? 'unknown error'})`;
-    throw new InputError('FILE', `The record file "${path}" ${why}.`);
+    throw new InputError('FILE', `The record file "${path}" ${unreadableBecause(e)}.`);
   }
   const name = path.split(/[\\/]/).pop() || path;
   try {
