@@ -4,7 +4,7 @@
  * `cp037` codec, run by /usr/bin/python3. Skipped, with the reason, where
  * no python3 is installed (scripts/ensure-env.sh brings it with
  * python3-segyio). The table in ebcdic.ts was generated from this same codec,
- * so this check guards the transcription and any later edit; it is not an
+ * so this check guards against copying mistakes and any later edit; it is not an
  * independent derivation of the code page.
  */
 import { spawnSync } from 'node:child_process';
