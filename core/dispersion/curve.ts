@@ -138,12 +138,33 @@ function twoLayer(model: LayeredModel): TwoLayer {
   return { h: l.thickness, vs1: l.vs, rho1: l.density, vs2: model.halfspace.vs, rho2: model.halfspace.density };
 }
 
-function emptyColumns(modes: number, n: number): Float64Array[][] {
+/**
+ * Columns of each mode's curve, filled point by point in ascending
+ * frequency (space for every frequency allocated once) and cut to length
+ * by `curves()`.
+ */
+function modeColumns(modes: number, n: number) {
   const cols: Float64Array[][] = [];
   for (let m = 0; m < modes; m++) {
     cols.push([new Float64Array(n), new Float64Array(n), new Float64Array(n), new Float64Array(n)]);
   }
-  return cols;
+  const counts = new Int32Array(modes);
+  return {
+    push(m: number, f: number, c: number, u: number): void {
+      const i = counts[m]++;
+      const col = cols[m];
+      col[0][i] = f;
+      col[1][i] = 1 / f;
+      col[2][i] = c;
+      col[3][i] = u;
+    },
+    curves(): ModeCurve[] {
+      return cols.map(([fc, tc, pc, gc], m) => {
+        const n = counts[m];
+        return { mode: m, frequency: fc.subarray(0, n), period: tc.subarray(0, n), phase: pc.subarray(0, n), group: gc.subarray(0, n) };
+      });
+    },
+  };
 }
 
 /**
@@ -159,18 +180,9 @@ export function loveCurves(
   const modes = checkModes(options.modes ?? CURVE_DEFAULTS.modes);
   const freq = sortedFrequencies(frequencies);
   const nf = freq.length;
-  const cols = emptyColumns(modes, nf);
-  const counts = new Int32Array(modes);
+  const columns = modeColumns(modes, nf);
+  const push = columns.push;
   const failures: CurveFailure[] = [];
-
-  const push = (m: number, f: number, c: number, u: number): void => {
-    const i = counts[m]++;
-    const col = cols[m];
-    col[0][i] = f;
-    col[1][i] = 1 / f;
-    col[2][i] = c;
-    col[3][i] = u;
-  };
 
   if (model.layers.length === 1) {
     const p = twoLayer(model);
@@ -202,13 +214,7 @@ export function loveCurves(
     }
   }
 
-  const out: ModeCurve[] = [];
-  for (let m = 0; m < modes; m++) {
-    const n = counts[m];
-    const [fc, tc, pc, gc] = cols[m];
-    out.push({ mode: m, frequency: fc.subarray(0, n), period: tc.subarray(0, n), phase: pc.subarray(0, n), group: gc.subarray(0, n) });
-  }
-  return { wave: 'love', modes: out, failures, approaches: [], warnings: [] };
+  return { wave: 'love', modes: columns.curves(), failures, approaches: [], warnings: [] };
 }
 
 function checkWave(wave: unknown): Wave {
@@ -246,8 +252,7 @@ export function rayleighCurves(
   const modes = checkModes(options.modes ?? CURVE_DEFAULTS.modes);
   const freq = sortedFrequencies(frequencies);
   const nf = freq.length;
-  const cols = emptyColumns(modes, nf);
-  const counts = new Int32Array(modes);
+  const columns = modeColumns(modes, nf);
   // Per frequency index, each mode's phase velocity (NaN when absent), to find where neighbours meet.
   const grid = new Float64Array(modes * nf).fill(NaN);
   const failures: CurveFailure[] = [];
@@ -266,12 +271,7 @@ export function rayleighCurves(
         continue;
       }
       grid[m * nf + i] = c;
-      const k = counts[m]++;
-      const col = cols[m];
-      col[0][k] = f;
-      col[1][k] = 1 / f;
-      col[2][k] = c;
-      col[3][k] = rayleighStackGroupVelocity(stack, omega, c);
+      columns.push(m, f, c, rayleighStackGroupVelocity(stack, omega, c));
     }
     for (const a of solver.outcome.close) {
       if (a.mode >= 0 && a.mode + 1 < modes) approaches.push({ mode: a.mode, frequency: f, gap: a.gap });
@@ -289,13 +289,7 @@ export function rayleighCurves(
     }
   }
   approaches.sort((a, b) => a.frequency - b.frequency || a.mode - b.mode);
-  const out: ModeCurve[] = [];
-  for (let m = 0; m < modes; m++) {
-    const n = counts[m];
-    const [fc, tc, pc, gc] = cols[m];
-    out.push({ mode: m, frequency: fc.subarray(0, n), period: tc.subarray(0, n), phase: pc.subarray(0, n), group: gc.subarray(0, n) });
-  }
-  return { wave: 'rayleigh', modes: out, failures, approaches, warnings };
+  return { wave: 'rayleigh', modes: columns.curves(), failures, approaches, warnings };
 }
 
 /**
