@@ -117,7 +117,10 @@ export const SUMMARY_CSV_COLUMNS = [
  * its sentence, next to the thickness they judge. Speeds given (fixed) show
  * equal bounds; an end the data do not bound (an open interval end, or a
  * site figure made open by one) is an empty cell, never a number that reads
- * like a bound: the warnings say "thinner than", "at least" or "at most". Classes
+ * like a bound: the warnings say "thinner than", "at least" or "at most". An
+ * open 95 % end opens that side at every level: the 68 % end on that side is
+ * empty too (a closed 68 % end beside an open 95 % end would read as a bound
+ * the data do not give). Classes
  * list every class the 95 % range allows, slowest first, joined by "/".
  * `warnings` joins the plain-words warnings (or the reason there is no
  * estimate) with " | ".
@@ -136,8 +139,8 @@ export function summaryToCsv(summaries: readonly SiteSummary[]): string {
         s.verdict?.level ?? '',
         textCell(s.verdict?.text),
         numCell(s.thickness?.best),
-        numCell(s.thickness?.low68),
-        numCell(s.thickness?.high68),
+        openCell(s.thickness?.low68, s.thickness?.openLow),
+        openCell(s.thickness?.high68, s.thickness?.openHigh),
         openCell(s.thickness?.low95, s.thickness?.openLow),
         openCell(s.thickness?.high95, s.thickness?.openHigh),
         numCell(s.vs1?.best),
