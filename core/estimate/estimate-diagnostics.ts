@@ -80,6 +80,12 @@ export interface EstimateDiagnostics {
   sentences: string[];
   /** 'consistent' | 'poor' (χ² above its 95 % point) | 'too-good' (below its 5 % point) | 'untestable' (dof = 0). */
   fit: 'consistent' | 'poor' | 'too-good' | 'untestable';
+  /**
+   * The fit's statistics behind the plain sentence, for the detail line (the
+   * sentences themselves carry no χ²): "χ²/dof = 1.2 (χ² = 12 with 10 degrees
+   * of freedom; between its 5 % point 3.94 and 95 % point 18.3)".
+   */
+  fitDetail: string;
   outliers: Array<PickNote & { normalised: number }>;
   betterMode: Array<PickNote & { mode: number; normalised: number; ownNormalised: number }>;
   outsideTrapping: Array<PickNote & { reason: string }>;
@@ -183,33 +189,36 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   const say = (rank: number, text: string) => void ranked.push({ rank, text: text.charAt(0).toUpperCase() + text.slice(1) });
 
   // χ²/dof.
+  // The sentences say it in plain words; the statistics go to fitDetail.
   let fit: EstimateDiagnostics['fit'];
+  let fitDetail: string;
   if (dof === 0) {
     fit = 'untestable';
-    say(
-      CONSEQUENCE.untestableFit,
-      `There are as many picks as free parameters, so the fit cannot be tested; add picks (χ² = ${fmt(chi2)} with no degrees of freedom left).`,
-    );
+    fitDetail = `χ² = ${fmt(chi2)} with no degrees of freedom left`;
+    say(CONSEQUENCE.untestableFit, 'There are as many picks as free parameters, so the fit cannot be tested; add picks.');
   } else {
     const hi = chi2Upper95(dof);
     const lo = chi2Lower05(dof);
-    const stats = `χ²/dof = ${fmt(chi2 / dof)}, χ² = ${fmt(chi2)} with ${dof} degrees of freedom`;
+    const stats = `χ²/dof = ${fmt(chi2 / dof)} (χ² = ${fmt(chi2)} with ${dof} degrees of freedom; `;
     if (chi2 > hi) {
       fit = 'poor';
+      fitDetail = `${stats}above its 95 % point ${fmt(hi)}; the interval levels were scaled by ${fmt(input.scale)})`;
       say(
         CONSEQUENCE.poorFit,
-        `The picks scatter more than their standard deviations allow (${stats}, above its 95 % point ${fmt(hi)}): the standard deviations may be too small, ` +
-          `a pick may be on another mode, or one layer over a half-space may be too simple; the intervals were widened by a factor of ${fmt(input.scale)} on χ² to allow for it.`,
+        'The picks scatter more than their standard deviations allow: the standard deviations may be too small, ' +
+          `a pick may be on another mode, or one layer over a half-space may be too simple; the intervals were widened to allow for it.`,
       );
     } else if (chi2 < lo) {
       fit = 'too-good';
+      fitDetail = `${stats}below its 5 % point ${fmt(lo)})`;
       say(
         CONSEQUENCE.tooGoodFit,
-        `The picks scatter less than their standard deviations suggest (${stats}, below its 5 % point ${fmt(lo)}): the standard deviations may be too large, so the intervals may be too wide.`,
+        'The picks scatter less than their standard deviations suggest: the standard deviations may be too large, so the intervals may be too wide.',
       );
     } else {
       fit = 'consistent';
-      say(CONSEQUENCE.consistentFit, `The fit is consistent with the picks' standard deviations (${stats}).`);
+      fitDetail = `${stats}between its 5 % point ${fmt(lo)} and 95 % point ${fmt(hi)})`;
+      say(CONSEQUENCE.consistentFit, "The fit is consistent with the picks' standard deviations.");
     }
   }
 
@@ -296,11 +305,11 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   // Several minima.
   if (input.alternatives.length > 1) {
     const list = input.alternatives
-      .map((a) => `H = ${fmt(a.thickness.best)} m, β1 = ${fmt(a.vs1.best)} m/s, β2 = ${fmt(a.vs2.best)} m/s (Δχ² = ${fmt(a.deltaChi2)})`)
+      .map((a) => `H = ${fmt(a.thickness.best)} m, β1 = ${fmt(a.vs1.best)} m/s, β2 = ${fmt(a.vs2.best)} m/s`)
       .join('; ');
     say(
       CONSEQUENCE.severalMinima,
-      `The picks fit ${input.alternatives.length} separate models almost equally well (within Δχ² = 3.84 of the best): ${list}; the headline intervals span them all, ` +
+      `The picks fit ${input.alternatives.length} separate models almost equally well (each inside the 95 % level of the best): ${list}; the headline intervals span them all, ` +
         'and picks on both sides of the group-velocity minimum, phase-velocity picks or lower frequencies would tell them apart.',
     );
   }
@@ -366,6 +375,7 @@ export function diagnoseFit(input: DiagnoseInput): EstimateDiagnostics {
   return {
     sentences,
     fit,
+    fitDetail,
     outliers,
     betterMode,
     outsideTrapping,

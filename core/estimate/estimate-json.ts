@@ -45,7 +45,7 @@ export function estimateJson(r: EstimateResult) {
       chi2: a.chi2,
       delta_chi2: a.deltaChi2,
     })),
-    misfit: { chi2: r.chi2, dof: r.dof },
+    misfit: { chi2: r.chi2, dof: r.dof, detail: r.diagnostics.fitDetail },
     warnings: [...r.warnings, r.siteNote, ...(site ? site.warnings : [])],
     caution: r.caution,
     chi2_per_dof: r.chi2PerDof,

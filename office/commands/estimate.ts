@@ -6,7 +6,7 @@
  * Output contract (read by other tools, keep it exact; extra keys only after these):
  *   {"thickness_m":{"best":…,"low68":…,"high68":…,"low95":…,"high95":…},
  *    "vs1_m_s":{…same keys…},"vs2_m_s":{…},"alternatives":[…],
- *    "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…", …, "verdict":{"level":…,"text":…}}
+ *    "misfit":{"chi2":…,"dof":…,"detail":…},"warnings":["…"],"caution":"…", …, "verdict":{"level":…,"text":…}}
  * A fixed (given) speed reports its value with equal bounds. Numbers that do
  * not exist (e.g. a 68 % bound of a minimum outside the 68 % level) print as null.
  *
@@ -118,7 +118,7 @@ Output (JSON):
   {"thickness_m":{"best":…,"low68":…,"high68":…,"low95":…,"high95":…},
    "vs1_m_s":{…},"vs2_m_s":{…},
    "alternatives":[{"rank":1,"thickness_m":{…},"vs1_m_s":{…},"vs2_m_s":{…},"chi2":…,"delta_chi2":…},…],
-   "misfit":{"chi2":…,"dof":…},"warnings":["…"],"caution":"…",
+   "misfit":{"chi2":…,"dof":…,"detail":"…"},"warnings":["…"],"caution":"…",
    "chi2_per_dof":…,"interval_scale":…,"open_ends":{…},"correlation_thickness_vs1":…,
    "density_kg_m3":{…},"defaulted_sd":…,"search_range":{…},"vs30_m_s":{…},
    "site_class":{…},"picks":[…],"method":"…",

@@ -158,8 +158,7 @@ function FitFigures({ r }: { r: EstimateResult }) {
   return (
     <p>
       Densities used: layer ρ1 = {num(r.density1, 4)} kg/m³{r.density1Defaulted ? ' (default)' : ''}, half-space ρ2 ={' '}
-      {num(r.density2, 4)} kg/m³{r.density2Defaulted ? ' (default)' : ''}. Fit: χ²/dof = {num(r.chi2PerDof, 3)} (χ² ={' '}
-      {num(r.chi2, 3)}, {r.dof} degrees of freedom).
+      {num(r.density2, 4)} kg/m³{r.density2Defaulted ? ' (default)' : ''}. Fit: {r.diagnostics.fitDetail}.
       {Number.isFinite(r.correlationThicknessVs1) ? ` H–β1 correlation: ${num(r.correlationThicknessVs1, 2)}.` : ''}
     </p>
   );

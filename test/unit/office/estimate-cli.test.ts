@@ -75,7 +75,10 @@ describe('shearfield estimate: the output contract', () => {
       'caution',
     ]);
     for (const k of ['thickness_m', 'vs1_m_s', 'vs2_m_s']) expect(Object.keys(json[k])).toEqual(PARAM_KEYS);
-    expect(Object.keys(json.misfit)).toEqual(['chi2', 'dof']);
+    expect(Object.keys(json.misfit)).toEqual(['chi2', 'dof', 'detail']);
+    // The statistics sit in misfit.detail; the warnings say it in plain words.
+    expect(json.misfit.detail).toMatch(/^χ²\/dof = [0-9.e-]+ \(χ² = [0-9.e-]+ with 19 degrees of freedom; /);
+    for (const w of json.warnings) expect(w).not.toMatch(/χ²|degrees of freedom/);
     expect(Math.abs(json.thickness_m.best - 12) / 12).toBeLessThan(1e-6);
     expect(json.thickness_m.low95).toBeLessThan(json.thickness_m.low68);
     expect(json.thickness_m.high95).toBeGreaterThan(json.thickness_m.high68);

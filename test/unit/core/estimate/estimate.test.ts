@@ -190,7 +190,8 @@ describe('ambiguity and unconstrained cases', () => {
     expect(r.dof).toBe(0);
     // Two models fitting is worse news than an untestable fit, so it comes first.
     expect(r.warnings[0]).toMatch(/^The picks fit 2 separate models almost equally well/);
-    expect(r.warnings[1]).toMatch(/^There are as many picks as free parameters, so the fit cannot be tested; add picks \(χ² = .* with no degrees of freedom left\)\.$/);
+    expect(r.warnings[1]).toBe('There are as many picks as free parameters, so the fit cannot be tested; add picks.');
+    expect(r.diagnostics.fitDetail).toMatch(/^χ² = \S+ with no degrees of freedom left$/);
   });
 
   it('short-wavelength picks only: the thickness is open above, with advice on what would resolve it', () => {
@@ -239,6 +240,10 @@ describe('diagnostics in plain words', () => {
     expect(r.warnings.join('\n')).toMatch(/Pick 7 \(id "P7"\) \([\d.]+ Hz, phase, mode 0, [\d.]+ m\/s\) misfits the best model by [\d.]+ standard deviations/);
     expect(r.diagnostics.fit).toBe('poor');
     expect(r.intervalScale).toBeGreaterThan(1);
+    // The poor fit in plain words; its numbers, the scale among them, only in the detail line.
+    expect(r.warnings.find((w) => w.startsWith('The picks scatter more'))).toMatch(/the intervals were widened to allow for it\.$/);
+    for (const w of r.warnings) expect(w).not.toMatch(/χ²|degrees of freedom/);
+    expect(r.diagnostics.fitDetail).toMatch(/with 14 degrees of freedom; above its 95 % point \S+; the interval levels were scaled by \S+\)$/);
   });
 
   it('flags a pick that another mode fits better', () => {
@@ -278,9 +283,13 @@ describe('diagnostics in plain words', () => {
     expect(r.density2).toBe(DEFAULT_DENSITY_HALFSPACE);
   });
 
-  it('states the fit in plain words first with χ²/dof after it, in every result, and the caution', () => {
+  it('states the fit in plain words with no statistics in the sentence, keeps χ²/dof in the detail line, and the caution', () => {
     const r = estimateLayer(exactPicks(TRUE, 12, 3, 40), { vs1: 200, vs2: 500 });
-    expect(r.warnings.find((w) => w.includes('χ²/dof = '))).toMatch(/^The picks scatter less than their standard deviations suggest \(χ²\/dof = /);
+    expect(r.warnings).toContain('The picks scatter less than their standard deviations suggest: the standard deviations may be too large, so the intervals may be too wide.');
+    for (const w of r.warnings) expect(w).not.toMatch(/χ²|degrees of freedom/);
+    // Exact picks: χ² ≈ 0, below the 5 % point of χ² with 11 degrees of freedom (12 picks, thickness free).
+    expect(r.diagnostics.fit).toBe('too-good');
+    expect(r.diagnostics.fitDetail).toMatch(/^χ²\/dof = \S+ \(χ² = \S+ with 11 degrees of freedom; below its 5 % point \S+\)$/);
     expect(r.caution).toBe(CAUTION);
   });
 });
