@@ -56,6 +56,10 @@
  * Derivatives: the same recursion carries ∂m/∂c and ∂m/∂k (forward
  * differentiation of every factor; the positive scale factors are held
  * fixed, which multiplies F, F_c and F_k by the same factor at a root).
+ * The fast form (rayleighSecularDerivatives) differentiates the five-minor
+ * step, whose matrix is linear in the products of the entire functions;
+ * the six-minor form (rayleighSecularDerivativesReference) is kept as the
+ * readable reference it is tested against.
  *
  * Domain and units: SI in (m, s, m/s, kg/m³, rad/s); 0 < c ≤ β_H, k > 0;
  * the model must carry P speeds (validate with model.ts first: these
@@ -143,8 +147,33 @@ const nextC = new Float64Array(6);
 const nextK = new Float64Array(6);
 
 /** Entire functions of one wave type in one layer, scaled: see `functions`. */
-const fa = { C: 0, S: 0, expo: 0, dCa: 0, dSa: 0 };
-const fb = { C: 0, S: 0, expo: 0, dCa: 0, dSa: 0 };
+const fa = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
+const fb = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
+
+/** C, S and the scale e^{−√a L} (1 when a ≤ 0) of `functions`, without the derivatives in a: the value path. */
+function values(out: typeof fa, a: number, L: number): void {
+  if (a > 0) {
+    const r = Math.sqrt(a);
+    const x = r * L;
+    const em = Math.expm1(-2 * x);
+    out.C = 1 + 0.5 * em;
+    out.S = x === 0 ? L : (-0.5 * em) / r;
+    out.expo = x;
+    out.scale = Math.exp(-x);
+  } else if (a < 0) {
+    const r = Math.sqrt(-a);
+    const x = r * L;
+    out.C = Math.cos(x);
+    out.S = Math.sin(x) / r;
+    out.expo = 0;
+    out.scale = 1;
+  } else {
+    out.C = 1;
+    out.S = L;
+    out.expo = 0;
+    out.scale = 1;
+  }
+}
 
 /**
  * C = cosh(√a L), S = sinh(√a L)/√a (or cos, sin/√−a), multiplied by
@@ -173,6 +202,7 @@ function functions(out: typeof fa, a: number, L: number): void {
     out.S = L;
     out.expo = 0;
   }
+  out.scale = scale;
   out.dCa = 0.5 * L * out.S;
   const aL2 = a * L * L;
   if (Math.abs(aL2) < 0.1) {
@@ -351,9 +381,9 @@ function fastStep(s: RayleighStack, j: number, c: number, k: number, w: Float64A
   const x = 1 / u;
   const p = s.p[j];
   const L = k * s.thickness[j];
-  functions(fa, 1 - p * x, L);
-  functions(fb, 1 - x, L);
-  const e = Math.exp(-(fa.expo + fb.expo));
+  values(fa, 1 - p * x, L);
+  values(fb, 1 - x, L);
+  const e = fa.scale * fb.scale;
   const CC = fa.C * fb.C;
   const CS = fa.C * fb.S;
   const SC = fa.S * fb.C;
@@ -486,10 +516,11 @@ const dnH = new Float64Array(6);
 
 /**
  * F, ∂F/∂c (fixed k) and ∂F/∂k (fixed c) at (ω, c), k = ω/c, by forward
- * differentiation of the compound-matrix recursion (see the header).
- * Writes into `out` and returns it.
+ * differentiation of the plain 6-minor recursion (see the header): the
+ * readable reference that the fast form, rayleighSecularDerivatives, is
+ * tested against. Writes into `out` and returns it.
  */
-export function rayleighSecularDerivatives(
+export function rayleighSecularDerivativesReference(
   s: RayleighStack,
   omega: number,
   c: number,
@@ -585,4 +616,267 @@ export function rayleighSecularDerivatives(
   out.dc = pairing(dmc, nH) + pairing(minors, dnH);
   out.dk = pairing(dmk, nH);
   return out;
+}
+
+/**
+ * The 5×5 matrix of the fast layer step (fastStep, row-major into G) as a
+ * function of the products CC = C_aC_b, CS = C_aS_b, SC = S_aC_b,
+ * SS = S_aS_b, D and e (the matrix is linear in these six, with
+ * coefficients in u = β²/c² and p = β²/α²).
+ */
+function stepMatrix(G: Float64Array, u: number, p: number, CC: number, CS: number, SC: number, SS: number, D: number, e: number): void {
+  const t = 2 * u - 1;
+  const u1 = u - 1;
+  const pu = p - u;
+  const t2u = (t * t) / u;
+  const s00 = 4 * p * u1 - 2 * t * t + 1;
+  const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
+  const s04 = u * t - p * u1;
+  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) / u;
+  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) / (u * u);
+  const d4u1 = 4 * u - 1;
+  G[0] = CC + 4 * u * t * D + SS * s00;
+  G[1] = 2 * u * d4u1 * D + SS * s01;
+  G[2] = u * CS + pu * SC;
+  G[3] = u1 * CS - u * SC;
+  G[4] = -2 * u * u * D + SS * s04;
+  G[5] = -2 * t * d4u1 * D + SS * s10;
+  G[6] = e - 8 * u * t * D - 2 * SS * s00;
+  G[7] = -t * CS - 2 * pu * SC;
+  G[8] = -2 * u1 * CS + t * SC;
+  G[9] = u * d4u1 * D + 0.5 * SS * s01;
+  G[10] = 4 * u1 * CS - t2u * SC;
+  G[11] = 4 * u1 * CS - 2 * t * SC;
+  G[12] = CC;
+  G[13] = -(u1 / u) * SS;
+  G[14] = -u1 * CS + u * SC;
+  G[15] = t2u * CS + 4 * pu * SC;
+  G[16] = 2 * t * CS + 4 * pu * SC;
+  G[17] = (pu / u) * SS;
+  G[18] = CC;
+  G[19] = -u * CS - pu * SC;
+  G[20] = -8 * t * t * D + SS * s40;
+  G[21] = -4 * t * d4u1 * D + 2 * SS * s10;
+  G[22] = -t2u * CS - 4 * pu * SC;
+  G[23] = -4 * u1 * CS + t2u * SC;
+  G[24] = CC + 4 * u * t * D + SS * s00;
+}
+
+/** ∂/∂u of stepMatrix at fixed products (e's coefficient is constant): adds h·∂G/∂u into G. */
+function stepMatrixDu(G: Float64Array, h: number, u: number, p: number, CS: number, SC: number, SS: number, D: number): void {
+  const t = 2 * u - 1;
+  const iu2 = 1 / (u * u);
+  const dt2u = t * (2 * u + 1) * iu2; // d(t²/u)/du
+  const ds00 = 4 * p - 8 * t;
+  const ds01 = 4 * p - 16 * u + 6;
+  const ds04 = t + 2 * u - p;
+  const ds10 = -8 * p + 32 * u - 20 + iu2;
+  const ds40 = -16 * p + 64 * u - 48 + 8 * iu2 - 2 * iu2 / u;
+  const cMs = CS - SC;
+  G[0] += h * ((16 * u - 4) * D + ds00 * SS);
+  G[1] += h * ((16 * u - 2) * D + ds01 * SS);
+  G[2] += h * cMs;
+  G[3] += h * cMs;
+  G[4] += h * (-4 * u * D + ds04 * SS);
+  G[5] += h * (-(32 * u - 12) * D + ds10 * SS);
+  G[6] += h * (-(32 * u - 8) * D - 2 * ds00 * SS);
+  G[7] += h * (-2 * cMs);
+  G[8] += h * (-2 * cMs);
+  G[9] += h * ((8 * u - 1) * D + 0.5 * ds01 * SS);
+  G[10] += h * (4 * CS - dt2u * SC);
+  G[11] += h * (4 * cMs);
+  G[13] += h * (-iu2 * SS);
+  G[14] += h * -cMs;
+  G[15] += h * (dt2u * CS - 4 * SC);
+  G[16] += h * (4 * cMs);
+  G[17] += h * (-p * iu2 * SS);
+  G[19] += h * -cMs;
+  G[20] += h * (-32 * t * D + ds40 * SS);
+  G[21] += h * (-(64 * u - 24) * D + 2 * ds10 * SS);
+  G[22] += h * (-dt2u * CS + 4 * SC);
+  G[23] += h * (-4 * CS + dt2u * SC);
+  G[24] += h * ((16 * u - 4) * D + ds00 * SS);
+}
+
+const G5 = new Float64Array(25);
+const G5c = new Float64Array(25);
+const G5k = new Float64Array(25);
+const t5 = new Float64Array(5);
+const t5c = new Float64Array(5);
+const t5k = new Float64Array(5);
+
+/** out = G·v + (H·x when H is given), 5×5 row-major. */
+function apply5(G: Float64Array, v: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < 5; i++) {
+    const r = 5 * i;
+    out[i] = G[r] * v[0] + G[r + 1] * v[1] + G[r + 2] * v[2] + G[r + 3] * v[3] + G[r + 4] * v[4];
+  }
+}
+
+/** out += G·v, 5×5 row-major. */
+function addApply5(G: Float64Array, v: Float64Array, out: Float64Array): void {
+  for (let i = 0; i < 5; i++) {
+    const r = 5 * i;
+    out[i] += G[r] * v[0] + G[r + 1] * v[1] + G[r + 2] * v[2] + G[r + 3] * v[3] + G[r + 4] * v[4];
+  }
+}
+
+/**
+ * d/dc of ln(scale) at fixed k, where scale is the positive factor
+ * Π_j e^{−(√a_j + √b_j)L_j} that the fast recursion takes out (so
+ * d ln|F̃|/dc = F_c/F + this, F̃ the scaled value rayleighSecular returns,
+ * apart from its exact power of two). Infinite as c → α_j or β_j from
+ * below (√a is not smooth at a = 0).
+ */
+export const secularSlope = { scale: 0 };
+
+/**
+ * F, ∂F/∂c (fixed k) and, when wantK, ∂F/∂k (fixed c) by forward
+ * differentiation of the fast five-minor step (fastStep): the matrix is
+ * linear in the products of the entire functions (stepMatrix), so its
+ * derivative is stepMatrix of the products' derivatives plus ∂G/∂u·du.
+ * The smooth positive factors e^{−√a L}, e^{−√b L} and the powers of two
+ * are held fixed, as in the reference (they multiply F, F_c and F_k alike
+ * at a root). Also sets secularScale.exponent and secularSlope.scale.
+ */
+function fastDerivatives(s: RayleighStack, omega: number, c: number, out: SecularDerivatives, wantK: boolean): SecularDerivatives {
+  const k = omega / c;
+  const w = t5;
+  const wc = t5c;
+  const wk = t5k;
+  w.fill(0);
+  wc.fill(0);
+  wk.fill(0);
+  w[0] = 1;
+  secularScale.exponent = 0;
+  let slope = 0;
+  let qPrev = 1;
+  for (let j = 0; j < s.count; j++) {
+    const r = qPrev / s.q[j];
+    const r2 = r * r;
+    w[1] *= r;
+    w[2] *= r;
+    w[3] *= r;
+    w[4] *= r2;
+    wc[1] *= r;
+    wc[2] *= r;
+    wc[3] *= r;
+    wc[4] *= r2;
+    wk[1] *= r;
+    wk[2] *= r;
+    wk[3] *= r;
+    wk[4] *= r2;
+    qPrev = s.q[j];
+    const beta = s.vs[j];
+    const d = s.thickness[j];
+    const u = (beta * beta) / (c * c);
+    const x = 1 / u;
+    const p = s.p[j];
+    const L = k * d;
+    const a = 1 - p * x;
+    const b = 1 - x;
+    functions(fa, a, L);
+    functions(fb, b, L);
+    const e = fa.scale * fb.scale;
+    const CC = fa.C * fb.C;
+    const CS = fa.C * fb.S;
+    const SC = fa.S * fb.C;
+    const SS = fa.S * fb.S;
+    stepMatrix(G5, u, p, CC, CS, SC, SS, CC - e, e);
+    // Along c at fixed k: a and b move (da/dc = −2px/c, db/dc = −2x/c), u too (du/dc = −2u/c).
+    const dxc = (2 * x) / c;
+    const dac = -p * dxc;
+    const dbc = -dxc;
+    const dCa = fa.dCa * dac;
+    const dSa = fa.dSa * dac;
+    const dCb = fb.dCa * dbc;
+    const dSb = fb.dSa * dbc;
+    const dCCc = dCa * fb.C + fa.C * dCb;
+    stepMatrix(G5c, u, p, dCCc, dCa * fb.S + fa.C * dSb, dSa * fb.C + fa.S * dCb, dSa * fb.S + fa.S * dSb, dCCc, 0);
+    stepMatrixDu(G5c, (-2 * u) / c, u, p, CS, SC, SS, CC - e);
+    apply5(G5, wc, next);
+    addApply5(G5c, w, next);
+    if (wantK) {
+      // Along k at fixed c: L = kd moves (dC/dL = aS, dS/dL = C).
+      const dCaK = a * fa.S * d;
+      const dSaK = fa.C * d;
+      const dCbK = b * fb.S * d;
+      const dSbK = fb.C * d;
+      const dCCk = dCaK * fb.C + fa.C * dCbK;
+      stepMatrix(G5k, u, p, dCCk, dCaK * fb.S + fa.C * dSbK, dSaK * fb.C + fa.S * dCbK, dSaK * fb.S + fa.S * dSbK, dCCk, 0);
+      apply5(G5, wk, nextK);
+      addApply5(G5k, w, nextK);
+      for (let i = 0; i < 5; i++) wk[i] = nextK[i];
+    }
+    for (let i = 0; i < 5; i++) wc[i] = next[i];
+    apply5(G5, w, next);
+    for (let i = 0; i < 5; i++) w[i] = next[i];
+    if (a > 0) slope += (L * p * x) / (c * Math.sqrt(a));
+    if (b > 0) slope += (L * x) / (c * Math.sqrt(b));
+    rescale3(w, wc, wk);
+  }
+  const q2 = qPrev * qPrev;
+  w[1] *= qPrev;
+  w[2] *= qPrev;
+  w[3] *= qPrev;
+  w[4] *= q2;
+  wc[1] *= qPrev;
+  wc[2] *= qPrev;
+  wc[3] *= qPrev;
+  wc[4] *= q2;
+  wk[1] *= qPrev;
+  wk[2] *= qPrev;
+  wk[3] *= qPrev;
+  wk[4] *= q2;
+  halfspaceMinors(s, c, nH, dnH);
+  const pair5 = (v: Float64Array, n: Float64Array) => v[0] * n[5] - v[1] * (n[4] - n[1]) + v[2] * n[3] + v[3] * n[2] + v[4] * n[0];
+  out.value = pair5(w, nH);
+  out.dc = pair5(wc, nH) + pair5(w, dnH);
+  out.dk = wantK ? pair5(wk, nH) : NaN;
+  secularSlope.scale = slope;
+  return out;
+}
+
+/** As rescale, applying the same power of two to the derivative rows. */
+function rescale3(w: Float64Array, wc: Float64Array, wk: Float64Array): void {
+  let big = 0;
+  for (let r = 0; r < 5; r++) {
+    const v = Math.abs(w[r]);
+    if (v > big) big = v;
+  }
+  if (!(big > 0) || !Number.isFinite(big) || (big < 2 ** 256 && big > 2 ** -256)) return;
+  const e = Math.round(Math.log2(big));
+  const f = 2 ** -e;
+  for (let r = 0; r < 5; r++) {
+    w[r] *= f;
+    wc[r] *= f;
+    wk[r] *= f;
+  }
+  secularScale.exponent += e;
+}
+
+/**
+ * F, ∂F/∂c (fixed k) and ∂F/∂k (fixed c) at (ω, c), k = ω/c, by forward
+ * differentiation of the fast five-minor step (the same F as
+ * rayleighSecular, up to rounding and a positive factor shared by the three
+ * at a root; checked against rayleighSecularDerivativesReference). Writes
+ * into `out` and returns it.
+ */
+export function rayleighSecularDerivatives(
+  s: RayleighStack,
+  omega: number,
+  c: number,
+  out: SecularDerivatives = { value: 0, dc: 0, dk: 0 },
+): SecularDerivatives {
+  return fastDerivatives(s, omega, c, out, true);
+}
+
+/**
+ * F̃ (the scaled value of rayleighSecular, with its power of two in
+ * secularScale) and ∂F/∂c at fixed k on the same scale, without ∂F/∂k
+ * (dk is NaN); secularSlope.scale holds d ln(scale)/dc, so that
+ * d ln|F̃|/dc = dc/value + secularSlope.scale. For the root scan.
+ */
+export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number, out: SecularDerivatives): SecularDerivatives {
+  return fastDerivatives(s, omega, c, out, false);
 }

@@ -27,6 +27,12 @@ import {
   rayleighSecular,
   rayleighStackGroupVelocity,
 } from '../../../../core/dispersion/rayleigh-stack';
+import {
+  rayleighSecularDerivatives,
+  rayleighSecularDerivativesReference,
+  rayleighSecularSlope,
+} from '../../../../core/dispersion/rayleigh-secular';
+import { mulberry32 } from '../../../../core/shared/random';
 
 /** Invented site: soft layer over stiffer ground, Poisson's ratio 1/3 in both. */
 const twoLayer: LayeredModel = {
@@ -181,6 +187,34 @@ describe('Rayleigh group velocity (implicit differentiation of the secular funct
           expect(Math.abs(got - want), `f ${f}, mode ${m}: got ${got}, want ${want}`).toBeLessThan(1e-6 * Math.abs(want));
         }
       }
+    }
+  });
+});
+
+describe('fast derivatives of the secular function (five-minor step)', () => {
+  it('agree with forward differentiation of the plain six-minor form on 150 seeded random models (F_c/F and F_k/F, scale-free)', () => {
+    const rand = mulberry32(7);
+    for (let t = 0; t < 150; t++) {
+      const n = 1 + Math.floor(rand() * 5);
+      const layers = [];
+      for (let i = 0; i < n; i++) {
+        const vs = 60 + rand() * 840;
+        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
+      }
+      const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
+      const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
+      const omega = 2 * Math.PI * 0.5 * Math.pow(120, rand());
+      const c = vsH * (0.3 + 0.69 * rand());
+      const ref = rayleighSecularDerivativesReference(s, omega, c, { value: 0, dc: 0, dk: 0 });
+      const fast = rayleighSecularDerivatives(s, omega, c);
+      const ctx = `case ${t}: c ${c}, ω ${omega}, ${JSON.stringify(layers)}`;
+      // Both carry F times a positive factor held fixed in the derivatives, so the ratios are comparable.
+      expect(Math.abs(fast.dc / fast.value / (ref.dc / ref.value) - 1), ctx).toBeLessThan(1e-8);
+      expect(Math.abs(fast.dk / fast.value / (ref.dk / ref.value) - 1), ctx).toBeLessThan(1e-8);
+      expect(rayleighSecular(s, omega, c), ctx).toBe(fast.value);
+      const slope = rayleighSecularSlope(s, omega, c, { value: 0, dc: 0, dk: 0 });
+      expect(slope.value, ctx).toBe(fast.value);
+      expect(slope.dc, ctx).toBe(fast.dc);
     }
   });
 });
