@@ -20,13 +20,16 @@
  * (read from the header row). A decimal comma is accepted only when the
  * separator is a semicolon, as spreadsheets in many locales write it
  * (common practice). Unquoted fields are trimmed, quoted text is kept
- * exactly, and blank lines (or rows of empty fields) are skipped. Limits
- * are in PICK_LIMITS.
+ * exactly, and blank lines (or rows of empty fields) are skipped. Lines
+ * above the header row that start with # are comments and are skipped
+ * (picksToCsv writes the caution there); below the header a # line is read
+ * as a row, since an id may start with #. Limits are in PICK_LIMITS.
  *
  * Every bad row is an InputError naming the data row (1-based, header not
  * counted), its line number in the file, and the column. parsePicksCsv
  * throws the first; checkPicksCsv lists them all (up to a cap).
  */
+import { CAUTION } from '../shared/caution';
 import { InputError, describeValue } from '../shared/errors';
 import { spreadsheetSafeText } from '../shared/spreadsheet-text';
 import { MODEL_BOUNDS } from '../dispersion/model';
@@ -602,6 +605,9 @@ const HEADER_HINTS: ReadonlyMap<string, string> = new Map(Object.entries({
   sd_km_s: 'standard deviations must be in m/s: sd_m_s',
 }));
 
+/** Blank lines and comment lines (# first, after any spaces) at the top of a file, above the header. */
+const LEADING_COMMENTS = /^(?:[ \t]*(?:#[^\r\n]*)?(?:\r\n|\n|\r|$))+/;
+
 /** The file's layout, read from its text and header before any row. */
 interface PicksFileLayout {
   separator: ',' | ';';
@@ -624,13 +630,14 @@ function readPicksLayout(text: string): PicksFileLayout {
       `The picks file has ${text.length} characters, more than the ${PICK_LIMITS.maxChars} limit; split it into smaller files.`,
     );
   }
-  const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
+  // Comment and blank lines above the header are blanked in place, so every line keeps its number.
+  const body = (text.charCodeAt(0) === 0xfeff ? text.slice(1) : text).replace(LEADING_COMMENTS, (m) => m.replace(/#[^\r\n]*/g, ''));
   if (body.trim() === '') {
     throw new InputError('file', 'The picks file is empty; it needs a header row (e.g. frequency_hz,velocity_m_s) and at least one pick.');
   }
 
   // The separator comes from the header row (its first line outside quotes).
-  const firstLine = body.replace(/^(?:[ \t]*\r?\n)+/, '').split(/\r\n|\n|\r/, 1)[0];
+  const firstLine = body.replace(/^(?:[ \t]*(?:\r\n|\n|\r))+/, '').split(/\r\n|\n|\r/, 1)[0];
   const missingHeader = (line: number) =>
     new InputError(
       'header',
@@ -752,8 +759,9 @@ function pickFromRecord(
   separator: ',' | ';',
   where: string,
 ): { pick: Pick; usedComma: boolean } {
+  const comment = !rec.quoted[0] && rec.fields[0].trimStart().startsWith('#') ? ' A line starting with # is a comment only above the header row.' : '';
   if (rec.fields.length < columns.length) {
-    fail(where, columns[rec.fields.length], `is missing: the row has ${rec.fields.length} fields but the header names ${columns.length} columns.`);
+    fail(where, columns[rec.fields.length], `is missing: the row has ${rec.fields.length} fields but the header names ${columns.length} columns.${comment}`);
   }
   if (rec.fields.length > columns.length) {
     const hint =
@@ -761,7 +769,7 @@ function pickFromRecord(
     fail(
       where,
       columns[columns.length - 1],
-      `is followed by ${rec.fields.length - columns.length} extra field(s); the header names ${columns.length} columns.${hint}`,
+      `is followed by ${rec.fields.length - columns.length} extra field(s); the header names ${columns.length} columns.${hint}${comment}`,
     );
   }
   const cells: PickCells = {};
@@ -913,7 +921,8 @@ export interface PicksCsvOptions {
 
 /**
  * Writes picks as a picks CSV file that parsePicksCsv reads back exactly.
- * Numbers use JavaScript's shortest round-trip text. The abscissa column is
+ * The first line is the caution as a comment ("# " + CAUTION), which the
+ * reader skips. Numbers use JavaScript's shortest round-trip text. The abscissa column is
  * period_s when every pick was entered as a period, else frequency_hz (a
  * pick entered as a period then loses only its period field). id, note and
  * time columns appear when any pick has them; the wave column when any pick
@@ -946,7 +955,7 @@ export function picksToCsv(picks: readonly Pick[], options: PicksCsvOptions = {}
     const needs = s.includes(separator) || /["\r\n]/.test(s) || s !== s.trim() || s === '';
     return needs ? `"${s.replace(/"/g, '""')}"` : s;
   };
-  const lines = [columns.join(separator)];
+  const lines = [`# ${CAUTION}`, columns.join(separator)];
   for (const p of picks) {
     const cells = columns.map((c) => {
       switch (c) {

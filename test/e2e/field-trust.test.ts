@@ -188,7 +188,9 @@ describe('field trust at tablet size', () => {
     // The site's picks as a CSV file that reads back (core/picks/picks.ts parsePicksCsv) to the same values.
     const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Export picks (CSV)' }).click()]);
     expect(download.suggestedFilename()).toMatch(/^shearfield-picks-invented-keyboard-entry-\d{4}-\d{2}-\d{2}\.csv$/);
-    const back = parsePicksCsv(readFileSync((await download.path())!, 'utf8')).picks;
+    const text = readFileSync((await download.path())!, 'utf8');
+    expect(text.startsWith(`# ${CAUTION}\r\n`)).toBe(true);
+    const back = parsePicksCsv(text).picks;
     expect(back.map((p) => [p.frequency, p.velocity])).toEqual(picks);
   });
 

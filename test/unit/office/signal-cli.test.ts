@@ -11,7 +11,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { spawnShearfield, type CliRun } from './cli-process';
-import { parsePicksCsv } from '../../../core/picks/picks';
+import { parsePicksCsv, picksToCsv } from '../../../core/picks/picks';
+import { CAUTION } from '../../../core/shared/caution';
 import { writeSeg2 } from '../../../core/recordings/seg2-write';
 import { writeSegy } from '../../../core/recordings/segy-write';
 import { INVENTED_SOFT_SITE } from '../../fixtures';
@@ -52,7 +53,8 @@ beforeAll(async () => {
   entries.forEach(([name], i) => results.set(name, runs[i]));
   // The picks of both records, joined into one file for the estimate.
   const phase = results.get('pickPhase')!.out;
-  const group = results.get('pickGroup')!.out.split('\n').slice(1).join('\n');
+  // (The second file without its caution comment line and header.)
+  const group = results.get('pickGroup')!.out.split('\n').slice(2).join('\n');
   writeFileSync(join(dir, 'picks.csv'), phase + group);
   results.set('estimate', await run(['estimate', 'picks.csv']));
 }, 180_000);
@@ -123,6 +125,12 @@ describe('shearfield pick', () => {
     expect(get('pickGroup').err).toMatch(/Airy phase/);
     expect(get('pickPhase').err).toMatch(/the ridge stopped below because/);
     expect(get('pickPhase').err).toMatch(/Screening estimate only/);
+    // The file itself starts with the caution as a comment line, and still reads back exactly.
+    for (const name of ['pickPhase', 'pickGroup']) {
+      const out = get(name).out;
+      expect(out.split('\n')[0]).toBe(`# ${CAUTION}`);
+      expect(picksToCsv(parsePicksCsv(out).picks, { lineEnding: '\n' })).toBe(out);
+    }
   });
 
   it('gives picks that shearfield estimate reads, whose 95 % interval holds the invented thickness', () => {

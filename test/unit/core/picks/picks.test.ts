@@ -12,6 +12,7 @@ import {
   DEFAULT_SD_FRACTION,
   PICK_LIMITS,
   checkPickSet,
+  checkPicksCsv,
   effectiveSd,
   parsePicksCsv,
   pickFromCells,
@@ -20,6 +21,10 @@ import {
   type Pick,
 } from '../../../../core/picks/picks';
 import { inputError } from '../../../input-error';
+import { CAUTION } from '../../../../core/shared/caution';
+
+/** The first line picksToCsv writes (CRLF by default). */
+const CAUTION_LINE = `# ${CAUTION}\r\n`;
 
 describe('parsePicksCsv: well-formed files', () => {
   it('reads a minimal comma file and fills the defaults: group, mode 0, default sd counted', () => {
@@ -483,13 +488,13 @@ describe('the wave column: Love by default, Rayleigh when stated', () => {
   });
 
   it('writes the wave column only when a pick states its wave', () => {
-    expect(picksToCsv([{ frequency: 5, velocity: 300, kind: 'group', mode: 0 }])).toBe('frequency_hz,velocity_m_s,sd_m_s,kind,mode\r\n5,300,,group,0\r\n');
+    expect(picksToCsv([{ frequency: 5, velocity: 300, kind: 'group', mode: 0 }])).toBe(`${CAUTION_LINE}frequency_hz,velocity_m_s,sd_m_s,kind,mode\r\n5,300,,group,0\r\n`);
     expect(
       picksToCsv([
         { frequency: 5, velocity: 300, kind: 'group', mode: 0, wave: 'rayleigh' },
         { frequency: 6, velocity: 280, kind: 'phase', mode: 0 },
       ]),
-    ).toBe('frequency_hz,velocity_m_s,sd_m_s,kind,mode,wave\r\n5,300,,group,0,rayleigh\r\n6,280,,phase,0,\r\n');
+    ).toBe(`${CAUTION_LINE}frequency_hz,velocity_m_s,sd_m_s,kind,mode,wave\r\n5,300,,group,0,rayleigh\r\n6,280,,phase,0,\r\n`);
   });
 });
 
@@ -562,7 +567,7 @@ describe('picksToCsv: round trip', () => {
       fc.property(picksArb(true), (ps) => {
         const picks = ps;
         const csv = picksToCsv(picks);
-        expect(csv.startsWith('period_s,')).toBe(true);
+        expect(csv.startsWith(`${CAUTION_LINE}period_s,`)).toBe(true);
         const back = parsePicksCsv(csv);
         expect(back.unit).toBe('period');
         expect(back.picks).toEqual(picks);
@@ -577,15 +582,45 @@ describe('picksToCsv: round trip', () => {
       { frequency: 5, velocity: 250, kind: 'phase', mode: 1, sd: 7.5 },
     ]);
     expect(csv).toBe(
-      'frequency_hz,velocity_m_s,sd_m_s,kind,mode,note\r\n' +
+      CAUTION_LINE +
+        'frequency_hz,velocity_m_s,sd_m_s,kind,mode,note\r\n' +
         '0.30000000000000004,300,,group,0,"a, ""b"""\r\n' +
         '5,250,7.5,phase,1,\r\n',
     );
   });
 
+  it('starts with the caution as a # comment line, which the reader skips, with every separator and line end', () => {
+    const picks: Pick[] = [{ frequency: 5, velocity: 300, kind: 'group', mode: 0, note: '# not a comment: a note' }];
+    for (const opts of [{}, { separator: ';' as const, decimalComma: true }, { lineEnding: '\n' as const }]) {
+      const csv = picksToCsv(picks, opts);
+      expect(csv.split(/\r?\n/)[0]).toBe(`# ${CAUTION}`);
+      expect(parsePicksCsv(csv).picks).toEqual(picks);
+      expect(checkPicksCsv(csv).parsed!.picks).toEqual(picks);
+    }
+  });
+
   it('refuses a decimal comma with the comma separator', () => {
     expect(inputError(() => picksToCsv([], { separator: ',', decimalComma: true })).message).toBe(
       'decimalComma needs the semicolon separator; a comma cannot be both.',
+    );
+  });
+});
+
+describe('parsePicksCsv: # comment lines above the header', () => {
+  it('skips comment and blank lines above the header, keeps true line numbers, and takes the separator from the header', () => {
+    const text = '\uFEFF# Invented survey, line A; spread 46 m\n\n  # second comment, with "quotes"\r\nfrequency_hz;velocity_m_s\n5;300\n6;-4\n';
+    expect(inputError(() => parsePicksCsv(text)).message).toMatch(/^Row 2 \(line 6\), column velocity_m_s: /);
+    expect(parsePicksCsv(text.replace('6;-4\n', '')).picks).toEqual([{ frequency: 5, velocity: 300, kind: 'group', mode: 0 }]);
+    expect(parsePicksCsv(text.replace('6;-4\n', '')).separator).toBe(';');
+  });
+
+  it('a file of comments only is empty, and a # line below the header is a row (an id may start with #), with a hint when it does not fit', () => {
+    expect(inputError(() => parsePicksCsv('# only a comment\n')).message).toBe(
+      'The picks file is empty; it needs a header row (e.g. frequency_hz,velocity_m_s) and at least one pick.',
+    );
+    expect(parsePicksCsv('id,frequency_hz,velocity_m_s\n#7,5,300\n').picks).toEqual([{ id: '#7', frequency: 5, velocity: 300, kind: 'group', mode: 0 }]);
+    expect(inputError(() => parsePicksCsv('frequency_hz,velocity_m_s\n5,300\n# a late comment\n')).message).toBe(
+      'Row 2 (line 3), column velocity_m_s: is missing: the row has 1 fields but the header names 2 columns. A line starting with # is a comment only above the header row.',
     );
   });
 });

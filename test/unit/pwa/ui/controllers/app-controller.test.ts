@@ -16,6 +16,7 @@ import { AppController } from '../../../../../pwa/ui/controllers/app-controller'
 import type { EstimateRunner, SliceRunner } from '../../../../../pwa/ui/controllers/estimate-controller';
 import type { MisfitSlice } from '../../../../../core/estimate/misfit-slice';
 import { NEW_ROW } from '../../../../../pwa/ui/controllers/app-state';
+import { picksToCsv, type Pick } from '../../../../../core/picks/picks';
 
 let dbCount = 0;
 let store: FieldStore;
@@ -204,6 +205,23 @@ describe('CSV import', () => {
     );
     await c.picks.undo();
     expect((await store.listPicks(c.current.openSiteId!)).map((p) => p.velocity)).toEqual([180]);
+  });
+
+  it('reads back an exported picks file exactly: the caution comment line above the header is skipped', async () => {
+    const c = await started();
+    const picks: Pick[] = [
+      { frequency: 5, velocity: 300, sd: 9, kind: 'phase', mode: 1, note: '# not a comment, "quoted"' },
+      { frequency: 7.25, velocity: 281.5, kind: 'group', mode: 0 },
+    ];
+    const text = picksToCsv(picks);
+    expect(text.startsWith(`# ${CAUTION}\r\n`)).toBe(true);
+    await c.imports.importCsv(text);
+    expect(c.current.importState.error).toBeFalsy();
+    const stored = await store.listPicks(c.current.openSiteId!);
+    expect(stored.map(({ frequency, velocity, sd, kind, mode, note }) => ({ frequency, velocity, sd, kind, mode, note }))).toEqual([
+      picks[0],
+      { ...picks[1], sd: undefined, note: undefined },
+    ]);
   });
 
   it('leaves the table unchanged when the write itself fails', async () => {
