@@ -22,7 +22,11 @@
  *    where the overtones start);
  *  - where |F| (only smooth positive factors taken out, so its size is
  *    meaningful) has a local minimum between two grid points of one sign,
- *    the minimum is searched (Brent's minimiser); if F changes sign there, the
+ *    and the exact slopes d ln|F|/dc at the two ends (rayleighSecularSlope,
+ *    forward differentiation) confirm a valley, |F| falling into the cell
+ *    from both ends (two hidden roots need that, unless F also turns at an
+ *    extremum within the same cell: three roots or extrema crowded into
+ *    π/8 of vertical phase), the minimum is searched (Brent's minimiser); if F changes sign there, the
  *    two close roots of an osculation (two branches that nearly touch, e.g.
  *    a mode of a buried low-velocity layer meeting one of the crust) are
  *    both reported; if it does not, the outcome notes the close approach;
@@ -52,7 +56,17 @@
  * relative, less beside such roots.
  */
 import { brent, type RootStatus } from '../numeric/roots';
-import { rayleighSecular, rayleighSecularDerivatives, secularScale, type RayleighStack } from './rayleigh-secular';
+import {
+  rayleighSecular,
+  rayleighSecularDerivatives,
+  rayleighSecularSlope,
+  secularScale,
+  secularSlope,
+  type RayleighStack,
+  type SecularDerivatives,
+} from './rayleigh-secular';
+
+const slopeScratch: SecularDerivatives = { value: 0, dc: 0, dk: 0 };
 
 export { prepareRayleighStack, rayleighSecular, type RayleighStack } from './rayleigh-secular';
 
@@ -107,8 +121,10 @@ export interface RayleighSolveOutcome {
   found: number;
   /** True when the scan reached β_H, so `found` is every mode at this frequency. */
   complete: boolean;
-  /** Evaluations of the secular function used. */
+  /** Evaluations of the secular function used (value or value with slope). */
   evaluations: number;
+  /** Of these, evaluations with the slope ∂F/∂c (about twice the cost of a value). */
+  slopeEvaluations: number;
   /** Close pairs of roots and near misses met by the scan (normally empty). */
   close: CloseApproach[];
 }
@@ -128,9 +144,13 @@ export class RayleighStackSolver {
     found: 0,
     complete: false,
     evaluations: 0,
+    slopeEvaluations: 0,
     close: [],
   };
   private omega = 0;
+  private readonly slopeAt = new Float64Array([NaN, NaN]);
+  private readonly slopeVal = new Float64Array(2);
+  private slopeNext = 0;
   private readonly f = (c: number): number => {
     this.outcome.evaluations++;
     return rayleighSecular(this.stack, this.omega, c);
@@ -181,7 +201,9 @@ export class RayleighStackSolver {
     o.found = 0;
     o.complete = false;
     o.evaluations = 0;
+    o.slopeEvaluations = 0;
     o.close = [];
+    this.slopeAt.fill(NaN);
     if (!(omega > 0) || modes <= 0 || !(this.floor > 0)) return 0;
     this.omega = omega;
     const top = this.stack.vsH;
@@ -219,7 +241,7 @@ export class RayleighStackSolver {
         const rightWall = c1 >= top || g1 < g2 || changeNext;
         const dipLeft = g0 < gPrev && g0 <= g1;
         const dipRight = c1 < top && g1 < g0 && g1 <= g2;
-        if ((leftWall && rightWall) || dipLeft || dipRight) this.probe(c0, f0, c1, f1, out, modes);
+        if (((leftWall && rightWall) || dipLeft || dipRight) && this.valley(c0, c1, top)) this.probe(c0, f0, c1, f1, out, modes);
       }
       gPrev = g0;
       changePrev = change;
@@ -236,6 +258,51 @@ export class RayleighStackSolver {
       if (gap <= CLOSE_ROOTS_RTOL * out[i + 1]) o.close.push({ mode: i, c: 0.5 * (out[i] + out[i + 1]), gap });
     }
     return o.found;
+  }
+
+  /** d ln|F̃|/dc at c (F̃ the scaled secular function), cached for the last two points asked. */
+  private logSlope(c: number): number {
+    if (c === this.slopeAt[0]) return this.slopeVal[0];
+    if (c === this.slopeAt[1]) return this.slopeVal[1];
+    this.outcome.evaluations++;
+    this.outcome.slopeEvaluations++;
+    const d = rayleighSecularSlope(this.stack, this.omega, c, slopeScratch);
+    const v = d.dc / d.value + secularSlope.scale;
+    const i = this.slopeNext;
+    this.slopeAt[i] = c;
+    this.slopeVal[i] = v;
+    this.slopeNext = 1 - i;
+    return v;
+  }
+
+  /**
+   * False when the cell (ca, cb), whose ends share a sign, cannot be the
+   * valley that two hidden roots make: |F̃| rises from its left end into
+   * it (d ln|F̃|/dc ≥ 0 at ca) or falls from its right end into it
+   * (≤ 0 at cb). Two roots r₁ < r₂ inside need |F̃| to fall from ca to
+   * r₁ and rise from r₂ to cb; with the slopes the other way, F must also
+   * turn at an extremum between an end and the pair, i.e. three roots or
+   * extrema within one cell of π/8 vertical phase (header). Where the cell
+   * holds a layer's α or β, the scale factor e^{−√a L} of that wave has a
+   * square-root kink: it is taken back out (below). True (probe) for the
+   * cell that ends at β_H, where F is analytic in r_β, not in c.
+   */
+  private valley(ca: number, cb: number, top: number): boolean {
+    if (cb >= top) return true;
+    const s = this.stack;
+    let left = this.logSlope(ca);
+    // A wave whose speed v lies in (ca, cb] has its factor e^{−√a L} taken back out at ca: the
+    // function judged, F̃·e^{√a L}, is then analytic over the cell (and its slope at ca only lower).
+    for (let j = 0; j < s.count; j++) {
+      const L = (this.omega / ca) * s.thickness[j];
+      const xj = (ca * ca) / (s.vs[j] * s.vs[j]);
+      if (s.vs[j] > ca && s.vs[j] <= cb) left -= (L * xj) / (ca * Math.sqrt(1 - xj));
+      const pj = s.p[j];
+      if (s.vp[j] > ca && s.vp[j] <= cb) left -= (L * pj * xj) / (ca * Math.sqrt(1 - pj * xj));
+    }
+    if (!(left < 0)) return false;
+    const right = this.logSlope(cb);
+    return !(right <= 0);
   }
 
   /**
