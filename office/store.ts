@@ -573,6 +573,27 @@ export class OfficeStore {
     return { recordings, files, cursor, more };
   }
 
+  /**
+   * What a site bundle carries of the stored seismograph files (as the app's
+   * bundles do, core/exchange/bundle.ts): every recording record of the
+   * given sites (all sites when none are given), deletions included so they
+   * travel, and the raw file of each live recording whose site chose to send
+   * it (attach) and that the office holds, in base64. Ordered by id.
+   */
+  recordingsForBundle(siteIds?: readonly string[]): { recordings: RecordingRecord[]; files: RecordingFile[] } {
+    const only = siteIds ? new Set(siteIds) : undefined;
+    const rows = this.db.prepare('SELECT site_id, body FROM recordings ORDER BY id').all() as { site_id: string; body: string }[];
+    const recordings = rows.filter((r) => !only || only.has(r.site_id)).map((r) => JSON.parse(r.body) as RecordingRecord);
+    const getFile = this.db.prepare('SELECT sha256, bytes FROM recording_files WHERE id = ?');
+    const files: RecordingFile[] = [];
+    for (const rec of recordings) {
+      if (!rec.attach || rec.deleted) continue;
+      const file = getFile.get(rec.id) as { sha256: string; bytes: Buffer } | undefined;
+      if (file && file.sha256 === rec.sha256) files.push({ id: rec.id, sha256: file.sha256, bytes_base64: file.bytes.toString('base64') });
+    }
+    return { recordings, files };
+  }
+
   /** Counts for status lines. */
   counts(): { records: number; versions: number; conflicts: number; batches: number } {
     const one = (sql: string) => (this.db.prepare(sql).get() as { n: number }).n;

@@ -6,16 +6,19 @@ import { writeFileSync } from 'node:fs';
 import { parseArgs } from 'node:util';
 import { bundleRecords, bundleToJson, makeBundle, MAX_BUNDLE_CHARS } from '../../core/exchange/bundle';
 import { checkRecordLimits } from '../../core/exchange/record-limits';
-import type { AnyRecord } from '../../core/exchange/records';
+import type { StoredRecord } from '../../core/exchange/records';
 import { InputError } from '../../core/shared/errors';
 import type { Command, CommandIO } from '../command';
 import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 
 const HELP = `Usage: shearfield bundle-export OUT.json [--site SITE_ID ...] [--data DIR]
 
-Writes every site in the office store (or only the --site ones) with its picks and
-estimates as one site bundle (JSON, format version 1; schema/site-bundle.schema.json),
-deletions and kept conflicts included, for a tablet to import. "-" writes to stdout.
+Writes every site in the office store (or only the --site ones) with its picks,
+estimates and seismograph file records as one site bundle (JSON, format version 1;
+schema/site-bundle.schema.json), deletions and kept conflicts included, for a tablet or
+bundle-import to read. A seismograph file's raw bytes go in (base64, checked by SHA-256
+on import) when its site chose to send them and the office holds them, as in the app's
+bundles. "-" writes to stdout.
 The file is compact JSON, one record per line, and always imports again: a record beyond
 the record bound (32 levels, 262,144 characters) or a file over the bundle limit (64 Mi
 characters) stops the export with a sentence saying which, and nothing is written.
@@ -26,7 +29,7 @@ Options:
   -h, --help  Show this help.`;
 
 /** Refuses a record the bundle check would refuse on import (one stored before the record bound existed). */
-function checkExportable(rec: AnyRecord): void {
+function checkExportable(rec: StoredRecord): void {
   try {
     checkRecordLimits(rec, '');
   } catch (e) {
@@ -56,9 +59,10 @@ const bundleExport: Command = {
       const records = store.allRecords();
       const known = new Set(records.filter((r) => r.type === 'site').map((r) => r.id));
       for (const id of values.site ?? []) if (!known.has(id)) throw new InputError('--site', `No site with id ${JSON.stringify(id)} is in the office store.`);
-      const bundle = makeBundle(records, { exportedBy: 'office', siteIds: values.site });
+      const { recordings, files } = store.recordingsForBundle(values.site);
+      const bundle = makeBundle(records, { exportedBy: 'office', siteIds: values.site, recordings, recordingFiles: files });
       // The office's own export always imports again: every record within the record bound, the file within the bundle limit.
-      for (const rec of bundleRecords(bundle)) checkExportable(rec);
+      for (const rec of [...bundleRecords(bundle), ...(bundle.recordings ?? [])]) checkExportable(rec);
       const text = bundleToJson(bundle);
       if (text.length > MAX_BUNDLE_CHARS) {
         throw new InputError(
@@ -69,7 +73,11 @@ const bundleExport: Command = {
       if (positionals[0] === '-') io.out(text);
       else {
         writeFileSync(positionals[0], text);
-        io.out(`Wrote ${bundle.sites.length} sites, ${bundle.picks.length} picks and ${bundle.estimates.length} estimates to ${positionals[0]}.\n`);
+        const held = bundle.recordings?.length ?? 0;
+        const what = held > 0
+          ? `${bundle.picks.length} picks, ${bundle.estimates.length} estimates and ${held} seismograph file records (${bundle.recordingFiles?.length ?? 0} with the raw file)`
+          : `${bundle.picks.length} picks and ${bundle.estimates.length} estimates`;
+        io.out(`Wrote ${bundle.sites.length} sites, ${what} to ${positionals[0]}.\n`);
       }
     } finally {
       store.close();
