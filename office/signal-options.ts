@@ -16,6 +16,7 @@ export const METHODS: readonly ImageMethod[] = ['multiple-filter', 'phase-shift'
 export const SIGNAL_OPTIONS = {
   method: { type: 'string' },
   trace: { type: 'string' },
+  'near-trace': { type: 'string' },
   freq: { type: 'string' },
   velocity: { type: 'string' },
   offsets: { type: 'string' },
@@ -26,6 +27,11 @@ export const SIGNAL_OPTIONS_HELP = `  --method M             multiple-filter (gr
                          the whole gather, Park, Miller & Xia 1998). Required.
   --trace K              multiple-filter only: the trace to analyse, 1 = the first in
                          the file. Default: the trace farthest from the source.
+  --near-trace K         multiple-filter only: a second trace nearer the source (1 = the
+                         first in the file). The image is then of the pair: the delay
+                         between the two receivers over their distance apart, so an
+                         error in the record's trigger time cancels. Default: one trace,
+                         timed from the source.
   --freq FROM:TO:COUNT   Frequencies (rows), Hz, evenly spaced. Default: from
                          max(2 Hz, 4 / record length) to min(0.4 / sample interval,
                          100 Hz), 100 rows. Phase-shift rows use the spectral line
@@ -54,6 +60,7 @@ export function parseAxis(text: string, field: string, unit: string): Float64Arr
 export interface SignalValues {
   method?: string;
   trace?: string;
+  'near-trace'?: string;
   freq?: string;
   velocity?: string;
   offsets?: string;
@@ -105,16 +112,38 @@ export function imageOf(gather: Gather, v: SignalValues): DispersionImage {
   const velocities = v.velocity !== undefined ? parseAxis(v.velocity, '--velocity', 'm/s') : undefined;
   const axes = { ...(frequencies ? { frequencies } : {}), ...(velocities ? { velocities } : {}) };
   if (method === 'phase-shift') {
-    if (v.trace !== undefined) throw new InputError('--trace', '--trace applies to --method multiple-filter only; the phase-shift method uses every trace.');
+    for (const o of ['trace', 'near-trace'] as const) {
+      if (v[o] !== undefined) throw new InputError(`--${o}`, `--${o} applies to --method multiple-filter only; the phase-shift method uses every trace.`);
+    }
     return phaseShiftImage(gather, axes);
   }
-  let trace: number | undefined;
-  if (v.trace !== undefined) {
-    const k = parseNumber(v.trace, '--trace', 'K');
-    if (!Number.isInteger(k) || k < 1 || k > gather.traces.length) {
-      throw new InputError('--trace', `--trace must be a trace number from 1 to ${gather.traces.length}, but it is ${k}.`);
-    }
-    trace = k - 1;
+  const trace = v.trace !== undefined ? traceNumber(v.trace, '--trace', gather) : undefined;
+  if (v['near-trace'] === undefined) return multipleFilterImage(gather, { ...axes, ...(trace !== undefined ? { trace } : {}) });
+  // The two-receiver form (core/signal/multiple-filter.ts `reference`): the near trace must be nearer the source.
+  const reference = traceNumber(v['near-trace'], '--near-trace', gather);
+  const far = trace ?? farthestTrace(gather.offsets);
+  const [xNear, xFar] = [Number(gather.offsets[reference]), Number(gather.offsets[far])];
+  if (!(xNear < xFar)) {
+    throw new InputError(
+      '--near-trace',
+      `--near-trace must be a trace nearer the source than the analysed trace ${far + 1} (at ${xFar} m), but trace ${reference + 1} is at ${xNear} m.`,
+    );
   }
-  return multipleFilterImage(gather, { ...axes, ...(trace !== undefined ? { trace } : {}) });
+  return multipleFilterImage(gather, { ...axes, trace: far, reference });
+}
+
+/** A trace number option (1-based) as a 0-based index, within the gather. */
+function traceNumber(text: string, field: '--trace' | '--near-trace', gather: Gather): number {
+  const k = parseNumber(text, field, 'K');
+  if (!Number.isInteger(k) || k < 1 || k > gather.traces.length) {
+    throw new InputError(field, `${field} must be a trace number from 1 to ${gather.traces.length}, but it is ${k}.`);
+  }
+  return k - 1;
+}
+
+/** The trace farthest from the source (the first of equals), as multipleFilterImage's default. */
+function farthestTrace(offsets: ArrayLike<number>): number {
+  let best = 0;
+  for (let j = 1; j < offsets.length; j++) if (offsets[j] > offsets[best]) best = j;
+  return best;
 }

@@ -13,7 +13,7 @@ import type { Command, CommandIO } from '../command';
 import { imageOf, oneRecordPath, readGather, SIGNAL_OPTIONS, SIGNAL_OPTIONS_HELP } from '../signal-options';
 
 const HELP = `Usage: shearfield image FILE --method multiple-filter|phase-shift [--trace K]
-                        [--freq FROM:TO:COUNT] [--velocity FROM:TO:COUNT]
+                        [--near-trace K] [--freq FROM:TO:COUNT] [--velocity FROM:TO:COUNT]
                         [--offsets FIRST:SPACING]
 
 A dispersion image of a seismograph record (SEG-Y, SEG-2 or CSV traces):

@@ -13,7 +13,7 @@ import type { Command, CommandIO } from '../command';
 import { imageOf, oneRecordPath, readGather, SIGNAL_OPTIONS, SIGNAL_OPTIONS_HELP } from '../signal-options';
 
 const HELP = `Usage: shearfield pick FILE --method multiple-filter|phase-shift [--trace K]
-                       [--seed-hz F] [--freq FROM:TO:COUNT] [--velocity FROM:TO:COUNT]
+                       [--near-trace K] [--seed-hz F] [--freq FROM:TO:COUNT] [--velocity FROM:TO:COUNT]
                        [--offsets FIRST:SPACING]
 
 Follows the strongest fundamental-mode ridge of a record's dispersion image
