@@ -197,8 +197,13 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
         Loading the view…
       </p>
     );
-  const estimateCaption =
-    s.estimate.status === 'running'
+  // After a layered estimate the picks plot draws its best-fit curves (Love and/or Rayleigh), faint when not resolved.
+  const best = s.layered.best;
+  const layeredCurves =
+    best.result && best.band && best.caption ? { band: best.band, curves: best.result.curves, unsupported: best.verdict?.level === 'unresolved' } : undefined;
+  const estimateCaption = layeredCurves
+    ? `${best.caption} ${CAUTION}`
+    : s.estimate.status === 'running'
       ? 'Best-fit curves: computing…'
       : s.estimate.result
         ? `${bestFitCaption(s.estimate.result.thickness, s.estimate.result.verdict)} ${CAUTION}`
@@ -258,8 +263,9 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           <PlotPanel
             id="plot-h"
             picks={s.picks}
-            model={fitted}
-            curveLabel="best fit"
+            model={layeredCurves ? undefined : fitted}
+            computed={layeredCurves}
+            curveLabel={layeredCurves ? 'layered best fit' : 'best fit'}
             caption={estimateCaption}
             selectedId={s.selectedPickId}
             settings={s.plot}
@@ -315,6 +321,29 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           picks={s.picks}
         />
       ) : s.view === 'whatif' && views ? (
+        <>
+        <div class="seg whatif-tabs" role="group" aria-label="What-if model">
+          <button type="button" aria-pressed={s.layered.tab === 'one'} onClick={() => c.layered.setTab('one')}>
+            One layer (sliders)
+          </button>
+          <button type="button" aria-pressed={s.layered.tab === 'layers'} onClick={() => c.layered.setTab('layers')}>
+            Layer builder
+          </button>
+        </div>
+        {s.layered.tab === 'layers' ? (
+          <views.LayerBuilderView
+            state={s.layered}
+            picks={s.picks}
+            hasProfile={!!s.profile.result}
+            hasEstimate={!!s.estimate.result}
+            selectedId={s.selectedPickId}
+            plot={s.plot}
+            theme={s.theme}
+            layered={c.layered}
+            onSelect={(id) => c.picks.selectPick(id)}
+            onPlot={(p) => c.settings.setPlot(p)}
+          />
+        ) : (
         <views.WhatIfView
           model={s.whatif}
           result={s.estimate.result}
@@ -326,6 +355,8 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           onSelect={(id) => c.picks.selectPick(id)}
           onPlot={(p) => c.settings.setPlot(p)}
         />
+        )}
+        </>
       ) : s.view === 'survey' && views ? (
         <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.settings.setSurveyDepth(t)} />
       ) : (

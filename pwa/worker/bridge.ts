@@ -22,12 +22,14 @@ import type { Pick } from '../../core/picks/picks';
 import type { SiteFigures, SiteOptions, TwoLayerBest, TwoLayerRanges } from '../../core/site/site';
 import type { ProfileResult } from '../../core/profile/profile-estimate';
 import type { ComputeApi, ComputeFailure, ComputeOutcome, CurvesResult, WorkerEstimateOptions, WorkerImageOptions, WorkerProfileOptions } from './compute-api';
+import type { TrialRequest, TrialResult } from './model-trial';
 import type { GeometryOverrides, Recording } from '../../core/recordings/recording';
 import type { Gather } from '../../core/signal/gather';
 import type { DispersionImage } from '../../core/signal/image';
 import type { Ridge } from '../../core/signal/ridge';
 
 export type { CurvesResult, WorkerEstimateOptions, WorkerImageOptions, WorkerProfileOptions } from './compute-api';
+export type { TrialCurves, TrialFit, TrialRequest, TrialResult } from './model-trial';
 
 /** What the bridge needs of a worker: a comlink endpoint that can be terminated. */
 export interface WorkerLike extends Endpoint {
@@ -286,6 +288,15 @@ export function computeImage(gather: Gather, options: WorkerImageOptions, signal
 /** The ridge through a tapped point of an image, in the worker (core/signal/ridge.ts). */
 export function computeRidge(image: DispersionImage, tap: { frequency: number; velocity: number }, signal?: AbortSignal): Promise<Ridge> {
   return computeBridge().call('followRidge', [image, tap], signal);
+}
+
+/**
+ * A layered model's curves (Love and/or Rayleigh) on `request.band`, its
+ * misfit against the picks and its site figures, in the worker
+ * (model-trial.ts). Bad models reject with an InputError naming the field.
+ */
+export function computeModelTrial(model: LayeredModel, request: TrialRequest, signal?: AbortSignal): Promise<TrialResult> {
+  return computeBridge().call('modelTrial', [model, request], signal);
 }
 
 /** Site figures of a layered model (core/site/site.ts siteFigures). */

@@ -15,6 +15,7 @@ import { misfitSlice, type MisfitSlice, type MisfitSliceOptions, type SliceCentr
 import type { LayeredModel } from '../../core/dispersion/model';
 import { estimateProfile, type ProfileOptions, type ProfileResult } from '../../core/profile/profile-estimate';
 import type { Pick } from '../../core/picks/picks';
+import { trialBuffers, trialModel, type TrialRequest, type TrialResult } from './model-trial';
 import { readRecording } from '../../core/recordings/read';
 import type { GeometryOverrides, Recording } from '../../core/recordings/recording';
 import { demoRecord } from '../../core/signal/demo-record';
@@ -253,6 +254,15 @@ export const computeApi = {
       () => followRidge(image, tap),
       (r) => [r.rows.buffer, r.frequency.buffer, r.velocity.buffer, r.sd.buffer, r.level.buffer],
     );
+  },
+
+  /**
+   * A layered model's Love and/or Rayleigh curves on the plot's band, its
+   * misfit against the picks and its site figures (model-trial.ts): the
+   * what-if of N layers and the layered estimate's best-fit curves.
+   */
+  modelTrial(model: LayeredModel, request: TrialRequest): Computed<TrialResult> {
+    return run(() => trialModel(model, request), trialBuffers);
   },
 
   /** Site figures of a layered model (core/site/site.ts). */

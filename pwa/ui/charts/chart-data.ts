@@ -181,3 +181,60 @@ export function extentOf(columns: readonly ArrayLike<number>[], pad: readonly Ar
   });
   return lo <= hi ? [lo, hi] : [NaN, NaN];
 }
+
+/** Curves computed elsewhere (in the worker) on one band, to lay out for the plot. */
+export interface ComputedCurves {
+  /** The frequencies the curves were computed on, Hz ascending. */
+  band: Float64Array;
+  curves: readonly {
+    wave: 'love' | 'rayleigh';
+    modes: readonly { mode: number; frequency: Float64Array; phase: Float64Array; group: Float64Array }[];
+  }[];
+}
+
+/** One laid-out curve: its wave, mode and kind. */
+export interface ComputedKey extends CurveKey {
+  wave: 'love' | 'rayleigh';
+}
+
+/**
+ * Computed curves on one x column in the chosen quantity: for each wave,
+ * every computed mode in the kinds picked for that wave (phase when there
+ * are no picks of it), NaN where a mode does not exist.
+ */
+export function computedColumns(
+  c: ComputedCurves,
+  picks: readonly PlotPick[],
+  axis: AxisQuantity,
+): { keys: ComputedKey[]; x: Float64Array; y: Float64Array[] } {
+  const band = c.band;
+  const n = band.length;
+  const reverse = axis === 'period';
+  const x = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const f = band[reverse ? n - 1 - i : i];
+    x[i] = reverse ? 1 / f : f;
+  }
+  const keys: ComputedKey[] = [];
+  const y: Float64Array[] = [];
+  for (const w of c.curves) {
+    const kinds = [...new Set(picks.filter((p) => (p.wave ?? 'love') === w.wave).map((p) => p.kind))].sort();
+    for (const mc of w.modes) {
+      if (mc.frequency.length === 0) continue;
+      for (const kind of kinds.length ? kinds : (['phase'] as const)) {
+        const col = new Float64Array(n).fill(NaN);
+        const src = kind === 'phase' ? mc.phase : mc.group;
+        let j = 0;
+        for (let i = 0; i < n && j < mc.frequency.length; i++) {
+          if (band[i] === mc.frequency[j]) {
+            col[reverse ? n - 1 - i : i] = src[j];
+            j++;
+          }
+        }
+        keys.push({ wave: w.wave, mode: mc.mode, kind });
+        y.push(col);
+      }
+    }
+  }
+  return { keys, x, y };
+}

@@ -12,12 +12,15 @@ import uPlot from 'uplot';
 import 'uplot/dist/uPlot.min.css';
 import type { LayeredModel } from '../../../core/dispersion/model';
 import {
+  computedColumns,
   curveColumns,
   curveKeysOf,
   extentOf,
   pickColumns,
   plotBand,
   type AxisQuantity,
+  type ComputedCurves,
+  type ComputedKey,
   type CurveColumns,
   type CurveKey,
   type PickColumns,
@@ -32,6 +35,12 @@ export interface PlotInput {
   curveLabel: string;
   /** A second model drawn thin and grey for comparison (the best fit under a what-if model). */
   compare?: LayeredModel;
+  /**
+   * Curves computed in the worker (Love and/or Rayleigh, several layers),
+   * drawn instead of `model`'s; `unsupported` draws them thin and faint (an
+   * estimate the picks do not resolve).
+   */
+  computed?: ComputedCurves & { unsupported?: boolean };
   selectedId?: string;
   axis: AxisQuantity;
   xLog: boolean;
@@ -69,7 +78,23 @@ export function modeColour(p: { modes: string[] }, mode: number): string {
 }
 
 function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolean, hasCompare = false): string {
-  return [input.axis, input.xLog, input.yLog, input.theme, hasModel, hasCompare, keys.map((k) => `${k.mode}${k.kind}`).join(',')].join('|');
+  const k = keys.map((c) => `${(c as Partial<ComputedKey>).wave ?? ''}${c.mode}${c.kind}`).join(',');
+  return [input.axis, input.xLog, input.yLog, input.theme, hasModel, hasCompare, !!input.computed?.unsupported, k].join('|');
+}
+
+/**
+ * Dash pattern of a curve, so Love and Rayleigh curves differ by line style
+ * as well as colour: Love group solid, Love phase dashed; Rayleigh phase
+ * dash-dot, Rayleigh group dash-dot-dot.
+ */
+export function curveDash(wave: 'love' | 'rayleigh', kind: 'phase' | 'group'): number[] | undefined {
+  if (wave === 'rayleigh') return kind === 'phase' ? [12, 4, 2, 4] : [12, 4, 2, 4, 2, 4];
+  return kind === 'phase' ? [8, 5] : undefined;
+}
+
+/** A colour at half strength (for curves the data do not support). */
+function faded(colour: string): string {
+  return /^#[0-9a-f]{6}$/i.test(colour) ? `${colour}80` : colour;
 }
 
 /** NaN → null, as uPlot draws gaps only at null. */
@@ -122,14 +147,19 @@ export class DispersionPlot {
     const input = this.pending;
     if (!input) return;
     this.pending = undefined;
-    const keys = curveKeysOf(input.picks);
+    let keys: CurveKey[] = curveKeysOf(input.picks);
     this.picks = pickColumns(input.picks, input.axis);
     this.ids = input.picks.map((p) => p.id);
     this.selected = input.selectedId ? this.ids.indexOf(input.selectedId) : -1;
     let band: Float64Array;
     try {
       band = plotBand(input.picks);
-      this.curves = input.model ? curveColumns(input.model, band, keys, input.axis) : undefined;
+      if (input.computed) {
+        const c = computedColumns(input.computed, input.picks, input.axis);
+        band = input.computed.band;
+        keys = c.keys;
+        this.curves = { keys: c.keys, x: c.x, y: c.y, cutoffs: [] };
+      } else this.curves = input.model ? curveColumns(input.model, band, keys, input.axis) : undefined;
     } catch {
       this.curves = undefined;
       band = new Float64Array(0);
@@ -137,7 +167,7 @@ export class DispersionPlot {
     // The comparison curves share the band (and so the x column) of the main curves.
     let compare: CurveColumns | undefined;
     try {
-      compare = this.curves && input.compare ? curveColumns(input.compare, band, keys, input.axis) : undefined;
+      compare = this.curves && input.compare && !input.computed ? curveColumns(input.compare, band, keys, input.axis) : undefined;
     } catch {
       compare = undefined;
     }
@@ -200,12 +230,15 @@ export class DispersionPlot {
     });
     const series: uPlot.Series[] = [{}];
     if (this.curves) {
+      const faint = !!input.computed?.unsupported;
       for (const k of keys) {
+        const wave = (k as Partial<ComputedKey>).wave ?? 'love';
+        const colour = wave === 'rayleigh' ? pal.rayleigh : modeColour(pal, k.mode);
         series.push({
-          label: `${input.curveLabel}: mode ${k.mode} ${k.kind}`,
-          stroke: modeColour(pal, k.mode),
-          width: 2.5,
-          dash: k.kind === 'phase' ? [8, 5] : undefined,
+          label: `${input.curveLabel}: ${wave} mode ${k.mode} ${k.kind}`,
+          stroke: faint ? faded(colour) : colour,
+          width: faint ? 1.25 : k.mode === 0 ? 2.5 : 1.75,
+          dash: curveDash(wave, k.kind),
           points: { show: false },
           spanGaps: false,
         });

@@ -6,6 +6,7 @@ import { useEffect, useRef, useState } from 'preact/hooks';
 import type { LayeredModel } from '../../../core/dispersion/model';
 import type { PickRecord } from '../../../core/exchange/records';
 import type { DispersionPlot } from './plot-engine';
+import type { ComputedCurves } from './chart-data';
 import type { PlotSettings } from '../controllers/app-state';
 
 export interface PlotPanelProps {
@@ -15,6 +16,8 @@ export interface PlotPanelProps {
   curveLabel: string;
   /** A second model drawn thin and grey for comparison (the best fit under the what-if curves). */
   compare?: LayeredModel;
+  /** Curves computed in the worker (Love and/or Rayleigh, several layers), drawn instead of the model's; unsupported: thin and faint. */
+  computed?: ComputedCurves & { unsupported?: boolean };
   selectedId?: string;
   settings: PlotSettings;
   theme: string;
@@ -60,14 +63,14 @@ export function PlotPanel(props: PlotPanelProps) {
 
   useEffect(() => {
     engine.current?.update(inputOf(props));
-  }, [props.picks, props.model, props.compare, props.selectedId, props.settings, props.theme, props.curveLabel]);
+  }, [props.picks, props.model, props.compare, props.computed, props.selectedId, props.settings, props.theme, props.curveLabel]);
 
   const s = props.settings;
   const kinds = new Set(props.picks.map((p) => `${p.wave === 'rayleigh' ? 'rayleigh' : 'love'}-${p.kind}`));
   const modes = [...new Set(props.picks.map((p) => p.mode))].sort((a, b) => a - b);
   const summary =
     `Dispersion plot: ${props.picks.length} pick(s), velocity in m/s against ${s.axis === 'frequency' ? 'frequency in Hz' : 'period in s'}` +
-    (props.model ? `, with the ${props.curveLabel} curves.` : '.') +
+    (props.model || props.computed ? `, with the ${props.curveLabel} curves.` : '.') +
     ' The picks table lists the same values.';
   return (
     <section class="panel plot-panel" aria-labelledby={props.id}>
@@ -97,10 +100,10 @@ export function PlotPanel(props: PlotPanelProps) {
       </div>
       {props.caption ? <p class="caption">{props.caption}</p> : null}
       {/* With nothing to draw the axes would be meaningless (0–1 m/s): the plot waits, hidden, and says why. */}
-      {props.picks.length === 0 && !props.model ? (
+      {props.picks.length === 0 && !props.model && !props.computed ? (
         <p class="empty plot-empty">No picks yet: the plot appears with the first pick.</p>
       ) : null}
-      <div class={`plot-host${props.picks.length === 0 && !props.model ? ' is-empty' : ''}`} ref={host} role="img" aria-label={summary} />
+      <div class={`plot-host${props.picks.length === 0 && !props.model && !props.computed ? ' is-empty' : ''}`} ref={host} role="img" aria-label={summary} />
       {failed ? <p class="error" role="alert">{failed}</p> : null}
       <ul class="legend" aria-label="Plot key">
         {modes.map((m) => (
@@ -112,8 +115,20 @@ export function PlotPanel(props: PlotPanelProps) {
         {kinds.has('love-phase') ? <li><span class="glyph diamond" aria-hidden="true" /> Love phase-velocity pick ± 1 sd</li> : null}
         {kinds.has('rayleigh-group') ? <li><span class="glyph square" aria-hidden="true" /> Rayleigh group-velocity pick ± 1 sd</li> : null}
         {kinds.has('rayleigh-phase') ? <li><span class="glyph triangle" aria-hidden="true" /> Rayleigh phase-velocity pick ± 1 sd</li> : null}
-        {props.model ? <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} Love curve (dashed: phase)</li> : null}
-        {props.model && props.compare ? <li><span class="glyph dash" aria-hidden="true" /> best fit, for comparison (thin, grey, dotted)</li> : null}
+        {props.computed ? (
+          props.computed.curves.map((c) => (
+            <li key={c.wave}>
+              <svg class="glyph-svg" width="34" height="10" aria-hidden="true">
+                <line x1="1" y1="5" x2="33" y2="5" class={`curve-${c.wave}`} stroke-dasharray={c.wave === 'rayleigh' ? '12 4 2 4' : '8 5'} />
+              </svg>{' '}
+              {props.curveLabel} {c.wave === 'rayleigh' ? 'Rayleigh curves, dash-dot (phase; group: dash-dot-dot)' : 'Love curves, dashed (phase; group: solid)'}
+              {props.computed?.unsupported ? ', thin and faint: not resolved, for reference only' : ''}
+            </li>
+          ))
+        ) : props.model ? (
+          <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} Love curve (dashed: phase)</li>
+        ) : null}
+        {props.model && props.compare && !props.computed ? <li><span class="glyph dash" aria-hidden="true" /> best fit, for comparison (thin, grey, dotted)</li> : null}
         {props.model && modes.some((m) => m > 0) ? <li><span class="glyph dash" aria-hidden="true" /> higher-mode cutoff</li> : null}
         <li>Tap a pick to select its row.</li>
       </ul>
@@ -127,6 +142,7 @@ function inputOf(p: PlotPanelProps) {
     model: p.model,
     curveLabel: p.curveLabel,
     compare: p.compare,
+    computed: p.computed,
     selectedId: p.selectedId,
     axis: p.settings.axis,
     xLog: p.settings.xLog,

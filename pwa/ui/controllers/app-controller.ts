@@ -17,6 +17,7 @@ import { PicksController } from './picks-controller';
 import { RecordsController, type RecordsCompute } from './records-controller';
 import { RecordingsController } from './recordings-controller';
 import { ProfileController, type ProfileRunner } from './profile-controller';
+import { LayeredController, type TrialRunner } from './layered-controller';
 import { SettingsController } from './settings-controller';
 import { SitesController } from './sites-controller';
 import { messageOf, StateHub } from './state-hub';
@@ -47,7 +48,10 @@ export class AppController {
   /** The layered estimate: run on request, progress and cancel. */
   readonly profiles: ProfileController;
 
-  constructor(estimate?: EstimateRunner, slice?: SliceRunner, recordsCompute?: RecordsCompute, profile?: ProfileRunner) {
+  /** The layer builder, its what-if, and the layered estimate's best-fit curves. */
+  readonly layered: LayeredController;
+
+  constructor(estimate?: EstimateRunner, slice?: SliceRunner, recordsCompute?: RecordsCompute, profile?: ProfileRunner, trial?: TrialRunner) {
     this.estimates = new EstimateController(this.hub, estimate, slice);
     this.picks = new PicksController(this.hub, this.estimates);
     this.imports = new ImportController(this.hub, this.picks, this.estimates);
@@ -57,6 +61,7 @@ export class AppController {
     this.sync = new SyncController(this.hub, this.sites, this.picks, this.recordings);
     this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute, this.recordings);
     this.profiles = new ProfileController(this.hub, profile);
+    this.layered = new LayeredController(this.hub, trial);
   }
 
   get current(): AppState {

@@ -11,6 +11,9 @@ import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
 import type { RecordsState } from './records-controller';
 import type { ProfileResult } from '../../../core/profile/profile-estimate';
+import type { LayeredModel } from '../../../core/dispersion/model';
+import type { TrialResult } from '../../worker/model-trial';
+import type { LayerRowText, PInput, WaveChoice } from './layered-form';
 
 export type ViewName = 'picks' | 'records' | 'estimate' | 'profile' | 'figures' | 'whatif' | 'survey' | 'details';
 export type SiteSort = 'recent' | 'name' | 'date';
@@ -153,6 +156,49 @@ export interface AppState {
   records: RecordsState;
   recordings: RecordingsState;
   profile: ProfileState;
+  /** The layer builder and its what-if, and the layered estimate's best-fit curves (layered-controller.ts). */
+  layered: LayeredState;
+}
+
+/** A model's curves, misfit and figures from the worker, and how far that computation is. */
+export interface TrialState {
+  status: 'idle' | 'running' | 'done' | 'error';
+  /** The model computed (or being computed). */
+  model?: LayeredModel;
+  /** The plot's band the curves were computed on, Hz. */
+  band?: Float64Array;
+  result?: TrialResult;
+  error?: string;
+}
+
+/** The layer builder of the open site (layered-controller.ts). */
+export interface LayeredState {
+  /** Which what-if the What-if view shows: one layer (sliders) or the layer builder. */
+  tab: 'one' | 'layers';
+  pInput: PInput;
+  /** Rows as typed: N layers, then the half-space. */
+  rows: LayerRowText[];
+  waves: WaveChoice;
+  /** Modes drawn per wave, from the fundamental up. */
+  modes: number;
+  /** One sentence per bad value; the stored model is unchanged while any stands. */
+  errors: string[];
+  /** Fields still empty. */
+  empty: number;
+  warnings: string[];
+  /** Where the rows came from, or why the stored model was not changed. */
+  note?: string;
+  /** The kept model could not be written. */
+  saveError?: string;
+  /** The builder's model against the picks. */
+  trial: TrialState;
+  /** The layered estimate's best-fit curves, for the picks plot. */
+  best: TrialState & {
+    verdict?: { level: 'resolved' | 'rough' | 'unresolved'; text: string };
+    layers?: number;
+    /** The picks plot's caption for these curves, with the verdict (an unresolved estimate's curves are for reference only). */
+    caption?: string;
+  };
 }
 
 /** The layered estimate of the open site (profile-controller.ts): run on request, with progress and cancel. */
@@ -205,6 +251,21 @@ export const initialState: AppState = {
   records: { list: [], method: 'phase-shift', overrides: { first: '', spacing: '', delay: '' }, status: 'idle', mode: '0', removed: [] },
   recordings: { list: [], busy: false },
   profile: { status: 'idle', progress: 0, layers: 2, poissonText: '', waterTableText: '' },
+  layered: {
+    tab: 'one',
+    pInput: 'vp',
+    rows: [
+      { thickness: '', vs: '', p: '', density: '' },
+      { thickness: '', vs: '', p: '', density: '' },
+    ],
+    waves: { love: true, rayleigh: false },
+    modes: 3,
+    errors: [],
+    empty: 0,
+    warnings: [],
+    trial: { status: 'idle' },
+    best: { status: 'idle' },
+  },
 };
 
 /** Sites matching the search text (name, crew, notes, date), in the chosen order. */

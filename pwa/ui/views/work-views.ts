@@ -6,6 +6,7 @@
  */
 export { EstimateView } from './estimate-view';
 export { FiguresView } from './figures-view';
+export { LayerBuilderView } from './layer-builder';
 export { RecordsView } from './records-view';
 export { ProfileView } from './profile-view';
 export { SurveyView } from './survey-view';
