@@ -3,7 +3,9 @@
  * app (dist/): with the network cut, create a site, paste 8 Rayleigh picks,
  * open What-if → Layer builder, type a two-layer model with Poisson's
  * ratios, and see its Rayleigh curves drawn against the picks in the
- * worker, the misfit in plain words, Vs30 and the caution; a P speed below
+ * worker, the misfit in plain words, Vs30 and the caution (after a
+ * one-layer profile, whose best-fit Rayleigh curves the picks plot draws
+ * and whose model the builder can start from); a P speed below
  * √(4/3) times the shear speed gets its sentence and the kept model stays;
  * a reload brings the kept model back. The builder's tablet screenshot goes
  * to docs/screenshot-builder.png for the README.
@@ -57,7 +59,7 @@ async function type(label: string, value: string): Promise<void> {
 }
 
 describe('the layer builder in Chromium, offline', () => {
-  it('draws a typed two-layer model’s Rayleigh curves, refuses a bad P speed in a sentence and keeps the model through a reload', async () => {
+  it('draws a layered estimate’s best-fit Rayleigh curves, then a typed two-layer model’s, refuses a bad P speed in a sentence and keeps the model through a reload', async () => {
     await page.getByRole('heading', { name: 'Field sites' }).waitFor();
     await waitForServiceWorkerControl(page);
     await setOffline(app.browser.context, true);
@@ -71,9 +73,22 @@ describe('the layer builder in Chromium, offline', () => {
     await page.getByRole('button', { name: 'Import pasted text' }).click();
     await page.getByRole('heading', { name: 'Picks (8)', exact: true }).waitFor({ timeout: 10_000 });
 
+    // A one-layer profile (a few seconds in the worker): the picks plot then draws its best-fit Rayleigh curves with its verdict.
+    await page.getByRole('button', { name: 'Layered profile' }).click();
+    await page.getByLabel('Number of layers').selectOption('1');
+    await page.getByRole('button', { name: 'Estimate the profile' }).click();
+    await page.getByTestId('profile-chart').waitFor({ timeout: 60_000 });
+    await page.getByRole('button', { name: 'Picks & plot' }).click();
+    await page.getByText('layered best fit Rayleigh curves, dash-dot (phase; group: dash-dot-dot)').waitFor({ timeout: 15_000 });
+    expect(await page.locator('.plot-panel .caption').textContent()).toMatch(/^Layered best.* \(1 layer.*Screening estimate only\./);
+
     await page.getByRole('button', { name: 'What-if', exact: true }).click();
     await page.getByRole('button', { name: 'Layer builder' }).click();
     await page.getByRole('heading', { name: 'Layer builder' }).waitFor();
+    await page.getByRole('button', { name: 'From the layered estimate' }).click();
+    expect(Number(await page.getByLabel('Layer 1 shear speed (m/s)', { exact: true }).inputValue())).toBeGreaterThan(30);
+    await page.getByTestId('builder-misfit').waitFor({ timeout: 15_000 });
+    await page.getByRole('button', { name: 'Blank' }).click();
     await page.getByRole('button', { name: "Poisson's ratio" }).click();
     await page.getByRole('button', { name: 'Add a layer' }).click();
     const rows: [string, number | undefined, number, number][] = [
