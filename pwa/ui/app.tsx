@@ -336,6 +336,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
             picks={s.picks}
             hasProfile={!!s.profile.result}
             hasEstimate={!!s.estimate.result}
+            profileRunning={s.profile.status === 'running'}
             selectedId={s.selectedPickId}
             plot={s.plot}
             theme={s.theme}

@@ -25,6 +25,8 @@ export interface LayerBuilderProps {
   picks: readonly PickRecord[];
   hasProfile: boolean;
   hasEstimate: boolean;
+  /** A layered estimate is running: the worker takes one computation at a time, so the curves wait for it. */
+  profileRunning?: boolean;
   selectedId?: string;
   plot: PlotSettings;
   theme: string;
@@ -212,6 +214,7 @@ export function LayerBuilderView(props: LayerBuilderProps) {
           {t.status === 'running' ? (
             <p class="status" role="status">
               Computing the curves in the background…
+              {props.profileRunning ? ' They wait until the layered estimate in progress finishes (or is cancelled).' : ''}
             </p>
           ) : t.status === 'error' ? (
             <p class="error" role="alert">
