@@ -301,6 +301,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           plot={s.plot}
           theme={s.theme}
           records={c.records}
+          ridge={c.ridge}
           onPlot={(p) => c.settings.setPlot(p)}
         />
       ) : s.view === 'profile' && views ? (

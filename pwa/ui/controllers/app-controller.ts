@@ -14,7 +14,10 @@ import type { AppState, Theme } from './app-state';
 import { EstimateController, type EstimateRunner, type SliceRunner } from './estimate-controller';
 import { ImportController } from './import-controller';
 import { PicksController } from './picks-controller';
-import { RecordsController, type RecordsCompute } from './records-controller';
+import { RecordsController } from './records-controller';
+import { RECORDS_BRIDGE, type RecordsCompute } from './records-state';
+import { RidgeController } from './ridge-controller';
+import { LatestOnly } from '../../worker/bridge';
 import { RecordingsController } from './recordings-controller';
 import { ProfileController, type ProfileRunner } from './profile-controller';
 import { LayeredController, type TrialRunner } from './layered-controller';
@@ -42,8 +45,10 @@ export class AppController {
   readonly settings: SettingsController;
   /** Network state, office sync and bundles. */
   readonly sync: SyncController;
-  /** Seismograph records, their dispersion image and the picks taken from it. */
+  /** Seismograph records: reading the files, keeping them, their geometry. */
   readonly records: RecordsController;
+  /** The open record's dispersion image, its ridge and the picks taken from it. */
+  readonly ridge: RidgeController;
 
   /** The layered estimate: run on request, progress and cancel. */
   readonly profiles: ProfileController;
@@ -59,7 +64,10 @@ export class AppController {
     this.sites = new SitesController(this.hub, this.picks, this.estimates, this.recordings);
     this.settings = new SettingsController(this.hub, this.sites, this.picks, this.estimates);
     this.sync = new SyncController(this.hub, this.sites, this.picks, this.recordings);
-    this.records = new RecordsController(this.hub, this.picks, this.estimates, recordsCompute, this.recordings);
+    const compute = recordsCompute ?? RECORDS_BRIDGE;
+    const latest = new LatestOnly(); // one queue for the Records view: a new reading aborts a stale image, and back
+    this.ridge = new RidgeController(this.hub, this.picks, this.estimates, compute, latest);
+    this.records = new RecordsController(this.hub, this.ridge, compute, latest, this.recordings);
     this.profiles = new ProfileController(this.hub, profile);
     this.layered = new LayeredController(this.hub, trial);
   }

@@ -12,6 +12,7 @@ import type { LayeredModel } from '../../../core/dispersion/model';
 import type { PickRecord } from '../../../core/exchange/records';
 import type { EstimateState, PlotSettings } from '../controllers/app-state';
 import type { RecordsController, RecordsState } from '../controllers/records-controller';
+import type { RidgeController } from '../controllers/ridge-controller';
 import { DispersionImageCanvas } from '../charts/dispersion-image';
 import '../styles/records.css';
 
@@ -25,7 +26,10 @@ export interface RecordsViewProps {
   estimate: EstimateState;
   plot: PlotSettings;
   theme: string;
+  /** The files: reading, keeping, geometry. */
   records: RecordsController;
+  /** The image, the ridge and the picks from it. */
+  ridge: RidgeController;
   onPlot: (patch: Partial<PlotSettings>) => void;
 }
 
@@ -171,11 +175,11 @@ export function RecordsView(p: RecordsViewProps) {
                   type="button"
                   aria-pressed={s.method === 'phase-shift'}
                   disabled={g.traces.length < 2}
-                  onClick={() => void p.records.setMethod('phase-shift')}
+                  onClick={() => void p.ridge.setMethod('phase-shift')}
                 >
                   Phase velocity (all traces)
                 </button>
-                <button type="button" aria-pressed={s.method === 'multiple-filter'} onClick={() => void p.records.setMethod('multiple-filter')}>
+                <button type="button" aria-pressed={s.method === 'multiple-filter'} onClick={() => void p.ridge.setMethod('multiple-filter')}>
                   Group velocity (one trace)
                 </button>
               </div>
@@ -184,7 +188,7 @@ export function RecordsView(p: RecordsViewProps) {
                   Trace
                   <select
                     value={s.trace === undefined ? '' : String(s.trace)}
-                    onChange={(e) => void p.records.setTrace(e.currentTarget.value === '' ? undefined : Number(e.currentTarget.value))}
+                    onChange={(e) => void p.ridge.setTrace(e.currentTarget.value === '' ? undefined : Number(e.currentTarget.value))}
                   >
                     <option value="">farthest</option>
                     {Array.from(g.offsets, (x, k) => (
@@ -216,8 +220,8 @@ export function RecordsView(p: RecordsViewProps) {
                 model={p.model}
                 settings={p.plot}
                 theme={p.theme}
-                onTap={(f, v) => void p.records.tap(f, v)}
-                onDragEnd={(end, f) => p.records.dragEnd(end, f)}
+                onTap={(f, v) => void p.ridge.tap(f, v)}
+                onDragEnd={(end, f) => p.ridge.dragEnd(end, f)}
               />
               <figcaption>
                 <span class="key key-ridge">◆ ridge points</span> <span class="key">○ the site's {s.image.method === 'phase-shift' ? 'phase' : 'group'} picks</span>{' '}
@@ -244,7 +248,7 @@ export function RecordsView(p: RecordsViewProps) {
           ) : null}
           {s.image ? (
             <p>
-              <button type="button" onClick={() => void p.records.followStrongest()}>
+              <button type="button" onClick={() => void p.ridge.followStrongest()}>
                 Follow the strongest ridge
               </button>{' '}
               <span class="hint">or tap a ridge on the image.</span>
@@ -260,7 +264,7 @@ export function RecordsView(p: RecordsViewProps) {
               <p class="hint">Drag a ringed end along the ridge to trim it; delete single points below.</p>
               <label>
                 Mode (0 = fundamental)
-                <input inputMode="numeric" value={s.mode} onInput={(e) => p.records.setMode(e.currentTarget.value)} />
+                <input inputMode="numeric" value={s.mode} onInput={(e) => p.ridge.setMode(e.currentTarget.value)} />
               </label>
               <div class="ridge-scroll" tabIndex={0} role="region" aria-label="Ridge points">
               <table class="ridge-points">
@@ -287,7 +291,7 @@ export function RecordsView(p: RecordsViewProps) {
                         <td>{fmt(ridge.sd[k], 2)}</td>
                         <td>{ridge.level[k] === MARGINAL ? 'marginal' : 'reliable'}</td>
                         <td>
-                          <button type="button" onClick={() => p.records.togglePoint(k)}>
+                          <button type="button" onClick={() => p.ridge.togglePoint(k)}>
                             {gone ? 'Restore' : 'Delete'}
                           </button>
                         </td>
@@ -297,7 +301,7 @@ export function RecordsView(p: RecordsViewProps) {
                 </tbody>
               </table>
               </div>
-              <button type="button" class="primary" onClick={() => void p.records.addToPicks()}>
+              <button type="button" class="primary" onClick={() => void p.ridge.addToPicks()}>
                 Add to picks
               </button>
             </div>

@@ -1,6 +1,6 @@
 /**
- * The records controller (pwa/ui/controllers/records-controller.ts) on the
- * real field store over fake-indexeddb, with the compute API run in-process:
+ * The Records view's controllers (pwa/ui/controllers/records-controller.ts
+ * for the files, ridge-controller.ts for the image and ridge) on the real field store over fake-indexeddb, with the compute API run in-process:
  * a bad file is named and nothing is added; missing offsets are asked for
  * and the typed geometry is used; the ridge from one tap goes into the
  * picks table in one step and undo takes it all back; a clash with a pick
@@ -89,12 +89,12 @@ describe('records controller', () => {
   it('adds the ridge from one tap as phase picks in one step, and undo takes them all back', async () => {
     const c = await started();
     await c.records.importFile(file(segy, 'gather.sgy'));
-    await c.records.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
+    await c.ridge.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
     const ridge = c.current.records.ridge!;
     expect(ridge.velocity.length).toBeGreaterThan(10);
-    c.records.togglePoint(0);
-    c.records.setMode('0');
-    await c.records.addToPicks();
+    c.ridge.togglePoint(0);
+    c.ridge.setMode('0');
+    await c.ridge.addToPicks();
     const picks = await store.listPicks(c.current.openSiteId!);
     expect(picks).toHaveLength(ridge.velocity.length - 1);
     expect(new Set(picks.map((p) => p.kind))).toEqual(new Set(['phase']));
@@ -107,39 +107,39 @@ describe('records controller', () => {
   it('trims the ridge by dragging its ends and adds only the kept points', async () => {
     const c = await started();
     await c.records.importFile(file(segy, 'gather.sgy'));
-    await c.records.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
+    await c.ridge.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
     const ridge = c.current.records.ridge!;
     const n = ridge.velocity.length;
-    c.records.dragEnd('low', ridge.frequency[3]);
-    c.records.dragEnd('high', ridge.frequency[n - 3]);
+    c.ridge.dragEnd('low', ridge.frequency[3]);
+    c.ridge.dragEnd('high', ridge.frequency[n - 3]);
     expect(c.current.records.range).toEqual([3, n - 3]);
     // An end dragged past the other stops there.
-    c.records.dragEnd('low', 1e6);
+    c.ridge.dragEnd('low', 1e6);
     expect(c.current.records.range).toEqual([n - 3, n - 3]);
-    c.records.dragEnd('low', ridge.frequency[3]);
-    c.records.togglePoint(5);
-    c.records.togglePoint(6);
-    c.records.togglePoint(6);
-    c.records.setMode('1');
-    const kept = c.records.keptPicks();
+    c.ridge.dragEnd('low', ridge.frequency[3]);
+    c.ridge.togglePoint(5);
+    c.ridge.togglePoint(6);
+    c.ridge.togglePoint(6);
+    c.ridge.setMode('1');
+    const kept = c.ridge.keptPicks();
     expect(kept).toHaveLength(n - 3 - 3 + 1 - 1);
     expect(kept.every((p) => p.mode === 1)).toBe(true);
     expect(kept.some((p) => p.frequency === ridge.frequency[5])).toBe(false);
-    await c.records.addToPicks();
+    await c.ridge.addToPicks();
     expect(await store.listPicks(c.current.openSiteId!)).toHaveLength(kept.length);
   });
 
   it('refuses points that repeat a pick of the table, or a bad mode, and saves nothing', async () => {
     const c = await started();
     await c.records.importFile(file(segy, 'gather.sgy'));
-    await c.records.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
-    await c.records.addToPicks();
+    await c.ridge.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
+    await c.ridge.addToPicks();
     const before = (await store.listPicks(c.current.openSiteId!)).length;
-    await c.records.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
-    await c.records.addToPicks();
+    await c.ridge.tap(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
+    await c.ridge.addToPicks();
     expect(c.current.records.error).toMatch(/^Nothing was added to the picks\. .*repeats/);
-    c.records.setMode('first');
-    await c.records.addToPicks();
+    c.ridge.setMode('first');
+    await c.ridge.addToPicks();
     expect(c.current.records.error).toBe('Nothing was added to the picks. The mode must be a whole number from 0 (fundamental) to 50, but it is "first".');
     expect(await store.listPicks(c.current.openSiteId!)).toHaveLength(before);
   });
@@ -167,7 +167,7 @@ describe('records controller', () => {
   it('follows the strongest ridge without a tap (the keyboard\'s way in)', async () => {
     const c = await started();
     await c.records.importFile(file(segy, 'gather.sgy'));
-    await c.records.followStrongest();
+    await c.ridge.followStrongest();
     const ridge = c.current.records.ridge!;
     expect(ridge.velocity.length).toBeGreaterThan(10);
     // The fundamental: within 3 % of the invented site's phase velocity at the middle point (a loose check; the reference tests hold 1 %).
