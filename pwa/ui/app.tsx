@@ -338,6 +338,7 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
             hasProfile={!!s.profile.result}
             hasEstimate={!!s.estimate.result}
             profileRunning={s.profile.status === 'running'}
+            bestFit={layeredCurves}
             selectedId={s.selectedPickId}
             plot={s.plot}
             theme={s.theme}

@@ -88,6 +88,7 @@ describe('the layer builder in Chromium, offline', () => {
     await page.getByRole('button', { name: 'From the layered estimate' }).click();
     expect(Number(await page.getByLabel('Layer 1 shear speed (m/s)', { exact: true }).inputValue())).toBeGreaterThan(30);
     await page.getByTestId('builder-misfit').waitFor({ timeout: 15_000 });
+    await page.getByText('layered best fit, for comparison (thin, grey, dotted)').waitFor();
     await page.getByRole('button', { name: 'Blank' }).click();
     await page.getByRole('button', { name: "Poisson's ratio" }).click();
     await page.getByRole('button', { name: 'Add a layer' }).click();

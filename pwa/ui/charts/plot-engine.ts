@@ -41,6 +41,8 @@ export interface PlotInput {
    * estimate the picks do not resolve).
    */
   computed?: ComputedCurves & { unsupported?: boolean };
+  /** Computed curves drawn thin and grey for comparison under `computed` (on the same band; left out otherwise). */
+  computedCompare?: ComputedCurves;
   selectedId?: string;
   axis: AxisQuantity;
   xLog: boolean;
@@ -90,6 +92,13 @@ function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolea
 export function curveDash(wave: 'love' | 'rayleigh', kind: 'phase' | 'group'): number[] | undefined {
   if (wave === 'rayleigh') return kind === 'phase' ? [12, 4, 2, 4] : [12, 4, 2, 4, 2, 4];
   return kind === 'phase' ? [8, 5] : undefined;
+}
+
+/** Whether two bands hold the same frequencies (so their curves share the x column). */
+function sameBand(a: Float64Array, b: Float64Array): boolean {
+  if (a.length !== b.length) return false;
+  for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
+  return true;
 }
 
 /** A colour at half strength (for curves the data do not support). */
@@ -165,9 +174,11 @@ export class DispersionPlot {
       band = new Float64Array(0);
     }
     // The comparison curves share the band (and so the x column) of the main curves.
-    let compare: CurveColumns | undefined;
+    let compare: { keys: CurveKey[]; y: Float64Array[] } | undefined;
     try {
-      compare = this.curves && input.compare && !input.computed ? curveColumns(input.compare, band, keys, input.axis) : undefined;
+      if (this.curves && input.computed && input.computedCompare && sameBand(input.computedCompare.band, input.computed.band)) {
+        compare = computedColumns(input.computedCompare, input.picks, input.axis);
+      } else compare = this.curves && input.compare && !input.computed ? curveColumns(input.compare, band, keys, input.axis) : undefined;
     } catch {
       compare = undefined;
     }
@@ -178,12 +189,12 @@ export class DispersionPlot {
       input.yLog,
     );
     const data: uPlot.AlignedData = [xCol, ...(this.curves ? this.curves.y.map(gaps) : []), ...(compare ? compare.y.map(gaps) : [])];
-    const sig = signature(input, keys, !!this.curves, !!compare);
+    const sig = `${signature(input, keys, !!this.curves, !!compare)}|${compare ? signature(input, compare.keys, true) : ''}`;
     if (!this.u || sig !== this.sig) {
       this.sig = sig;
       this.pal = palette(this.el);
       this.u?.destroy();
-      this.u = new uPlot(this.options(input, keys, !!compare), data, this.el);
+      this.u = new uPlot(this.options(input, keys, compare?.keys), data, this.el);
       this.u.over.addEventListener('click', this.onTap);
     } else {
       this.u.setData(data);
@@ -205,7 +216,7 @@ export class DispersionPlot {
     return [Math.max(0, lo - pad), hi + pad];
   }
 
-  private options(input: PlotInput, keys: readonly CurveKey[], withCompare = false): uPlot.Options {
+  private options(input: PlotInput, keys: readonly CurveKey[], compareKeys?: readonly CurveKey[]): uPlot.Options {
     const pal = this.pal;
     const xLabel = input.axis === 'frequency' ? 'Frequency (Hz)' : 'Period (s)';
     // Chart text grows with Sunlight contrast.
@@ -243,8 +254,8 @@ export class DispersionPlot {
           spanGaps: false,
         });
       }
-      if (withCompare) {
-        for (const k of keys) {
+      if (compareKeys) {
+        for (const k of compareKeys) {
           series.push({
             label: `best fit: mode ${k.mode} ${k.kind}`,
             stroke: pal.text,

@@ -18,6 +18,8 @@ export interface PlotPanelProps {
   compare?: LayeredModel;
   /** Curves computed in the worker (Love and/or Rayleigh, several layers), drawn instead of the model's; unsupported: thin and faint. */
   computed?: ComputedCurves & { unsupported?: boolean };
+  /** Computed curves drawn thin, grey and dotted for comparison under `computed` (the layered estimate's best fit under the builder's). */
+  computedCompare?: ComputedCurves;
   selectedId?: string;
   settings: PlotSettings;
   theme: string;
@@ -63,7 +65,7 @@ export function PlotPanel(props: PlotPanelProps) {
 
   useEffect(() => {
     engine.current?.update(inputOf(props));
-  }, [props.picks, props.model, props.compare, props.computed, props.selectedId, props.settings, props.theme, props.curveLabel]);
+  }, [props.picks, props.model, props.compare, props.computed, props.computedCompare, props.selectedId, props.settings, props.theme, props.curveLabel]);
 
   const s = props.settings;
   const kinds = new Set(props.picks.map((p) => `${p.wave === 'rayleigh' ? 'rayleigh' : 'love'}-${p.kind}`));
@@ -128,6 +130,7 @@ export function PlotPanel(props: PlotPanelProps) {
         ) : props.model ? (
           <li><span class="glyph line" aria-hidden="true" /> {props.curveLabel} Love curve (dashed: phase)</li>
         ) : null}
+        {props.computed && props.computedCompare ? <li><span class="glyph dash" aria-hidden="true" /> layered best fit, for comparison (thin, grey, dotted)</li> : null}
         {props.model && props.compare && !props.computed ? <li><span class="glyph dash" aria-hidden="true" /> best fit, for comparison (thin, grey, dotted)</li> : null}
         {props.model && modes.some((m) => m > 0) ? <li><span class="glyph dash" aria-hidden="true" /> higher-mode cutoff</li> : null}
         <li>Tap a pick to select its row.</li>
@@ -143,6 +146,7 @@ function inputOf(p: PlotPanelProps) {
     curveLabel: p.curveLabel,
     compare: p.compare,
     computed: p.computed,
+    computedCompare: p.computedCompare,
     selectedId: p.selectedId,
     axis: p.settings.axis,
     xLog: p.settings.xLog,

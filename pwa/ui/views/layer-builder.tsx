@@ -11,6 +11,7 @@
  */
 import type { PickRecord } from '../../../core/exchange/records';
 import type { SiteFigures } from '../../../core/site/site';
+import type { ComputedCurves } from '../charts/chart-data';
 import { PlotPanel } from '../charts/plot-panel';
 import type { LayeredState, PlotSettings } from '../controllers/app-state';
 import type { LayeredController } from '../controllers/layered-controller';
@@ -25,6 +26,8 @@ export interface LayerBuilderProps {
   picks: readonly PickRecord[];
   hasProfile: boolean;
   hasEstimate: boolean;
+  /** The layered estimate's best-fit curves, drawn thin and grey for comparison. */
+  bestFit?: ComputedCurves;
   /** A layered estimate is running: the worker takes one computation at a time, so the curves wait for it. */
   profileRunning?: boolean;
   selectedId?: string;
@@ -251,6 +254,7 @@ export function LayerBuilderView(props: LayerBuilderProps) {
         id="builder-plot-h"
         picks={props.picks}
         computed={computed}
+        computedCompare={props.bestFit}
         curveLabel="layer builder"
         caption={t.result ? 'Curves of the layer builder’s model (not fitted).' : undefined}
         selectedId={props.selectedId}
