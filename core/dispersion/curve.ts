@@ -14,8 +14,9 @@
  * energy-integral group velocity of group-velocity.ts. Rayleigh waves
  * (option `wave: 'rayleigh'`, the model carrying P speeds) use the
  * compound-matrix secular function and scanned root isolation of
- * rayleigh-stack.ts (Dunkin 1965, BSSA 55:335), with U from implicit
- * differentiation of the secular function; modes are numbered by order of
+ * rayleigh-stack.ts (Dunkin 1965, BSSA 55:335), in its fast mode with each
+ * frequency's roots checked against its neighbours' (followModes), with U
+ * from implicit differentiation of the secular function; modes are numbered by order of
  * phase velocity at each frequency, and places where two branches come
  * close (osculate or cross) are listed in `approaches`.
  *
@@ -40,7 +41,13 @@ import {
 } from './love-layer';
 import { LoveStackSolver, loveStackCutoff, prepareLoveStack } from './love-stack';
 import { checkRayleighModel, type LayeredModel } from './model';
-import { CLOSE_ROOTS_RTOL, RayleighStackSolver, prepareRayleighStack, rayleighStackGroupVelocity } from './rayleigh-stack';
+import {
+  CLOSE_ROOTS_RTOL,
+  RayleighStackSolver,
+  prepareRayleighStack,
+  rayleighStackGroupVelocity,
+  type CloseApproach,
+} from './rayleigh-stack';
 
 export interface ModeCurve {
   /** Mode number: 0 is the fundamental. */
@@ -259,21 +266,20 @@ export function rayleighCurves(
   const approaches: BranchApproach[] = [];
   const stack = prepareRayleighStack(model);
   const solver = new RayleighStackSolver(stack);
-  const roots = new Float64Array(modes);
+  // Each frequency solved in the solver's fast mode, then checked against its neighbours (followModes).
+  const solved = followModes(solver, freq, modes);
   for (let i = 0; i < nf; i++) {
     const f = freq[i];
-    const omega = 2 * Math.PI * f;
-    const found = solver.solve(omega, modes, roots);
-    for (let m = 0; m < found; m++) {
-      const c = roots[m];
+    for (let m = 0; m < solved.found[i]; m++) {
+      const c = solved.phase[i * modes + m];
       if (Number.isNaN(c)) {
-        failures.push({ mode: m, frequency: f, status: solver.outcome.status });
+        failures.push({ mode: m, frequency: f, status: solved.status[i] });
         continue;
       }
       grid[m * nf + i] = c;
-      columns.push(m, f, c, rayleighStackGroupVelocity(stack, omega, c));
+      columns.push(m, f, c, solved.group[i * modes + m]);
     }
-    for (const a of solver.outcome.close) {
+    for (const a of solved.close[i]) {
       if (a.mode >= 0 && a.mode + 1 < modes) approaches.push({ mode: a.mode, frequency: f, gap: a.gap });
     }
   }
@@ -290,6 +296,99 @@ export function rayleighCurves(
   }
   approaches.sort((a, b) => a.frequency - b.frequency || a.mode - b.mode);
   return { wave: 'rayleigh', modes: columns.curves(), failures, approaches, warnings };
+}
+
+/** Roots of the lowest modes at each of a sorted list of frequencies (followModes). */
+export interface FollowedModes {
+  /** Phase velocities, m/s, row-major by frequency: phase[i·modes + m] (NaN: did not converge). */
+  phase: Float64Array;
+  /** Group velocities, m/s, alike. */
+  group: Float64Array;
+  /** Roots found at each frequency. */
+  found: Int32Array;
+  /** Solver status at each frequency. */
+  status: string[];
+  /** Close approaches met at each frequency (RayleighStackSolver outcome). */
+  close: CloseApproach[][];
+  /** Frequencies solved a second time with care because their roots disagreed with a neighbour's. */
+  resolved: number;
+}
+
+/**
+ * The lowest `modes` Rayleigh roots and group velocities at ascending
+ * frequencies (Hz), each frequency solved by the solver's fast mode
+ * (solver.careful = false, rayleigh-stack.ts) and then checked against
+ * both neighbours: every root c of a neighbour, carried to this frequency
+ * along its branch (dc/dω = (c/ω)(1 − c/U), first order), must find a root
+ * of its own here within max(|step|, 1e-4·c), one to one, wherever that
+ * prediction lies inside the range scanned here (above the floor and below
+ * the last root found or β_H); if one does not, the frequency is solved
+ * again with care (the default mode) and its neighbours checked again. Two
+ * roots of a close pair missed by the fast scan at one frequency are thus
+ * recovered from a neighbour where the scan saw them; a pair missed at
+ * every frequency of the band is not. The solver is left careful.
+ */
+export function followModes(solver: RayleighStackSolver, freq: Float64Array, modes: number): FollowedModes {
+  const nf = freq.length;
+  const stack = solver.stack;
+  const phase = new Float64Array(nf * modes);
+  const group = new Float64Array(nf * modes);
+  const found = new Int32Array(nf);
+  const complete = new Uint8Array(nf);
+  const careful = new Uint8Array(nf);
+  const status: string[] = new Array<string>(nf).fill('converged');
+  const close: CloseApproach[][] = Array.from({ length: nf }, () => []);
+  const roots = new Float64Array(modes);
+  let resolved = 0;
+  const solveAt = (i: number, withCare: boolean): void => {
+    solver.careful = withCare;
+    const omega = 2 * Math.PI * freq[i];
+    const n = solver.solve(omega, modes, roots);
+    found[i] = n;
+    complete[i] = solver.outcome.complete ? 1 : 0;
+    status[i] = solver.outcome.status;
+    close[i] = solver.outcome.close;
+    for (let m = 0; m < n; m++) {
+      const c = roots[m];
+      phase[i * modes + m] = c;
+      group[i * modes + m] = Number.isNaN(c) ? NaN : rayleighStackGroupVelocity(stack, omega, c);
+    }
+  };
+  // True when every root of frequency `from`, carried to frequency `to`, has a root of its own there.
+  const agrees = (from: number, to: number): boolean => {
+    const w0 = 2 * Math.PI * freq[from];
+    const w1 = 2 * Math.PI * freq[to];
+    const nTo = found[to];
+    const high = complete[to] ? stack.vsH : nTo > 0 ? phase[to * modes + nTo - 1] : solver.floor;
+    let next = 0; // roots at `to` are ascending; each prediction takes the next free one within reach
+    for (let m = 0; m < found[from]; m++) {
+      const c = phase[from * modes + m];
+      const u = group[from * modes + m];
+      if (!(c > 0) || !(u > 0)) continue;
+      const step = (c / w0) * (1 - c / u) * (w1 - w0);
+      const guess = c + step;
+      const tol = Math.max(Math.abs(step), 1e-4 * c);
+      if (!(guess - tol > solver.floor) || !(guess + tol < high)) continue;
+      while (next < nTo && phase[to * modes + next] < guess - tol) next++;
+      if (next >= nTo || !(phase[to * modes + next] <= guess + tol)) return false;
+      next++;
+    }
+    return true;
+  };
+  for (let i = 0; i < nf; i++) solveAt(i, false);
+  // Forward, then backward: a frequency that disagrees with a neighbour is solved again with care.
+  for (let pass = 0; pass < 2; pass++) {
+    for (let n = 1; n < nf; n++) {
+      const i = pass === 0 ? n : nf - 1 - n;
+      const j = pass === 0 ? i - 1 : i + 1;
+      if (careful[i] || agrees(j, i)) continue;
+      solveAt(i, true);
+      careful[i] = 1;
+      resolved++;
+    }
+  }
+  solver.careful = true;
+  return { phase, group, found, status, close, resolved };
 }
 
 /**

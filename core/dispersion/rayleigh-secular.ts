@@ -150,30 +150,38 @@ const nextK = new Float64Array(6);
 const fa = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
 const fb = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
 
-/** C, S and the scale e^{−√a L} (1 when a ≤ 0) of `functions`, without the derivatives in a: the value path. */
-function values(out: typeof fa, a: number, L: number): void {
+/** C, S and the scale e^{−√a L} (1 when a ≤ 0) of `functions`, without the derivatives in a, into V[i], V[i+1], V[i+2]: the value path. */
+function values(V: Float64Array, i: number, a: number, L: number): void {
   if (a > 0) {
     const r = Math.sqrt(a);
     const x = r * L;
-    const em = Math.expm1(-2 * x);
-    out.C = 1 + 0.5 * em;
-    out.S = x === 0 ? L : (-0.5 * em) / r;
-    out.expo = x;
-    out.scale = Math.exp(-x);
+    if (x > 0.5) {
+      // e^{−2x} < 0.37: 1 − e^{−2x} has no cancellation, and e^{−x} = √(e^{−2x}) (0 below 1e-162, far beneath rounding).
+      const E = Math.exp(-2 * x);
+      V[i] = 0.5 + 0.5 * E;
+      V[i + 1] = (0.5 - 0.5 * E) / r;
+      V[i + 2] = Math.sqrt(E);
+    } else {
+      const em = Math.expm1(-2 * x);
+      V[i] = 1 + 0.5 * em;
+      V[i + 1] = x === 0 ? L : (-0.5 * em) / r;
+      V[i + 2] = Math.sqrt(1 + em);
+    }
   } else if (a < 0) {
     const r = Math.sqrt(-a);
     const x = r * L;
-    out.C = Math.cos(x);
-    out.S = Math.sin(x) / r;
-    out.expo = 0;
-    out.scale = 1;
+    V[i] = Math.cos(x);
+    V[i + 1] = Math.sin(x) / r;
+    V[i + 2] = 1;
   } else {
-    out.C = 1;
-    out.S = L;
-    out.expo = 0;
-    out.scale = 1;
+    V[i] = 1;
+    V[i + 1] = L;
+    V[i + 2] = 1;
   }
 }
+
+/** Scratch of `values`: C_a, S_a, scale_a, C_b, S_b, scale_b. */
+const VF = new Float64Array(6);
 
 /**
  * C = cosh(√a L), S = sinh(√a L)/√a (or cos, sin/√−a), multiplied by
@@ -213,6 +221,53 @@ function functions(out: typeof fa, a: number, L: number): void {
     out.dSa = (L * out.C - out.S) / (2 * a);
   }
 }
+
+/**
+ * As `functions`, into V[i…i+5]: C, S, scale, dC/da, dS/da and √a (0 when
+ * a ≤ 0): the fast derivative path.
+ */
+function derivFunctions(V: Float64Array, i: number, a: number, L: number): void {
+  let scale = 1;
+  let C = 1;
+  let S = L;
+  let r = 0;
+  if (a > 0) {
+    // As in `values`.
+    r = Math.sqrt(a);
+    const x = r * L;
+    if (x > 0.5) {
+      const E = Math.exp(-2 * x);
+      C = 0.5 + 0.5 * E;
+      S = (0.5 - 0.5 * E) / r;
+      scale = Math.sqrt(E);
+    } else {
+      const em = Math.expm1(-2 * x);
+      C = 1 + 0.5 * em;
+      S = x === 0 ? L : (-0.5 * em) / r;
+      scale = Math.sqrt(1 + em);
+    }
+  } else if (a < 0) {
+    const q = Math.sqrt(-a);
+    const x = q * L;
+    C = Math.cos(x);
+    S = Math.sin(x) / q;
+  }
+  V[i] = C;
+  V[i + 1] = S;
+  V[i + 2] = scale;
+  V[i + 3] = 0.5 * L * S;
+  const aL2 = a * L * L;
+  if (Math.abs(aL2) < 0.1) {
+    const L3 = L * L * L;
+    V[i + 4] = scale * L3 * (1 / 6 + aL2 * (1 / 60 + aL2 * (1 / 1680 + aL2 * (1 / 90720 + aL2 / 7983360))));
+  } else {
+    V[i + 4] = (L * C - S) / (2 * a);
+  }
+  V[i + 5] = r;
+}
+
+/** Scratch of derivFunctions: P wave at 0, S wave at 6. */
+const DF = new Float64Array(12);
 
 /** M_a of one layer (closed form in the header) into MA, M_b = I − M_a into MB. */
 function projectors(q: number, u: number): void {
@@ -377,27 +432,31 @@ const m5 = new Float64Array(5);
  */
 function fastStep(s: RayleighStack, j: number, c: number, k: number, w: Float64Array): void {
   const beta = s.vs[j];
+  const x = (c * c) / (beta * beta);
   const u = (beta * beta) / (c * c);
-  const x = 1 / u;
   const p = s.p[j];
   const L = k * s.thickness[j];
-  values(fa, 1 - p * x, L);
-  values(fb, 1 - x, L);
-  const e = fa.scale * fb.scale;
-  const CC = fa.C * fb.C;
-  const CS = fa.C * fb.S;
-  const SC = fa.S * fb.C;
-  const SS = fa.S * fb.S;
+  values(VF, 0, 1 - p * x, L);
+  values(VF, 3, 1 - x, L);
+  const Ca = VF[0];
+  const Sa = VF[1];
+  const Cb = VF[3];
+  const Sb = VF[4];
+  const e = VF[2] * VF[5];
+  const CC = Ca * Cb;
+  const CS = Ca * Sb;
+  const SC = Sa * Cb;
+  const SS = Sa * Sb;
   const D = CC - e;
   const t = 2 * u - 1;
   const u1 = u - 1;
   const pu = p - u;
-  const t2u = (t * t) / u;
+  const t2u = t * t * x;
   const s00 = 4 * p * u1 - 2 * t * t + 1;
   const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
   const s04 = u * t - p * u1;
-  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) / u;
-  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) / (u * u);
+  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) * x;
+  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) * (x * x);
   const d4u1 = 4 * u - 1;
   const w0 = w[0];
   const w1 = w[1];
@@ -705,19 +764,36 @@ const t5 = new Float64Array(5);
 const t5c = new Float64Array(5);
 const t5k = new Float64Array(5);
 
-/** out = G·v + (H·x when H is given), 5×5 row-major. */
-function apply5(G: Float64Array, v: Float64Array, out: Float64Array): void {
+/** v ← G·v + H·x (5×5 row-major; x is not v). */
+function tangentStep(G: Float64Array, v: Float64Array, H: Float64Array, x: Float64Array): void {
+  const v0 = v[0];
+  const v1 = v[1];
+  const v2 = v[2];
+  const v3 = v[3];
+  const v4 = v[4];
+  const x0 = x[0];
+  const x1 = x[1];
+  const x2 = x[2];
+  const x3 = x[3];
+  const x4 = x[4];
   for (let i = 0; i < 5; i++) {
     const r = 5 * i;
-    out[i] = G[r] * v[0] + G[r + 1] * v[1] + G[r + 2] * v[2] + G[r + 3] * v[3] + G[r + 4] * v[4];
+    v[i] =
+      G[r] * v0 + G[r + 1] * v1 + G[r + 2] * v2 + G[r + 3] * v3 + G[r + 4] * v4 +
+      H[r] * x0 + H[r + 1] * x1 + H[r + 2] * x2 + H[r + 3] * x3 + H[r + 4] * x4;
   }
 }
 
-/** out += G·v, 5×5 row-major. */
-function addApply5(G: Float64Array, v: Float64Array, out: Float64Array): void {
+/** v ← G·v (5×5 row-major). */
+function valueStep(G: Float64Array, v: Float64Array): void {
+  const v0 = v[0];
+  const v1 = v[1];
+  const v2 = v[2];
+  const v3 = v[3];
+  const v4 = v[4];
   for (let i = 0; i < 5; i++) {
     const r = 5 * i;
-    out[i] += G[r] * v[0] + G[r + 1] * v[1] + G[r + 2] * v[2] + G[r + 3] * v[3] + G[r + 4] * v[4];
+    v[i] = G[r] * v0 + G[r + 1] * v1 + G[r + 2] * v2 + G[r + 3] * v3 + G[r + 4] * v4;
   }
 }
 
@@ -744,9 +820,11 @@ function fastDerivatives(s: RayleighStack, omega: number, c: number, out: Secula
   const w = t5;
   const wc = t5c;
   const wk = t5k;
-  w.fill(0);
-  wc.fill(0);
-  wk.fill(0);
+  for (let i = 0; i < 5; i++) {
+    w[i] = 0;
+    wc[i] = 0;
+    wk[i] = 0;
+  }
   w[0] = 1;
   secularScale.exponent = 0;
   let slope = 0;
@@ -775,44 +853,43 @@ function fastDerivatives(s: RayleighStack, omega: number, c: number, out: Secula
     const L = k * d;
     const a = 1 - p * x;
     const b = 1 - x;
-    functions(fa, a, L);
-    functions(fb, b, L);
-    const e = fa.scale * fb.scale;
-    const CC = fa.C * fb.C;
-    const CS = fa.C * fb.S;
-    const SC = fa.S * fb.C;
-    const SS = fa.S * fb.S;
+    derivFunctions(DF, 0, a, L);
+    derivFunctions(DF, 6, b, L);
+    const Ca = DF[0];
+    const Sa = DF[1];
+    const Cb = DF[6];
+    const Sb = DF[7];
+    const e = DF[2] * DF[8];
+    const CC = Ca * Cb;
+    const CS = Ca * Sb;
+    const SC = Sa * Cb;
+    const SS = Sa * Sb;
     stepMatrix(G5, u, p, CC, CS, SC, SS, CC - e, e);
     // Along c at fixed k: a and b move (da/dc = −2px/c, db/dc = −2x/c), u too (du/dc = −2u/c).
     const dxc = (2 * x) / c;
     const dac = -p * dxc;
     const dbc = -dxc;
-    const dCa = fa.dCa * dac;
-    const dSa = fa.dSa * dac;
-    const dCb = fb.dCa * dbc;
-    const dSb = fb.dSa * dbc;
-    const dCCc = dCa * fb.C + fa.C * dCb;
-    stepMatrix(G5c, u, p, dCCc, dCa * fb.S + fa.C * dSb, dSa * fb.C + fa.S * dCb, dSa * fb.S + fa.S * dSb, dCCc, 0);
+    const dCa = DF[3] * dac;
+    const dSa = DF[4] * dac;
+    const dCb = DF[9] * dbc;
+    const dSb = DF[10] * dbc;
+    const dCCc = dCa * Cb + Ca * dCb;
+    stepMatrix(G5c, u, p, dCCc, dCa * Sb + Ca * dSb, dSa * Cb + Sa * dCb, dSa * Sb + Sa * dSb, dCCc, 0);
     stepMatrixDu(G5c, (-2 * u) / c, u, p, CS, SC, SS, CC - e);
-    apply5(G5, wc, next);
-    addApply5(G5c, w, next);
     if (wantK) {
       // Along k at fixed c: L = kd moves (dC/dL = aS, dS/dL = C).
-      const dCaK = a * fa.S * d;
-      const dSaK = fa.C * d;
-      const dCbK = b * fb.S * d;
-      const dSbK = fb.C * d;
-      const dCCk = dCaK * fb.C + fa.C * dCbK;
-      stepMatrix(G5k, u, p, dCCk, dCaK * fb.S + fa.C * dSbK, dSaK * fb.C + fa.S * dCbK, dSaK * fb.S + fa.S * dSbK, dCCk, 0);
-      apply5(G5, wk, nextK);
-      addApply5(G5k, w, nextK);
-      for (let i = 0; i < 5; i++) wk[i] = nextK[i];
+      const dCaK = a * Sa * d;
+      const dSaK = Ca * d;
+      const dCbK = b * Sb * d;
+      const dSbK = Cb * d;
+      const dCCk = dCaK * Cb + Ca * dCbK;
+      stepMatrix(G5k, u, p, dCCk, dCaK * Sb + Ca * dSbK, dSaK * Cb + Sa * dCbK, dSaK * Sb + Sa * dSbK, dCCk, 0);
+      tangentStep(G5, wk, G5k, w);
     }
-    for (let i = 0; i < 5; i++) wc[i] = next[i];
-    apply5(G5, w, next);
-    for (let i = 0; i < 5; i++) w[i] = next[i];
-    if (a > 0) slope += (L * p * x) / (c * Math.sqrt(a));
-    if (b > 0) slope += (L * x) / (c * Math.sqrt(b));
+    tangentStep(G5, wc, G5c, w);
+    valueStep(G5, w);
+    if (a > 0) slope += (L * p * x) / (c * DF[5]);
+    if (b > 0) slope += (L * x) / (c * DF[11]);
     rescale3(w, wc, wk);
   }
   const q2 = qPrev * qPrev;
@@ -829,12 +906,16 @@ function fastDerivatives(s: RayleighStack, omega: number, c: number, out: Secula
   wk[3] *= qPrev;
   wk[4] *= q2;
   halfspaceMinors(s, c, nH, dnH);
-  const pair5 = (v: Float64Array, n: Float64Array) => v[0] * n[5] - v[1] * (n[4] - n[1]) + v[2] * n[3] + v[3] * n[2] + v[4] * n[0];
   out.value = pair5(w, nH);
   out.dc = pair5(wc, nH) + pair5(w, dnH);
   out.dk = wantK ? pair5(wk, nH) : NaN;
   secularSlope.scale = slope;
   return out;
+}
+
+/** det[y₁ y₂ d_P d_S] from the five minors v (m_13 = −m_02) and the half-space bivector n. */
+function pair5(v: Float64Array, n: Float64Array): number {
+  return v[0] * n[5] - v[1] * (n[4] - n[1]) + v[2] * n[3] + v[3] * n[2] + v[4] * n[0];
 }
 
 /** As rescale, applying the same power of two to the derivative rows. */

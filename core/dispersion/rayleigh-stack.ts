@@ -30,6 +30,12 @@
  *    two close roots of an osculation (two branches that nearly touch, e.g.
  *    a mode of a buried low-velocity layer meeting one of the crust) are
  *    both reported; if it does not, the outcome notes the close approach;
+ *    Beside a root the slope on that side says nothing (|F| may turn
+ *    between the root and a pair), so by default (`careful`) such a cell
+ *    is judged by its far side only and searched otherwise; the fast mode
+ *    (careful = false) uses both slopes always, about half the work, and
+ *    can miss a close pair within two cells of a third root: curves use it
+ *    and check each frequency against its neighbours (curve.ts followModes);
  *  - each sign change is refined by Brent's method (core/numeric/roots.ts).
  *
  * The scan starts at c_floor = 0.9 × the slowest Rayleigh speed of any
@@ -147,6 +153,15 @@ export class RayleighStackSolver {
     slopeEvaluations: 0,
     close: [],
   };
+  /**
+   * True (the default): beside a root, a cell is judged by the slope on its
+   * far side only, since |F̃| may turn between that root and a hidden pair.
+   * False: by both slopes always, about half the work for a curve, but a
+   * close pair within two cells of a third root can then be missed; curves
+   * (curve.ts) run this way and check each frequency's roots against the
+   * neighbouring frequencies', solving again with care where they disagree.
+   */
+  careful = true;
   private omega = 0;
   private readonly slopeAt = new Float64Array([NaN, NaN]);
   private readonly slopeVal = new Float64Array(2);
@@ -241,7 +256,7 @@ export class RayleighStackSolver {
         const rightWall = c1 >= top || g1 < g2 || changeNext;
         const dipLeft = g0 < gPrev && g0 <= g1;
         const dipRight = c1 < top && g1 < g0 && g1 <= g2;
-        if (((leftWall && rightWall) || dipLeft || dipRight) && this.valley(c0, c1, top)) this.probe(c0, f0, c1, f1, out, modes);
+        if (((leftWall && rightWall) || dipLeft || dipRight) && this.valley(c0, c1, top, changePrev, changeNext)) this.probe(c0, f0, c1, f1, out, modes);
       }
       gPrev = g0;
       changePrev = change;
@@ -285,25 +300,34 @@ export class RayleighStackSolver {
    * extrema within one cell of π/8 vertical phase (header). Where the cell
    * holds a layer's α or β, the scale factor e^{−√a L} of that wave has a
    * square-root kink: it is taken back out (below). True (probe) for the
-   * cell that ends at β_H, where F is analytic in r_β, not in c.
+   * cell that ends at β_H, where F is analytic in r_β, not in c. A NaN
+   * slope counts as a valley.
    */
-  private valley(ca: number, cb: number, top: number): boolean {
+  private valley(ca: number, cb: number, top: number, rootLeft: boolean, rootRight: boolean): boolean {
     if (cb >= top) return true;
-    const s = this.stack;
-    let left = this.logSlope(ca);
-    // A wave whose speed v lies in (ca, cb] has its factor e^{−√a L} taken back out at ca: the
-    // function judged, F̃·e^{√a L}, is then analytic over the cell (and its slope at ca only lower).
-    for (let j = 0; j < s.count; j++) {
-      const L = (this.omega / ca) * s.thickness[j];
-      const xj = (ca * ca) / (s.vs[j] * s.vs[j]);
-      if (s.vs[j] > ca && s.vs[j] <= cb) left -= (L * xj) / (ca * Math.sqrt(1 - xj));
-      const pj = s.p[j];
-      if (s.vp[j] > ca && s.vp[j] <= cb) left -= (L * pj * xj) / (ca * Math.sqrt(1 - pj * xj));
+    // Beside a root, the slope on that side says nothing (|F̃| may turn between the root and a pair).
+    const useLeft = !(this.careful && rootLeft);
+    const useRight = !(this.careful && rootRight);
+    if (!useLeft && !useRight) return true;
+    // Beside a root on the right, |F̃| most often falls into cb: look there first.
+    if (useRight && rootRight && this.logSlope(cb) <= 0) return false;
+    if (useLeft) {
+      const s = this.stack;
+      let left = this.logSlope(ca);
+      // A wave whose speed v lies in (ca, cb] has its factor e^{−√a L} taken back out at ca: the
+      // function judged, F̃·e^{√a L}, is then analytic over the cell (and its slope at ca only lower).
+      for (let j = 0; j < s.count; j++) {
+        const L = (this.omega / ca) * s.thickness[j];
+        const xj = (ca * ca) / (s.vs[j] * s.vs[j]);
+        if (s.vs[j] > ca && s.vs[j] <= cb) left -= (L * xj) / (ca * Math.sqrt(1 - xj));
+        const pj = s.p[j];
+        if (s.vp[j] > ca && s.vp[j] <= cb) left -= (L * pj * xj) / (ca * Math.sqrt(1 - pj * xj));
+      }
+      if (left >= 0) return false;
     }
-    if (!(left < 0)) return false;
-    const right = this.logSlope(cb);
-    return !(right <= 0);
+    return !useRight || rootRight || !(this.logSlope(cb) <= 0);
   }
+
 
   /**
    * The cell (ca, cb), whose ends have one sign, may hide two close roots:

@@ -23,23 +23,35 @@ export default async function rayleighBench(): Promise<BenchResult[]> {
     await bench('rayleigh curve, 5 layers, 200 f × 5 modes', () => rayleighCurves(fiveLayer, band, { modes: 5 }), {
       target_ms: 20,
       samples: 21,
-      note: 'compound matrices, phase-resolved scan + dip probes + Brent, U by implicit differentiation',
+      note: 'compound matrices, fast phase-resolved scan + slope-checked dip probes + Brent, each frequency checked against its neighbours (followModes), U by implicit differentiation',
     }),
   );
   const stack = prepareRayleighStack(fiveLayer);
   const solver = new RayleighStackSolver(stack);
   const out = new Float64Array(1);
   let f = 10;
+  const fundamental = (careful: boolean) => () => {
+    f = f === 10 ? 10.5 : 10;
+    solver.careful = careful;
+    return solver.solve(2 * Math.PI * f, 1, out);
+  };
   results.push(
-    await bench(
-      'rayleigh single root, 5 layers (mode 0)',
-      () => {
-        f = f === 10 ? 10.5 : 10;
-        return solver.solve(2 * Math.PI * f, 1, out);
-      },
-      { inner: 200, samples: 31, target_ms: 0.02, note: 'scan from the floor to the first root, then Brent' },
-    ),
+    await bench('rayleigh single root, 5 layers (mode 0 at one frequency, nothing known, careful scan)', fundamental(true), {
+      inner: 200,
+      samples: 31,
+      target_ms: 0.02,
+      note: 'RayleighStackSolver.solve(ω, 1) in its default careful mode: scan from the floor to the first root, then Brent',
+    }),
   );
+  results.push(
+    await bench('rayleigh single root, 5 layers (mode 0 at one frequency, nothing known, fast scan)', fundamental(false), {
+      inner: 200,
+      samples: 31,
+      target_ms: 0.02,
+      note: 'the same with careful = false (the mode curves use, checked there against neighbouring frequencies)',
+    }),
+  );
+  solver.careful = true;
   let c = 200;
   results.push(
     await bench(

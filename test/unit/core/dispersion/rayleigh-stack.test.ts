@@ -211,7 +211,10 @@ describe('fast derivatives of the secular function (five-minor step)', () => {
       // Both carry F times a positive factor held fixed in the derivatives, so the ratios are comparable.
       expect(Math.abs(fast.dc / fast.value / (ref.dc / ref.value) - 1), ctx).toBeLessThan(1e-8);
       expect(Math.abs(fast.dk / fast.value / (ref.dk / ref.value) - 1), ctx).toBeLessThan(1e-8);
-      expect(rayleighSecular(s, omega, c), ctx).toBe(fast.value);
+      // The value path writes the same matrix with its coefficients arranged for speed: equal up to rounding,
+      // amplified by (β/c)⁴ in layers much stiffer than c (header of rayleigh-secular.ts).
+      const amplification = Math.max(1, (Math.max(...layers.map((l) => l.vs)) / c) ** 4);
+      expect(Math.abs(rayleighSecular(s, omega, c) / fast.value - 1), ctx).toBeLessThan(1e-12 * amplification);
       const slope = rayleighSecularSlope(s, omega, c, { value: 0, dc: 0, dk: 0 });
       expect(slope.value, ctx).toBe(fast.value);
       expect(slope.dc, ctx).toBe(fast.dc);

@@ -1,0 +1,81 @@
+/**
+ * Rayleigh curves (followModes, core/dispersion/curve.ts): each frequency is
+ * solved by the root scan's fast mode and checked against its neighbours;
+ * the roots must equal those of the careful mode (the solver's default) at
+ * every frequency. Reference: the careful scan of the same compound-matrix
+ * secular function (its own checks are in rayleigh-random.test.ts and
+ * test/reference/rayleigh-thin-layer.test.ts). Models are invented; the
+ * first is a seeded random model (a stiff layer over a very soft one at
+ * depth) on which the fast scan alone misses a close pair at 50.0046 Hz.
+ */
+import { describe, expect, it } from 'vitest';
+import { followModes } from '../../../../core/dispersion/curve';
+import type { LayeredModel } from '../../../../core/dispersion/model';
+import { RayleighStackSolver, prepareRayleighStack } from '../../../../core/dispersion/rayleigh-stack';
+import { mulberry32 } from '../../../../core/shared/random';
+
+const pairNearThirdRoot: LayeredModel = {
+  layers: [
+    { thickness: 14.24067913601175, vs: 521.295511610806, vp: 1290.7800596018672, density: 2045.3939526341856 },
+    { thickness: 12.277417056728154, vs: 334.79835195466876, vp: 1500, density: 1512.570578372106 },
+    { thickness: 5.0255973841995, vs: 852.9197243973613, vp: 1500, density: 2053.6718145012856 },
+    { thickness: 13.621698052971624, vs: 109.39932223409414, vp: 375.7476872533441, density: 1853.6311977077276 },
+  ],
+  halfspace: { vs: 657.5038830347361, vp: 1500, density: 2355.826880526729 },
+};
+const MISSED_AT = 50.004587031660265;
+
+/** Frequencies where followModes and careful solves disagree. */
+function disagreements(model: LayeredModel, freq: Float64Array, modes: number): string[] {
+  const solver = new RayleighStackSolver(prepareRayleighStack(model));
+  const followed = followModes(solver, freq, modes);
+  expect(solver.careful).toBe(true);
+  const out = new Float64Array(modes);
+  const bad: string[] = [];
+  for (let i = 0; i < freq.length; i++) {
+    const n = solver.solve(2 * Math.PI * freq[i], modes, out);
+    const got = Array.from(followed.phase.subarray(i * modes, i * modes + followed.found[i]));
+    const want = Array.from(out.subarray(0, n));
+    if (got.length !== want.length || got.some((c, m) => Math.abs(c - want[m]) > 1e-10 * want[m])) {
+      bad.push(`${freq[i]} Hz: curve ${got.map((c) => c.toFixed(3))}, careful ${want.map((c) => c.toFixed(3))}`);
+    }
+  }
+  return bad;
+}
+
+describe('Rayleigh curves: fast scan checked against neighbouring frequencies', () => {
+  it('recovers a close pair beside a third root that the fast scan alone misses', () => {
+    const solver = new RayleighStackSolver(prepareRayleighStack(pairNearThirdRoot));
+    const careful = new Float64Array(30);
+    const fast = new Float64Array(30);
+    const nc = solver.solve(2 * Math.PI * MISSED_AT, 30, careful);
+    solver.careful = false;
+    const nfast = solver.solve(2 * Math.PI * MISSED_AT, 30, fast);
+    // The case is a real test of the check: the fast scan alone loses two roots here.
+    expect(nc - nfast).toBe(2);
+    const freq = Float64Array.from({ length: 41 }, (_, i) => 40 + 0.5 * i);
+    const band = Float64Array.from([...freq, MISSED_AT]).sort();
+    expect(disagreements(pairNearThirdRoot, band, 20)).toEqual([]);
+  });
+
+  it('equals the careful scan at every frequency on seeded random models (8 modes, 40 frequencies each)', () => {
+    const rand = mulberry32(4242);
+    const bad: string[] = [];
+    for (let t = 0; t < 8; t++) {
+      const n = 1 + Math.floor(rand() * 5);
+      const layers = [];
+      for (let i = 0; i < n; i++) {
+        const vs = 60 + rand() * 840;
+        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
+      }
+      const slowest = Math.min(...layers.map((l) => l.vs));
+      const vsH = slowest + 20 + rand() * (1200 - slowest);
+      const model: LayeredModel = { layers, halfspace: { vs: vsH, vp: vsH * (1.6 + rand()), density: 2000 } };
+      const f0 = 0.5 + 3 * rand();
+      const f1 = f0 * (5 + 40 * rand());
+      const freq = Float64Array.from({ length: 40 }, (_, i) => f0 * Math.pow(f1 / f0, i / 39));
+      bad.push(...disagreements(model, freq, 8).map((b) => `model ${t}: ${b}`));
+    }
+    expect(bad).toEqual([]);
+  });
+});
