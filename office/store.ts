@@ -581,17 +581,27 @@ export class OfficeStore {
    * it (attach) and that the office holds, in base64. Ordered by id.
    */
   recordingsForBundle(siteIds?: readonly string[]): { recordings: RecordingRecord[]; files: RecordingFile[] } {
-    const only = siteIds ? new Set(siteIds) : undefined;
-    const rows = this.db.prepare('SELECT site_id, body FROM recordings ORDER BY id').all() as { site_id: string; body: string }[];
-    const recordings = rows.filter((r) => !only || only.has(r.site_id)).map((r) => JSON.parse(r.body) as RecordingRecord);
-    const getFile = this.db.prepare('SELECT sha256, bytes FROM recording_files WHERE id = ?');
+    const recordings = this.recordingRecords(siteIds);
     const files: RecordingFile[] = [];
     for (const rec of recordings) {
       if (!rec.attach || rec.deleted) continue;
-      const file = getFile.get(rec.id) as { sha256: string; bytes: Buffer } | undefined;
-      if (file && file.sha256 === rec.sha256) files.push({ id: rec.id, sha256: file.sha256, bytes_base64: file.bytes.toString('base64') });
+      const bytes = this.recordingFile(rec);
+      if (bytes) files.push({ id: rec.id, sha256: rec.sha256, bytes_base64: bytes.toString('base64') });
     }
     return { recordings, files };
+  }
+
+  /** The stored recording records of the given sites (all sites when none are given), deletions included, ordered by id. */
+  recordingRecords(siteIds?: readonly string[]): RecordingRecord[] {
+    const only = siteIds ? new Set(siteIds) : undefined;
+    const rows = this.db.prepare('SELECT site_id, body FROM recordings ORDER BY id').all() as { site_id: string; body: string }[];
+    return rows.filter((r) => !only || only.has(r.site_id)).map((r) => JSON.parse(r.body) as RecordingRecord);
+  }
+
+  /** The raw file the office holds for a recording, when it holds one that has the SHA-256 the record states. */
+  recordingFile(rec: RecordingRecord): Buffer | undefined {
+    const file = this.db.prepare('SELECT sha256, bytes FROM recording_files WHERE id = ?').get(rec.id) as { sha256: string; bytes: Buffer } | undefined;
+    return file && file.sha256 === rec.sha256 ? file.bytes : undefined;
   }
 
   /** Counts for status lines. */

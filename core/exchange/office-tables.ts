@@ -9,7 +9,7 @@
  */
 import { CAUTION } from '../shared/caution';
 import { spreadsheetSafeText } from '../shared/spreadsheet-text';
-import type { PickRecord, SiteRecord } from './records';
+import type { PickRecord, RecordingRecord, SiteRecord } from './records';
 import type { SiteSummary } from './site-summary';
 
 function textCell(s: string | undefined): string {
@@ -163,5 +163,75 @@ export function summaryToCsv(summaries: readonly SiteSummary[]): string {
         textCell(s.caution),
       ];
     }),
+  );
+}
+
+/** The columns of the seismograph files table, in order. */
+export const RECORDINGS_CSV_COLUMNS = [
+  'site_id',
+  'recording_id',
+  'name',
+  'format',
+  'bytes',
+  'sha256',
+  'traces',
+  'samples',
+  'sample_interval_s',
+  'delay_s',
+  'component',
+  'first_offset_m',
+  'spacing_m',
+  'raw_file',
+  'file',
+  'caution',
+] as const;
+
+/** The receiver spacing of offsets that are all known and evenly spaced (to 1 mm), else undefined. */
+function evenSpacing(offsets: readonly (number | null)[]): number | undefined {
+  if (offsets.length < 2 || offsets.some((o) => o === null)) return undefined;
+  const o = offsets as number[];
+  const d = o[1] - o[0];
+  return o.every((x, k) => Math.abs(x - (o[0] + k * d)) <= 1e-3) ? d : undefined;
+}
+
+/** One live recording and where its raw file was written (relative path), if the office holds it. */
+export interface RecordingRow {
+  recording: RecordingRecord;
+  file?: string;
+}
+
+/**
+ * The seismograph files of the sites, one row per live recording, in the
+ * given order. Geometry is the file's as read on the tablet, except that
+ * `first_offset_m`/`spacing_m` and `delay_s`/`component` show what the crew
+ * set over it when they did; `spacing_m` is empty when the file's offsets
+ * are not evenly spaced and the crew set none. `raw_file` says whether the raw file is here
+ * (`written`), stayed on the tablet by the site's choice (`kept on tablet`)
+ * or was sent but has not reached the office (`not received`); `file` is the
+ * path it was written to, relative to the export folder.
+ */
+export function recordingsToCsv(rows: readonly RecordingRow[]): string {
+  return table(
+    RECORDINGS_CSV_COLUMNS,
+    rows
+      .filter((r) => !r.recording.deleted)
+      .map(({ recording: r, file }) => [
+        textCell(r.siteId),
+        textCell(r.id),
+        textCell(r.name),
+        r.format,
+        String(r.byteLength),
+        r.sha256,
+        String(r.geometry.traces),
+        String(r.geometry.samples),
+        numCell(r.geometry.sample_interval_s),
+        numCell(r.overrides.delay ?? r.geometry.delay_s),
+        r.overrides.component ?? r.geometry.component,
+        numCell(r.overrides.offsets?.first ?? r.geometry.offsets_m[0] ?? undefined),
+        numCell(r.overrides.offsets?.spacing ?? evenSpacing(r.geometry.offsets_m)),
+        file !== undefined ? 'written' : r.attach ? 'not received' : 'kept on tablet',
+        textCell(file),
+        textCell(CAUTION),
+      ]),
   );
 }

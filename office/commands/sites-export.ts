@@ -1,6 +1,7 @@
 /**
  * `shearfield sites-export OUTDIR [--data DIR]`: every site as CSV and
- * GeoJSON, and each site's picks as a picks CSV file.
+ * GeoJSON, each site's picks as a picks CSV file, and the seismograph files
+ * the office holds with their list.
  */
 import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -10,11 +11,11 @@ import { InputError } from '../../core/shared/errors';
 import { sitesToGeoJson } from '../../core/exchange/geojson';
 import { picksToCsv } from '../../core/picks/picks';
 import { sitePicks, summariseSite, type SiteSummary } from '../../core/exchange/site-summary';
-import { sitesToCsv } from '../../core/exchange/office-tables';
-import type { SiteRecord } from '../../core/exchange/records';
+import { recordingsToCsv, sitesToCsv, type RecordingRow } from '../../core/exchange/office-tables';
+import type { RecordingRecord, SiteRecord } from '../../core/exchange/records';
 import { liveSitesAndPicks } from '../cli-options';
 import type { Command, CommandIO } from '../command';
-import { DEFAULT_DATA_DIR } from '../store';
+import { DEFAULT_DATA_DIR, OfficeStore } from '../store';
 
 const HELP = `Usage: shearfield sites-export OUTDIR [--data DIR] [--no-estimate]
 
@@ -31,6 +32,15 @@ Writes into OUTDIR (created if missing):
   picks-raw/SITE_ID.csv  the same with the text exactly as stored, for Shearfield and scripts
                      (the app and shearfield estimate read it back exactly); do not open it in
                      a spreadsheet. A ":" in a site id is written %3A in these file names.
+  recordings.csv     when the sites have seismograph files: one row per file (site_id,
+                     recording_id, name, format, bytes, sha256, traces, samples,
+                     sample_interval_s, delay_s, component, first_offset_m, spacing_m,
+                     raw_file, file, caution); raw_file says whether the raw file is
+                     written here, stayed on the tablet (the site's choice) or has not
+                     reached the office
+  recordings/SITE_ID/RECORDING_ID-NAME  each raw file the office holds, byte for byte
+                     (the name as the crew gave it, with characters other than letters,
+                     digits, . _ - written _)
   CAUTION.txt        the screening caution
 Every text cell of sites.csv gets the same apostrophe guard as picks/.
 Deleted sites are left out.
@@ -64,9 +74,36 @@ function pickFileNames(sites: readonly SiteRecord[]): Map<string, string> {
   return names;
 }
 
+/** The safe stem of an id in a file or folder name ("a:b" → "a%3Ab"). */
+const idStem = (id: string) => id.replace(/:/g, '%3A');
+
+/**
+ * Where each held raw file goes, relative to OUTDIR: recordings/SITE/ID-NAME.
+ * Stops before anything is written when two site folders, or two files in
+ * one folder, would differ only in letter case (one file on many disks).
+ */
+function recordingPaths(recordings: readonly RecordingRecord[]): Map<string, string> {
+  const paths = new Map<string, string>();
+  const folded = new Map<string, string>();
+  for (const r of recordings) {
+    const name = r.name.replace(/[^A-Za-z0-9._-]+/g, '_').replace(/^[._]+/, '').slice(0, 80) || 'record';
+    const path = `recordings/${idStem(r.siteId)}/${idStem(r.id)}-${name}`;
+    const other = folded.get(path.toLowerCase());
+    if (other !== undefined) {
+      throw new InputError(
+        'OUTDIR',
+        `Seismograph files ${JSON.stringify(other)} and ${JSON.stringify(r.id)} would be written under names that differ only in letter case, which many disks treat as one file; nothing was exported. Export their sites one by one with shearfield bundle-export --site.`,
+      );
+    }
+    folded.set(path.toLowerCase(), r.id);
+    paths.set(r.id, path);
+  }
+  return paths;
+}
+
 const sitesExport: Command = {
   name: 'sites-export',
-  summary: 'Export every site as CSV and GeoJSON, and each site\'s picks as CSV.',
+  summary: 'Export every site as CSV and GeoJSON, each site\'s picks as CSV, and the seismograph files the office holds.',
   help: HELP,
   async run(args: string[], io: CommandIO): Promise<number> {
     const { values, positionals } = parseArgs({
@@ -79,25 +116,52 @@ const sitesExport: Command = {
     const { sites, picks } = liveSitesAndPicks(values.data!);
     const out = positionals[0];
     const names = pickFileNames(sites.filter((s) => sitePicks(s.id, picks).length > 0));
-    mkdirSync(join(out, 'picks'), { recursive: true });
-    const summaries = new Map<string, SiteSummary>();
-    if (!values['no-estimate']) for (const s of sites) summaries.set(s.id, summariseSite(s, picks));
-    writeFileSync(join(out, 'sites.csv'), sitesToCsv(sites, picks));
-    writeFileSync(join(out, 'sites.geojson'), JSON.stringify(sitesToGeoJson(sites, summaries), null, 2) + '\n');
-    writeFileSync(join(out, 'CAUTION.txt'), CAUTION + '\n');
-    mkdirSync(join(out, 'picks-raw'), { recursive: true });
-    let files = 0;
-    for (const s of sites) {
-      const own = sitePicks(s.id, picks);
-      if (own.length === 0) continue;
-      const name = names.get(s.id)!;
-      writeFileSync(join(out, 'picks', name), picksToCsv(own, { forSpreadsheet: true }));
-      writeFileSync(join(out, 'picks-raw', name), picksToCsv(own));
-      files++;
+    const live = new Set(sites.map((s) => s.id));
+    const store = OfficeStore.open(values.data!);
+    try {
+      const recordings = store
+        .recordingRecords()
+        .filter((r) => !r.deleted && live.has(r.siteId))
+        .sort((a, b) => (a.siteId < b.siteId ? -1 : a.siteId > b.siteId ? 1 : a.addedAt.localeCompare(b.addedAt) || (a.id < b.id ? -1 : 1)));
+      const paths = recordingPaths(recordings);
+      mkdirSync(join(out, 'picks'), { recursive: true });
+      const summaries = new Map<string, SiteSummary>();
+      if (!values['no-estimate']) for (const s of sites) summaries.set(s.id, summariseSite(s, picks));
+      writeFileSync(join(out, 'sites.csv'), sitesToCsv(sites, picks));
+      writeFileSync(join(out, 'sites.geojson'), JSON.stringify(sitesToGeoJson(sites, summaries), null, 2) + '\n');
+      writeFileSync(join(out, 'CAUTION.txt'), CAUTION + '\n');
+      mkdirSync(join(out, 'picks-raw'), { recursive: true });
+      let files = 0;
+      for (const s of sites) {
+        const own = sitePicks(s.id, picks);
+        if (own.length === 0) continue;
+        const name = names.get(s.id)!;
+        writeFileSync(join(out, 'picks', name), picksToCsv(own, { forSpreadsheet: true }));
+        writeFileSync(join(out, 'picks-raw', name), picksToCsv(own));
+        files++;
+      }
+      // Seismograph files: each raw file the office holds, one file at a time, and the list of them all.
+      const rows: RecordingRow[] = [];
+      for (const r of recordings) {
+        const bytes = store.recordingFile(r);
+        if (!bytes) {
+          rows.push({ recording: r });
+          continue;
+        }
+        const path = paths.get(r.id)!;
+        mkdirSync(join(out, path, '..'), { recursive: true });
+        writeFileSync(join(out, path), bytes);
+        rows.push({ recording: r, file: path });
+      }
+      if (recordings.length > 0) writeFileSync(join(out, 'recordings.csv'), recordingsToCsv(rows));
+      const held = rows.filter((r) => r.file !== undefined).length;
+      io.out(
+        `Wrote ${sites.length} sites to ${join(out, 'sites.csv')} and ${join(out, 'sites.geojson')}, and ${files} picks files to ${join(out, 'picks')} (for spreadsheets) and ${files} to ${join(out, 'picks-raw')} (exact text)` +
+          (recordings.length > 0 ? `, and ${recordings.length} seismograph files to ${join(out, 'recordings.csv')} (${held} raw files under ${join(out, 'recordings')}).\n` : '.\n'),
+      );
+    } finally {
+      store.close();
     }
-    io.out(
-      `Wrote ${sites.length} sites to ${join(out, 'sites.csv')} and ${join(out, 'sites.geojson')}, and ${files} picks files to ${join(out, 'picks')} (for spreadsheets) and ${files} to ${join(out, 'picks-raw')} (exact text).\n`,
-    );
     return 0;
   },
 };

@@ -1,18 +1,22 @@
 /**
- * The office's own bundle-export carries the seismograph files it holds, in
+ * The office's own exports carry the seismograph files it holds. bundle-export:
+ * in
  * the app's bundle format (core/exchange/bundle.ts): every recording record
  * of the exported sites, and the raw file of those whose site chose to send
  * it; bundle-import into another office store gives back the same records
- * and bytes (SHA-256 by Node's crypto, a general-purpose reference). Real
+ * and bytes (SHA-256 by Node's crypto, a general-purpose reference).
+ * sites-export: each held raw file byte for byte, and recordings.csv. Real
  * SQLite files in a temporary folder; the commands run in this process.
  */
 import { createHash } from 'node:crypto';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { parseBundle } from '../../../core/exchange/bundle';
 import { fromBase64 } from '../../../core/exchange/base64';
+import { RECORDINGS_CSV_COLUMNS } from '../../../core/exchange/office-tables';
+import { CAUTION } from '../../../core/shared/caution';
 import type { PickRecord, RecordingRecord, SiteRecord } from '../../../core/exchange/records';
 import { main } from '../../../office/cli';
 import { OfficeStore } from '../../../office/store';
@@ -104,5 +108,43 @@ describe('bundle-export with seismograph files', () => {
     const out = join(a, 'plain.json');
     expect((await cli(['bundle-export', out, '--data', a])).out).toBe(`Wrote 1 sites, 1 picks and 0 estimates to ${out}.\n`);
     expect(Object.keys(JSON.parse(readFileSync(out, 'utf8')))).toEqual(['format', 'version', 'exportedAt', 'caution', 'sites', 'picks', 'estimates', 'exportedBy']);
+  });
+});
+
+describe('sites-export with seismograph files', () => {
+  it('writes each held raw file byte for byte under recordings/SITE/, lists every live file in recordings.csv, and names a hostile file name safely', async () => {
+    const a = dir();
+    const sent = bytesOf(11, 3000);
+    const recs = [
+      { ...recording('r-sent', 's1', true, sent), name: '../shot 1.sgy' },
+      recording('r-home', 's1', false, bytesOf(3, 500)),
+      recording('r-late', 's1', true, bytesOf(4, 400)),
+    ];
+    const store = OfficeStore.open(a, { create: true });
+    store.applyBatch([site('s1'), pick], { batchId: 'b1', source: 'test' });
+    store.applyRecordings(recs, [{ id: 'r-sent', sha256: recs[0].sha256, bytes: sent }], 'test');
+    store.close();
+
+    const out = join(a, 'export');
+    const r = await cli(['sites-export', out, '--data', a, '--no-estimate']);
+    expect(r.code, r.err).toBe(0);
+    expect(r.out).toBe(
+      `Wrote 1 sites to ${join(out, 'sites.csv')} and ${join(out, 'sites.geojson')}, and 1 picks files to ${join(out, 'picks')} (for spreadsheets) and 1 to ${join(out, 'picks-raw')} (exact text), ` +
+        `and 3 seismograph files to ${join(out, 'recordings.csv')} (1 raw files under ${join(out, 'recordings')}).\n`,
+    );
+    const written = readFileSync(join(out, 'recordings', 's1', 'r-sent-shot_1.sgy'));
+    expect(createHash('sha256').update(written).digest('hex')).toBe(recs[0].sha256);
+    expect(existsSync(join(a, 'shot_1.sgy'))).toBe(false);
+    const lines = readFileSync(join(out, 'recordings.csv'), 'utf8').trimEnd().split('\r\n');
+    expect(lines[0]).toBe(RECORDINGS_CSV_COLUMNS.join(','));
+    const byId = new Map(lines.slice(1).map((l) => [l.split(',')[1], l.split(',')]));
+    const col = (id: string, c: (typeof RECORDINGS_CSV_COLUMNS)[number]) => byId.get(id)![RECORDINGS_CSV_COLUMNS.indexOf(c)];
+    expect([...byId.keys()].sort()).toEqual(['r-home', 'r-late', 'r-sent']);
+    expect([col('r-sent', 'raw_file'), col('r-sent', 'file'), col('r-sent', 'name')]).toEqual(['written', 'recordings/s1/r-sent-shot_1.sgy', '../shot 1.sgy']);
+    expect([col('r-home', 'raw_file'), col('r-home', 'file')]).toEqual(['kept on tablet', '']);
+    expect([col('r-late', 'raw_file'), col('r-late', 'file')]).toEqual(['not received', '']);
+    // The crew's geometry over the file's: first offset 2 m, spacing 2 m, transverse component.
+    expect([col('r-sent', 'first_offset_m'), col('r-sent', 'spacing_m'), col('r-sent', 'component'), col('r-sent', 'traces')]).toEqual(['2', '2', 'transverse', '2']);
+    expect(lines[1].endsWith(CAUTION)).toBe(true);
   });
 });
