@@ -133,9 +133,9 @@ describe('the layer builder in Chromium, offline', () => {
       .waitFor();
     expect(await misfit.textContent()).toBe(before); // the kept model's curves stay
 
-    // A reload (still offline) brings the kept model back, not the refused value.
+    // A reload (still offline) returns to the layer builder with the kept model, not the refused value.
     expect((await reload(page)).fromServiceWorker()).toBe(true);
-    await page.getByRole('button', { name: 'Layer builder' }).click();
+    await page.getByRole('heading', { name: 'Layer builder' }).waitFor();
     const vp2 = page.getByLabel('Layer 2 P speed (m/s)', { exact: true });
     await vp2.waitFor();
     await page.waitForFunction(() => (document.getElementById('lb-1-p') as HTMLInputElement | null)?.value === '598.7', undefined, { timeout: 10_000 });

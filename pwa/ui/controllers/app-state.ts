@@ -171,6 +171,9 @@ export interface TrialState {
   error?: string;
 }
 
+/** Settings key of the What-if view's last tab (one layer or the layer builder), kept on this device. */
+export const WHATIF_TAB_KEY = 'whatif.tab';
+
 /** The layer builder of the open site (layered-controller.ts). */
 export interface LayeredState {
   /** Which what-if the What-if view shows: one layer (sliders) or the layer builder. */

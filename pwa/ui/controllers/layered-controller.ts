@@ -7,7 +7,7 @@
  * for that chunk (a few milliseconds, offline too: the service worker
  * precaches it).
  */
-import type { LayeredState, AppState } from './app-state';
+import { WHATIF_TAB_KEY, type LayeredState, type AppState } from './app-state';
 import type { LayerRowText, PInput, WaveChoice } from './layered-form';
 import type { LayeredWork, TrialRunner } from './layered-work';
 import { messageOf, type StateHub } from './state-hub';
@@ -43,9 +43,10 @@ export class LayeredController {
     this.hub.set({ layered: { ...this.hub.current.layered, ...p } });
   }
 
-  /** Which what-if the What-if view shows. */
+  /** Which what-if the What-if view shows (kept on this device, so a reload returns to it). */
   setTab(tab: LayeredState['tab']): void {
     this.patch({ tab });
+    void this.hub.store?.putSetting(WHATIF_TAB_KEY, tab).catch(() => undefined);
   }
 
   /** Typing in a cell: kept as text until committed. */

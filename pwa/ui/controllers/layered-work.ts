@@ -21,7 +21,7 @@ import type { ProfileResult } from '../../../core/profile/profile-types';
 import { profileVerdict } from '../../../core/profile/profile-verdict';
 import { pickOf } from '../../store';
 import { computeModelTrial, type TrialRequest, type TrialResult } from '../../worker/bridge';
-import { initialState, type AppState, type LayeredState, type TrialState } from './app-state';
+import { initialState, WHATIF_TAB_KEY, type AppState, type LayeredState, type TrialState } from './app-state';
 import {
   blankRows,
   builderKey,
@@ -150,7 +150,12 @@ export class LayeredWork {
   private async load(siteId: string): Promise<void> {
     let stored: StoredBuilderModel | undefined;
     try {
-      stored = readStored(await this.hub.store?.getSetting<unknown>(builderKey(siteId)));
+      const [kept, tab] = await Promise.all([
+        this.hub.store?.getSetting<unknown>(builderKey(siteId)),
+        this.hub.store?.getSetting<unknown>(WHATIF_TAB_KEY),
+      ]);
+      stored = readStored(kept);
+      if (this.siteId === siteId && (tab === 'one' || tab === 'layers') && tab !== this.state.tab) this.patch({ tab });
     } catch {
       stored = undefined;
     }

@@ -60,6 +60,7 @@ describe('the layer builder', () => {
     expect(t.result!.curves.map((x) => x.wave)).toEqual(['love', 'rayleigh']);
     expect(t.result!.curves[1].modes[0].phase.length).toBeGreaterThan(0);
     const id = c.current.openSiteId!;
+    c.layered.setTab('layers');
     const kept = await stores[0].getSetting<{ rows: { p: string }[] }>(builderKey(id));
     expect(kept!.rows.map((r) => r.p)).toEqual(['340', '1550', '1900']);
 
@@ -79,6 +80,7 @@ describe('the layer builder', () => {
     await vi.waitFor(() => expect(again.current.layered.trial.status).toBe('done'));
     expect(again.current.layered.rows.map((r) => r.p)).toEqual(['340', '1550', '1900']);
     expect(again.current.layered.waves).toEqual({ love: true, rayleigh: true });
+    expect(again.current.layered.tab).toBe('layers'); // the What-if view returns to the builder
   });
 
   it('lets the latest edit win: a stale computation is aborted and its answer never shows', async () => {
