@@ -199,8 +199,13 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
     );
   // After a layered estimate the picks plot draws its best-fit curves (Love and/or Rayleigh), faint when not resolved.
   const best = s.layered.best;
-  const layeredCurves =
-    best.result && best.band && best.caption ? { band: best.band, curves: best.result.curves, unsupported: best.verdict?.level === 'unresolved' } : undefined;
+  const layeredCurves = useMemo(
+    () =>
+      best.result && best.band && best.caption
+        ? { band: best.band, curves: best.result.curves, unsupported: best.verdict?.level === 'unresolved' }
+        : undefined,
+    [best.result, best.band, best.caption, best.verdict],
+  );
   const estimateCaption = layeredCurves
     ? `${best.caption} ${CAUTION}`
     : s.estimate.status === 'running'
@@ -323,42 +328,42 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
         />
       ) : s.view === 'whatif' && views ? (
         <>
-        <div class="seg whatif-tabs" role="group" aria-label="What-if model">
-          <button type="button" aria-pressed={s.layered.tab === 'one'} onClick={() => c.layered.setTab('one')}>
-            One layer (sliders)
-          </button>
-          <button type="button" aria-pressed={s.layered.tab === 'layers'} onClick={() => c.layered.setTab('layers')}>
-            Layer builder
-          </button>
-        </div>
-        {s.layered.tab === 'layers' ? (
-          <views.LayerBuilderView
-            state={s.layered}
-            picks={s.picks}
-            hasProfile={!!s.profile.result}
-            hasEstimate={!!s.estimate.result}
-            profileRunning={s.profile.status === 'running'}
-            bestFit={layeredCurves}
-            selectedId={s.selectedPickId}
-            plot={s.plot}
-            theme={s.theme}
-            layered={c.layered}
-            onSelect={(id) => c.picks.selectPick(id)}
-            onPlot={(p) => c.settings.setPlot(p)}
-          />
-        ) : (
-        <views.WhatIfView
-          model={s.whatif}
-          result={s.estimate.result}
-          picks={s.picks}
-          selectedId={s.selectedPickId}
-          plot={s.plot}
-          theme={s.theme}
-          onModel={(m) => c.settings.setWhatIf(m)}
-          onSelect={(id) => c.picks.selectPick(id)}
-          onPlot={(p) => c.settings.setPlot(p)}
-        />
-        )}
+          <div class="seg whatif-tabs" role="group" aria-label="What-if model">
+            <button type="button" aria-pressed={s.layered.tab === 'one'} onClick={() => c.layered.setTab('one')}>
+              One layer (sliders)
+            </button>
+            <button type="button" aria-pressed={s.layered.tab === 'layers'} onClick={() => c.layered.setTab('layers')}>
+              Layer builder
+            </button>
+          </div>
+          {s.layered.tab === 'layers' ? (
+            <views.LayerBuilderView
+              state={s.layered}
+              picks={s.picks}
+              hasProfile={!!s.profile.result}
+              hasEstimate={!!s.estimate.result}
+              profileRunning={s.profile.status === 'running'}
+              bestFit={layeredCurves}
+              selectedId={s.selectedPickId}
+              plot={s.plot}
+              theme={s.theme}
+              layered={c.layered}
+              onSelect={(id) => c.picks.selectPick(id)}
+              onPlot={(p) => c.settings.setPlot(p)}
+            />
+          ) : (
+            <views.WhatIfView
+              model={s.whatif}
+              result={s.estimate.result}
+              picks={s.picks}
+              selectedId={s.selectedPickId}
+              plot={s.plot}
+              theme={s.theme}
+              onModel={(m) => c.settings.setWhatIf(m)}
+              onSelect={(id) => c.picks.selectPick(id)}
+              onPlot={(p) => c.settings.setPlot(p)}
+            />
+          )}
         </>
       ) : s.view === 'survey' && views ? (
         <views.SurveyView depthText={s.surveyDepth} picks={s.picks} result={s.estimate.result} onDepth={(t) => c.settings.setSurveyDepth(t)} />

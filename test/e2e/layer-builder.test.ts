@@ -4,8 +4,9 @@
  * open What-if → Layer builder, type a two-layer model with Poisson's
  * ratios, and see its Rayleigh curves drawn against the picks in the
  * worker, the misfit in plain words, Vs30 and the caution (after a
- * one-layer profile, whose best-fit Rayleigh curves the picks plot draws
- * and whose model the builder can start from); a P speed below
+ * three-layer profile, whose best-fit Rayleigh curves the picks plot draws,
+ * faint when not resolved, and whose model the builder can start from); a
+ * P speed below
  * √(4/3) times the shear speed gets its sentence and the kept model stays;
  * a reload brings the kept model back. The builder's tablet screenshot goes
  * to docs/screenshot-builder.png for the README.
@@ -59,7 +60,7 @@ async function type(label: string, value: string): Promise<void> {
 }
 
 describe('the layer builder in Chromium, offline', () => {
-  it('draws a layered estimate’s best-fit Rayleigh curves, then a typed two-layer model’s, refuses a bad P speed in a sentence and keeps the model through a reload', async () => {
+  it('draws a layered estimate’s best-fit Rayleigh curves (faint when not resolved), then a typed two-layer model’s, refuses a bad P speed in a sentence and keeps the model through a reload', async () => {
     await page.getByRole('heading', { name: 'Field sites' }).waitFor();
     await waitForServiceWorkerControl(page);
     await setOffline(app.browser.context, true);
@@ -73,14 +74,20 @@ describe('the layer builder in Chromium, offline', () => {
     await page.getByRole('button', { name: 'Import pasted text' }).click();
     await page.getByRole('heading', { name: 'Picks (8)', exact: true }).waitFor({ timeout: 10_000 });
 
-    // A one-layer profile (a few seconds in the worker): the picks plot then draws its best-fit Rayleigh curves with its verdict.
+    // Three layers from 8 picks of a narrow band (a few seconds in the worker): the picks plot then draws the
+    // best-fit Rayleigh curves with the verdict, faint and "for reference only" when the layers are not resolved.
     await page.getByRole('button', { name: 'Layered profile' }).click();
-    await page.getByLabel('Number of layers').selectOption('1');
+    await page.getByLabel('Number of layers').selectOption('3');
     await page.getByRole('button', { name: 'Estimate the profile' }).click();
     await page.getByTestId('profile-chart').waitFor({ timeout: 60_000 });
+    const level = await page.getByTestId('profile-verdict').getAttribute('data-level');
     await page.getByRole('button', { name: 'Picks & plot' }).click();
-    await page.getByText('layered best fit Rayleigh curves, dash-dot (phase; group: dash-dot-dot)').waitFor({ timeout: 15_000 });
-    expect(await page.locator('.plot-panel .caption').textContent()).toMatch(/^Layered best.* \(1 layer.*Screening estimate only\./);
+    const key = page.getByText('layered best fit Rayleigh curves, dash-dot (phase; group: dash-dot-dot)');
+    await key.waitFor({ timeout: 15_000 });
+    const caption = (await page.locator('.plot-panel .caption').textContent()) ?? '';
+    expect(caption).toMatch(/^Layered best.* \(3 layers.*Screening estimate only\./);
+    expect(caption.includes('for reference only')).toBe(level === 'unresolved');
+    expect((await key.textContent())!.includes('thin and faint: not resolved, for reference only')).toBe(level === 'unresolved');
 
     await page.getByRole('button', { name: 'What-if', exact: true }).click();
     await page.getByRole('button', { name: 'Layer builder' }).click();

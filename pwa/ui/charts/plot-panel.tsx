@@ -120,7 +120,7 @@ export function PlotPanel(props: PlotPanelProps) {
         {props.computed ? (
           props.computed.curves.map((c) => (
             <li key={c.wave}>
-              <svg class="glyph-svg" width="34" height="10" aria-hidden="true">
+              <svg class="glyph-svg" width="34" height="10" aria-hidden="true" opacity={props.computed?.unsupported ? 0.5 : undefined}>
                 <line x1="1" y1="5" x2="33" y2="5" class={`curve-${c.wave}`} stroke-dasharray={c.wave === 'rayleigh' ? '12 4 2 4' : '8 5'} />
               </svg>{' '}
               {props.curveLabel} {c.wave === 'rayleigh' ? 'Rayleigh curves, dash-dot (phase; group: dash-dot-dot)' : 'Love curves, dashed (phase; group: solid)'}

@@ -9,6 +9,7 @@
  * the picks, the misfit in plain words, and Vs30, site classes and f0 of
  * the model with the caution. State and actions: layered-controller.ts.
  */
+import { useMemo } from 'preact/hooks';
 import type { PickRecord } from '../../../core/exchange/records';
 import type { SiteFigures } from '../../../core/site/site';
 import type { ComputedCurves } from '../charts/chart-data';
@@ -114,7 +115,7 @@ export function LayerBuilderView(props: LayerBuilderProps) {
   const n = s.rows.length;
   const t = s.trial;
   const pUnit = s.pInput === 'vp' ? 'm/s' : '';
-  const computed = t.result && t.band ? { band: t.band, curves: t.result.curves } : undefined;
+  const computed = useMemo(() => (t.result && t.band ? { band: t.band, curves: t.result.curves } : undefined), [t.result, t.band]);
   const approaches = t.result?.curves.find((c) => c.wave === 'rayleigh')?.approaches.length ?? 0;
   return (
     <div class="split">
