@@ -56,6 +56,8 @@ const scenarios: Record<string, string[]> = {
   rayleigh: ['with-vp.json', '--freq', '4000,2000', '--modes', '2', '--wave', 'rayleigh'],
   rayleighCsv: ['with-vp.json', '--band', '1:10:3', '--wave', 'RAYLEIGH', '--csv'],
   loveIgnoresVp: ['with-vp.json', '--freq', '5'],
+  branchesMeet: ['stiff-crust.json', '--band', '5:40:100', '--modes', '2', '--wave', 'rayleigh'],
+  branchesApart: ['with-vp.json', '--band', '1:60:100', '--modes', '3', '--wave', 'rayleigh'],
   waveBad: ['model.json', '--freq', '1', '--wave', 'shear'],
   vpMissing: ['model.json', '--freq', '1', '--wave', 'rayleigh'],
   vpLow: ['low-vp.json', '--freq', '1', '--wave', 'rayleigh'],
@@ -72,6 +74,15 @@ const WITH_VP = {
   halfspace: { vs_m_s: 400, density_kg_m3: 2000, vp_m_s: 400 * Math.sqrt(3) },
 };
 const TOP_RAYLEIGH = Math.sqrt(2 - 2 / Math.sqrt(3)) * 200;
+/** Invented: a stiff crust over a soft layer, where the fundamental passes from one branch to another near 18.6 Hz. */
+const STIFF_CRUST = {
+  layers: [
+    { thickness_m: 4, vs_m_s: 400, vp_m_s: 720, density_kg_m3: 2000 },
+    { thickness_m: 4, vs_m_s: 130, vp_m_s: 330, density_kg_m3: 1750 },
+    { thickness_m: 17, vs_m_s: 270, vp_m_s: 540, density_kg_m3: 1900 },
+  ],
+  halfspace: { vs_m_s: 430, vp_m_s: 860, density_kg_m3: 2100 },
+};
 
 beforeAll(async () => {
   dir = mkdtempSync(join(tmpdir(), 'shearfield-curve-'));
@@ -87,6 +98,7 @@ beforeAll(async () => {
     }),
   );
   writeFileSync(join(dir, 'with-vp.json'), JSON.stringify(WITH_VP));
+  writeFileSync(join(dir, 'stiff-crust.json'), JSON.stringify(STIFF_CRUST));
   writeFileSync(join(dir, 'low-vp.json'), JSON.stringify({ ...WITH_VP, layers: [{ ...WITH_VP.layers[0], vp_m_s: 230 }] }));
   writeFileSync(join(dir, 'negative-poisson.json'), JSON.stringify({ ...WITH_VP, layers: [{ ...WITH_VP.layers[0], vp_m_s: 260 }] }));
   writeFileSync(join(dir, 'broken.json'), '{"layers": [');
@@ -211,6 +223,22 @@ describe('shearfield curve --wave rayleigh', () => {
     expect(j.wave).toBe('love');
     const v = loveVelocities({ h: 8, vs1: 200, vs2: 400, rho1: 1800, rho2: 2000 }, 5, 0);
     expect(Math.abs(j.modes[0].points[0].phase_velocity_m_s / v.phase - 1)).toBeLessThan(1e-12);
+  });
+
+  it('notes where two branches come close (a stiff crust over a soft layer), and stays silent for a plain soft layer over stiffer ground', () => {
+    const meet = get('branchesMeet');
+    expect(meet.code).toBe(0);
+    const notes = meet.err.split('\n').filter((l) => l.includes('note:'));
+    expect(notes.length, meet.err).toBeGreaterThan(0);
+    const m = /^shearfield curve: note: modes 0 and 1 come within ([\d.e+-]+) m\/s of each other near ([\d.]+) Hz; their branches osculate or cross there, and modes are numbered by order of phase velocity\.$/.exec(notes[0]);
+    expect(m, notes[0]).not.toBeNull();
+    // Within 1 % of the phase velocity there (APPROACH_RTOL), near 18.6 Hz.
+    expect(Number(m?.[1])).toBeLessThan(3);
+    expect(Math.abs(Number(m?.[2]) - 18.6)).toBeLessThan(1);
+    const apart = get('branchesApart');
+    expect(apart.code).toBe(0);
+    expect(apart.err).toBe('');
+    expect(JSON.parse(apart.out).modes.length).toBe(3);
   });
 
   it('warns on stderr, and still answers, for a Poisson ratio below 0', () => {
