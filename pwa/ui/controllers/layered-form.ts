@@ -199,14 +199,20 @@ function short(x: number, digits: number): string {
   return String(Number(x.toPrecision(digits)));
 }
 
-/** Rows switched between P speed and Poisson's ratio: each value that can be converted is, the others are kept as typed. */
+/**
+ * Rows switched between P speed and Poisson's ratio: each value that can be
+ * converted is (ν to 4 decimals' worth of figures, P speeds to 4 figures);
+ * one that cannot (no shear speed yet, or not a number) is cleared, so that
+ * no number is read under the other meaning.
+ */
 export function switchPInput(rows: readonly LayerRowText[], from: PInput, to: PInput): LayerRowText[] {
   if (from === to) return rows.map((r) => ({ ...r }));
   return rows.map((r) => {
-    const d = derivedP(r, from);
-    if (!d) return { ...r, p: r.p.trim() === '' ? '' : r.p };
-    const value = d.replace(/^ν = /, '').replace(/^P speed /, '').replace(/ m\/s$/, '');
-    return { ...r, p: value };
+    const vs = Number(r.vs.trim().replace(',', '.'));
+    const p = Number(r.p.trim().replace(',', '.'));
+    if (r.vs.trim() === '' || r.p.trim() === '' || !(vs > 0) || !Number.isFinite(p)) return { ...r, p: '' };
+    if (from === 'vp') return { ...r, p: p > vs ? short(poissonRatio(p, vs), 4) : '' };
+    return { ...r, p: p > -1 && p < 0.5 ? short(pSpeedFromPoisson(vs, p), 4) : '' };
   });
 }
 

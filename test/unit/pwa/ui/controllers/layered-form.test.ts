@@ -98,8 +98,9 @@ describe('P speed and Poisson’s ratio', () => {
   it('shows the other quantity derived, and converts the typed values when the crew switches', () => {
     expect(derivedP(row('5', '200', '400', '1800'), 'vp')).toBe('ν = 0.333'); // vp = 2·vs ↔ ν = 1/3 (closed form)
     expect(derivedP(row('5', '200', '0.25', '1800'), 'poisson')).toBe('P speed 346.4 m/s'); // √3·200
-    const switched = switchPInput([row('5', '200', '400', '1800'), row('', '400', 'x', '2000')], 'vp', 'poisson');
-    expect(switched.map((r) => r.p)).toEqual(['0.333', 'x']);
+    const switched = switchPInput([row('5', '200', '400', '1800'), row('', '400', 'x', '2000'), row('', '', '900', '2000')], 'vp', 'poisson');
+    expect(switched.map((r) => r.p)).toEqual(['0.3333', '', '']); // what cannot be converted is cleared, never read as a ratio
+    expect(switchPInput(switched.slice(0, 1), 'poisson', 'vp')[0].p).toBe('400'); // and back: 200·√(1.3334/0.3334) = 400.0
   });
 
   it('fills the one-layer estimate with P speeds from Poisson’s ratio 0.3', () => {
