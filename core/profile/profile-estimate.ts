@@ -37,9 +37,10 @@ import { InputError, describeValue } from '../shared/errors';
 import { mulberry32, normals } from '../shared/random';
 import { siteClassOf, siteClassesForRanges, siteFigures, vsAverage, VS100FT_DEPTH_M, VS30_DEPTH_M } from '../site/site';
 import { metropolisChain, quantileSorted, QUANTILE_68, QUANTILE_95, type Chain } from './appraisal';
+import { DEPTHS_PER_WAVELENGTH, wavelengthDepthStart } from './profile-starts';
 import { neighbourhoodSearch, type NeighbourhoodEnsemble } from './neighbourhood';
 import { checkPoisson, checkWaterTable, DEFAULT_POISSON, MIN_VP_VS_RATIO, pSpeedNotes, vpOfLayer, withPSpeeds, type PSpeedRule } from './p-speed';
-import { predictPicks, WAVE_FORWARDS, type ForwardModel, type ForwardPicks } from './profile-forward';
+import { predictPicks, trackingOrder, WAVE_FORWARDS, type ForwardModel, type ForwardPicks } from './profile-forward';
 import {
   BIC_NOT_WORTH_MENTIONING, choiceEffort, defaultEffort, DEPTH_OF_INVESTIGATION_PER_LONGEST_WAVELENGTH, MAX_PROFILE_LAYERS,
   PROFILE_RANGE_RULE, UNRESOLVED_SHARE,
@@ -66,6 +67,8 @@ interface Problem {
   n: number;
   picks: ForwardPicks;
   v: Float64Array;
+  /** Picked frequency, Hz. */
+  frequency: Float64Array;
   sd: Float64Array;
   labels: string[];
   lambdaMin: number;
@@ -176,8 +179,9 @@ function prepare(picks: readonly Pick[], options: ProfileOptions): Problem {
   }
   return {
     n,
-    picks: { n, omega, mode, isPhase, wave },
+    picks: withTrackingOrder({ n, omega, mode, isPhase, wave }),
     v,
+    frequency: Float64Array.from(clean, (p) => p.frequency),
     sd,
     labels: clean.map((_, i) => whereOf(i)),
     lambdaMin,
@@ -190,6 +194,10 @@ function prepare(picks: readonly Pick[], options: ProfileOptions): Problem {
     densityHalfspace,
     defaultedSd,
   };
+}
+
+function withTrackingOrder(picks: ForwardPicks): ForwardPicks {
+  return { ...picks, order: trackingOrder(picks) };
 }
 
 function capital(s: string): string {
@@ -273,10 +281,11 @@ class Misfit {
       out.fill(FAILED_RESIDUAL);
       return false;
     }
-    let near = this.hasLast;
-    for (let j = 0; j < this.L.k && near; j++) near = Math.abs(u[j] - this.last[j]) <= WARM_DISTANCE;
-    if (!near) this.guesses.fill(NaN);
-    predictPicks(this.P.picks, m, this.predicted, this.guesses);
+    // How far the model moved since the last one (the largest change of a log parameter).
+    let spread = this.hasLast ? 0 : Infinity;
+    for (let j = 0; j < this.L.k && spread <= WARM_DISTANCE; j++) spread = Math.max(spread, Math.abs(u[j] - this.last[j]));
+    if (!(spread <= WARM_DISTANCE)) this.guesses.fill(NaN);
+    predictPicks(this.P.picks, m, this.predicted, this.guesses, spread);
     for (let j = 0; j < this.L.k; j++) this.last[j] = u[j];
     this.hasLast = true;
     for (let i = 0; i < this.P.n; i++) {
@@ -348,9 +357,14 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
   }
   const project = projector(L);
   const fits: Fit[] = [];
-  for (const s of starts) {
+  const p0s: Float64Array[] = starts.map((s) => {
     const p0 = new Float64Array(L.k);
     for (let j = 0; j < L.k; j++) p0[j] = L.lower[j] + ensemble.points[s * L.k + j] * (L.upper[j] - L.lower[j]);
+    return p0;
+  });
+  // Starts that do not depend on the search's luck (profile-starts.ts).
+  for (const d of DEPTHS_PER_WAVELENGTH) p0s.push(wavelengthDepthStart(P.v, P.frequency, layers, L.lower, L.upper, d));
+  for (const p0 of p0s) {
     const before = misfit.evaluations;
     const out = levenbergMarquardt(
       (p, r) => {
@@ -741,7 +755,7 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
     `the smallest N within ${BIC_NOT_WORTH_MENTIONING} of the least BIC is recommended (Kass & Raftery 1995).`;
   const method =
     `Maximum likelihood for Gaussian pick errors over ${N} layer${N > 1 ? 's' : ''} over a half-space (log thickness and shear speed, search box from the picks). ` +
-    `Global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479; ${F.ensemble.count} models), Levenberg–Marquardt refinement of the best separate samples, ` +
+    `Global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479; ${F.ensemble.count} models), Levenberg–Marquardt refinement of the best separate samples and of two wavelength–depth starts, ` +
     `then a Metropolis random walk around the fit (${chain.count} models kept, seed ${seed}) for the 68 %/95 % intervals, the depth band, Vs30 and the site classes` +
     (poorFit ? `, tempered by χ²/dof = ${round(scale)} because the fit is poor.` : '.') +
     ` Forward step: ${P.waves.love > 0 ? 'Love waves by the Thomson–Haskell propagator, group velocity from the energy integrals' : ''}` +
