@@ -18,7 +18,7 @@
  * number.
  */
 
-export type FitStatus = 'converged' | 'max-iterations' | 'no-finite-start';
+export type FitStatus = 'converged' | 'max-iterations' | 'no-finite-start' | 'stopped';
 
 export interface FitOutcome {
   status: FitStatus;
@@ -28,7 +28,7 @@ export interface FitOutcome {
   chi2: number;
   /** Iterations (Jacobian evaluations). */
   iterations: number;
-  /** JᵀJ at p (k×k, row-major): half the Hessian of χ² in the Gauss–Newton sense. */
+  /** JᵀJ at p (k×k, row-major): half the Hessian of χ² in the Gauss–Newton sense ('stopped': at the start of the last step). */
   normal: Float64Array;
 }
 
@@ -41,9 +41,15 @@ export interface FitOptions {
   maxIterations?: number;
   /** Forward-difference step in the parameters' own units. @default 1e-7 */
   diffStep?: number;
+  /**
+   * Asked after each accepted step with the parameters and χ²: true stops
+   * the fit there with status 'stopped' (for example when it has reached a
+   * minimum already found from another start). @default never
+   */
+  stopWhen?: (p: Float64Array, chi2: number) => boolean;
 }
 
-export const FIT_DEFAULTS: Required<FitOptions> = {
+export const FIT_DEFAULTS: Required<Omit<FitOptions, 'stopWhen'>> = {
   tolerance: 1e-12,
   chi2Floor: 1e-26,
   maxIterations: 100,
@@ -213,6 +219,10 @@ export function levenbergMarquardt(
     if (improvement <= tol * Math.max(chi2, floor) && stepNorm <= Math.sqrt(tol)) {
       jacobian();
       return { status: 'converged', p, chi2, iterations: it + 1, normal: Float64Array.from(JtJ) };
+    }
+    if (options.stopWhen?.(p, chi2)) {
+      // No fresh Jacobian: `normal` is JᵀJ from the start of this last step.
+      return { status: 'stopped', p, chi2, iterations: it + 1, normal: Float64Array.from(JtJ) };
     }
   }
   jacobian();

@@ -14,7 +14,13 @@
  * the box) and scaled by s = 2.38/√k (Gelman, Roberts & Gilks 1996,
  * Bayesian Statistics 5:599), s adapted during burn-in only, towards an
  * acceptance rate of about a quarter (Roberts, Gelman & Gilks 1997, Ann.
- * Appl. Probab. 7:110). Samples after burn-in are kept. Quantiles are
+ * Appl. Probab. 7:110). Halfway through burn-in (and again at three
+ * quarters) the proposal takes the shape of the chain's own covariance so
+ * far (adaptive Metropolis, Haario, Saksman & Tamminen 2001, Bernoulli
+ * 7:223), which follows a curved or stretched likelihood that the
+ * Gauss–Newton covariance at the best fit only sees locally. Nothing
+ * adapts after burn-in, so the kept samples come from one fixed
+ * Metropolis kernel. Samples after burn-in are kept. Quantiles are
  * type 7 of Hyndman & Fan (1996, Am. Stat. 50:361), the usual linear
  * interpolation between order statistics.
  *
@@ -93,6 +99,12 @@ export function metropolisChain(
   let accepted = 0;
   let windowAccepted = 0;
   const window = 50;
+  // Running mean and scatter of the burn-in states (Welford), for the adaptive proposal.
+  const mean = new Float64Array(k);
+  const scatter = new Float64Array(k * k);
+  const delta = new Float64Array(k);
+  let burnAccepted = 0;
+  const adaptAt = options.burnIn >= ADAPT_MIN_BURN_IN ? [Math.floor(options.burnIn / 2), Math.floor((3 * options.burnIn) / 4)] : [];
   for (let step = 0; step < total; step++) {
     for (let i = 0; i < k; i++) z[i] = gauss();
     for (let i = 0; i < k; i++) {
@@ -111,8 +123,22 @@ export function metropolisChain(
       chi2 = c;
       windowAccepted++;
       if (step >= options.burnIn) accepted++;
+      else burnAccepted++;
     }
     if (step < options.burnIn) {
+      const n = step + 1;
+      for (let i = 0; i < k; i++) {
+        delta[i] = u[i] - mean[i];
+        mean[i] += delta[i] / n;
+      }
+      for (let i = 0; i < k; i++) for (let j = 0; j <= i; j++) scatter[i * k + j] += delta[i] * (u[j] - mean[j]);
+      if (adaptAt.includes(n) && burnAccepted >= 5 * k) {
+        const shaped = adaptedFactor(scatter, n, covariance, k);
+        if (shaped) {
+          factor = shaped;
+          scale = 2.38 / Math.sqrt(k);
+        }
+      }
       if ((step + 1) % window === 0) {
         const rate = windowAccepted / window;
         if (rate < 0.15) scale *= 0.7;
@@ -127,6 +153,28 @@ export function metropolisChain(
     if (onStep && (step + 1) % 100 === 0) onStep(step + 1, total);
   }
   return { k, count: options.steps, samples, chi2: kept, acceptance: options.steps > 0 ? accepted / options.steps : NaN };
+}
+
+/** Fewest burn-in steps for which the proposal adapts its shape (the covariance of fewer states is too rough). */
+export const ADAPT_MIN_BURN_IN = 200;
+
+/**
+ * Cholesky factor of the chain's covariance so far (scatter / (n − 1), lower
+ * triangle filled), plus 1e-6 of the starting covariance's diagonal so that
+ * a direction the chain has not yet moved in keeps a little room (Haario et
+ * al. 2001 add such a small ε·I); null when it is not positive definite.
+ */
+function adaptedFactor(scatter: Float64Array, n: number, start: ArrayLike<number>, k: number): Float64Array | null {
+  const c = new Float64Array(k * k);
+  for (let i = 0; i < k; i++) {
+    for (let j = 0; j <= i; j++) {
+      const v = scatter[i * k + j] / (n - 1);
+      c[i * k + j] = v;
+      c[j * k + i] = v;
+    }
+    c[i * k + i] += 1e-6 * Math.abs(start[i * k + i]);
+  }
+  return cholesky(c, k);
 }
 
 /** Quantile q of a sorted array (Hyndman & Fan 1996, type 7); NaN when empty. */

@@ -60,6 +60,8 @@ const FAILED_RESIDUAL = 1e3;
 const BAND_POINTS = 161;
 /** How many separate samples of the search are refined. */
 const REFINED_STARTS = 5;
+/** Two fits closer than this in every log parameter (2 %) are one minimum. */
+const SAME_MINIMUM = 0.02;
 
 // ---------------------------------------------------------------- the problem
 
@@ -362,8 +364,15 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
     for (let j = 0; j < L.k; j++) p0[j] = L.lower[j] + ensemble.points[s * L.k + j] * (L.upper[j] - L.lower[j]);
     return p0;
   });
-  // Starts that do not depend on the search's luck (profile-starts.ts).
-  for (const d of DEPTHS_PER_WAVELENGTH) p0s.push(wavelengthDepthStart(P.v, P.frequency, layers, L.lower, L.upper, d));
+  // Starts that do not depend on the search's luck (profile-starts.ts), refined first: they most
+  // often reach the deepest basin, and a later start that arrives at a minimum already found stops there.
+  p0s.unshift(...DEPTHS_PER_WAVELENGTH.map((d) => wavelengthDepthStart(P.v, P.frequency, layers, L.lower, L.upper, d)));
+  const found = (p: Float64Array, chi2: number) =>
+    fits.some((f) => {
+      if (chi2 < f.chi2) return false;
+      for (let j = 0; j < L.k; j++) if (Math.abs(f.u[j] - p[j]) >= SAME_MINIMUM) return false;
+      return true;
+    });
   for (const p0 of p0s) {
     const before = misfit.evaluations;
     const out = levenbergMarquardt(
@@ -374,7 +383,7 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
       p0,
       L.lower,
       L.upper,
-      { tolerance: 1e-6, maxIterations: 30 },
+      { tolerance: 1e-6, maxIterations: 30, stopWhen: found },
       project,
     );
     tick(misfit.evaluations - before);
@@ -394,7 +403,7 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
     const dup = minima.some((m) => {
       let far = 0;
       for (let j = 0; j < L.k; j++) far = Math.max(far, Math.abs(m.u[j] - f.u[j]));
-      return far < 0.02;
+      return far < SAME_MINIMUM;
     });
     if (!dup) minima.push(f);
   }

@@ -4,61 +4,77 @@
  * the same core code in Node, in one thread, which is what the worker does).
  * Every run is a complete estimateProfile call: the search for 1, 2 and 3
  * layers (model choice), refinement, the ensemble, band, Vs30 and classes.
+ * Rayleigh picks are timed too (3 layers from 40 picks, and 2 layers from
+ * 12 picks as in the app's browser test), with the forward work per call
+ * (models predicted, roots solved in full) in the note: those counts do not
+ * depend on how busy the machine is, the times do.
  *
  * Also the coverage runs too long for npm test: 200 seeded trials per case
- * (test/reference/profile-coverage-trials.ts), reported as rates in the note
- * (a rate, not a time; median_ms is the time per trial).
+ * (test/reference/profile-coverage-trials.ts) at the default effort,
+ * reported as rates in the note (a rate, not a time; median_ms is the time
+ * per trial). `PROFILE_BENCH_TIMING_ONLY=1 npm run bench -- profile` runs the timings only.
  *
  * Picks: the invented three-layer site (test/fixtures.ts), 3–40 Hz, every
- * third a phase pick, seeded 3 % Gaussian noise.
+ * third a phase pick, seeded 3 % Gaussian noise; Rayleigh picks with P
+ * speeds from Poisson's ratio 0.3, and the estimate told the same.
  */
-import { estimateProfile } from '../../core/profile/profile-estimate';
+import { vpFromPoisson } from '../../core/profile/p-speed';
+import { estimateProfile, type ProfileOptions } from '../../core/profile/profile-estimate';
+import { forwardWork } from '../../core/profile/profile-forward';
+import type { LayeredModel } from '../../core/dispersion/model';
+import type { Pick } from '../../core/picks/picks';
 import { mulberry32 } from '../../core/shared/random';
 import { INVENTED_THREE_LAYER_SITE, INVENTED_TWO_LAYER_SITE, layeredPicks } from '../fixtures';
-import { runCoverage, type CoverageCase } from '../reference/profile-coverage-trials';
+import { COVERAGE_CASES, runCoverage } from '../reference/profile-coverage-trials';
 import { bench, type BenchResult } from './harness';
+
+const POISSON = 0.3;
+
+function vpOf(model: LayeredModel): number[] {
+  return [...model.layers.map((l) => vpFromPoisson(l.vs, POISSON)), vpFromPoisson(model.halfspace.vs, POISSON)];
+}
+
+async function timed(name: string, picks: Pick[], options: ProfileOptions, samples: number, target?: number): Promise<BenchResult> {
+  const before = { ...forwardWork };
+  let calls = 0;
+  const r = await bench(
+    name,
+    () => {
+      calls++;
+      return estimateProfile(picks, options);
+    },
+    { samples, warmup: 1, target_ms: target },
+  );
+  const per = (key: keyof typeof forwardWork) => Math.round((forwardWork[key] - before[key]) / calls);
+  r.note =
+    `Node, one thread (as in the worker); NA search for N = 1…${options.layers}, LM refinement, ensemble, band, Vs30; ` +
+    `per call ${per('models')} models, ${per('fullSolves')} roots solved in full, ${per('warmSolves') - per('warmMisses')} tracked or warm`;
+  return r;
+}
 
 export default async function (): Promise<BenchResult[]> {
   const love = layeredPicks(INVENTED_THREE_LAYER_SITE, 'love', 40, 3, 40, mulberry32(42));
+  const rayleigh40 = layeredPicks(INVENTED_THREE_LAYER_SITE, 'rayleigh', 40, 3, 40, mulberry32(42), vpOf(INVENTED_THREE_LAYER_SITE));
+  const rayleigh12 = layeredPicks(INVENTED_TWO_LAYER_SITE, 'rayleigh', 12, 3, 50, mulberry32(42), vpOf(INVENTED_TWO_LAYER_SITE));
   const out: BenchResult[] = [
-    await bench('layered estimate: 3 layers, 40 Love picks, ensemble bands', () => estimateProfile(love, { layers: 3, seed: 1 }), {
-      samples: 5,
-      warmup: 1,
-      target_ms: 2000,
-      note: 'Node, one thread (as in the worker); NA search for N = 1, 2, 3, LM refinement, 1500-step ensemble, band, Vs30',
-    }),
+    await timed('layered estimate: 3 layers, 40 Love picks, ensemble bands', love, { layers: 3, seed: 1 }, 5, 2000),
+    await timed('layered estimate: 3 layers, 40 Rayleigh picks, ensemble bands', rayleigh40, { layers: 3, seed: 1, poisson: POISSON }, 3, 2000),
+    await timed('layered estimate: 2 layers, 12 Rayleigh picks, ensemble bands', rayleigh12, { layers: 2, seed: 1, poisson: POISSON }, 5),
   ];
-  // Rayleigh trials use the lighter effort of the npm-test version (the Rayleigh forward step is several times slower than Love's).
-  const light = { iterations: 4, chainSteps: 600, burnIn: 150 };
-  const cases: CoverageCase[] = [
-    { name: 'Love, 2 layers, 20 picks', model: INVENTED_TWO_LAYER_SITE, waves: [{ wave: 'love', count: 20, from: 3, to: 50 }], poisson: 0.3, trials: 200, seed: 2026 },
-    { name: 'Rayleigh, 2 layers, 12 picks (light effort)', model: INVENTED_TWO_LAYER_SITE, waves: [{ wave: 'rayleigh', count: 12, from: 3, to: 50 }], poisson: 0.3, trials: 200, seed: 2027, effort: light },
-    {
-      name: 'Love 8 + Rayleigh 8 picks, 2 layers (light effort)',
-      model: INVENTED_TWO_LAYER_SITE,
-      waves: [
-        { wave: 'love', count: 8, from: 3, to: 50 },
-        { wave: 'rayleigh', count: 8, from: 3, to: 50 },
-      ],
-      poisson: 0.3,
-      trials: 200,
-      seed: 2028,
-      effort: light,
-    },
-  ];
-  for (const c of cases) {
+  if (process.env.PROFILE_BENCH_TIMING_ONLY) return out;
+  for (const c of COVERAGE_CASES) {
     const t0 = performance.now();
-    const r = runCoverage(c);
+    const r = runCoverage({ ...c, trials: 200 });
     console.error(JSON.stringify(r));
-    const perTrial = (performance.now() - t0) / c.trials;
+    const perTrial = (performance.now() - t0) / r.trials;
     const rates = r.rates.map((x) => `${x.parameter} ${x.rate68.toFixed(3)}/${x.rate95.toFixed(3)}`).join(', ');
     out.push({
-      name: `layered coverage: ${c.name} (${c.trials} trials)`,
+      name: `layered coverage: ${c.name} (${r.trials} trials)`,
       median_ms: perTrial,
       p10_ms: perTrial,
       p90_ms: perTrial,
-      samples: c.trials,
-      note: `68 %/95 % coverage: ${rates}; pooled ${r.pooled68.toFixed(3)}/${r.pooled95.toFixed(3)} (nominal 0.683/0.950); time is the mean per trial`,
+      samples: r.trials,
+      note: `68 %/95 % coverage: ${rates}; pooled ${r.pooled68.toFixed(3)}/${r.pooled95.toFixed(3)} (nominal 0.683/0.950); ${r.poorFits} trials fitted worse than the pick errors allow, in ${r.searchMisses} the truth fitted better than the best fit found; time is the mean per trial`,
     });
   }
   return out;

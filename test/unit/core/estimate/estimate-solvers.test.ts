@@ -65,6 +65,25 @@ describe('Levenberg–Marquardt', () => {
     expect(fit.chi2).toBeCloseTo(9, 12);
   });
 
+  it('stops when asked after an accepted step, with status stopped and the χ² reached', () => {
+    // Rosenbrock's valley as residuals (10(y − x²), 1 − x), minimum (1, 1); stop once χ² < 1.
+    const res = (p: Float64Array, r: Float64Array) => {
+      r[0] = 10 * (p[1] - p[0] * p[0]);
+      r[1] = 1 - p[0];
+    };
+    let asked = 0;
+    const fit = levenbergMarquardt(res, 2, [-1.2, 1], [-5, -5], [5, 5], {
+      stopWhen: (_p, chi2) => {
+        asked++;
+        return chi2 < 1;
+      },
+    });
+    expect(fit.status).toBe('stopped');
+    expect(fit.chi2).toBeLessThan(1);
+    expect(fit.chi2).toBeGreaterThan(0);
+    expect(asked).toBe(fit.iterations);
+  });
+
   it('reports a start with no finite misfit instead of a number', () => {
     const fit = levenbergMarquardt((_p, r) => void (r[0] = NaN), 1, [0], [-1], [1]);
     expect(fit.status).toBe('no-finite-start');

@@ -5,7 +5,7 @@
  */
 import { Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { cholesky, metropolisChain, quantileSorted, QUANTILE_68, QUANTILE_95 } from '../../../../core/profile/appraisal';
+import { ADAPT_MIN_BURN_IN, cholesky, metropolisChain, quantileSorted, QUANTILE_68, QUANTILE_95 } from '../../../../core/profile/appraisal';
 import { neighbourhoodSearch } from '../../../../core/profile/neighbourhood';
 import { checkPoisson, checkWaterTable, pSpeedNotes, vpFromPoisson, WATER_P_SPEED, withPSpeeds } from '../../../../core/profile/p-speed';
 import { mulberry32, normals } from '../../../../core/shared/random';
@@ -133,6 +133,29 @@ describe('the Metropolis appraisal', () => {
     expect(quantileSorted(x, QUANTILE_68[1])).toBeCloseTo(1 + s1, 1);
     expect(Math.abs(quantileSorted(x, QUANTILE_95[0]) - (1 - 1.959964 * s1))).toBeLessThan(0.05);
     expect(Math.abs(quantileSorted(x, QUANTILE_95[1]) - (1 + 1.959964 * s1))).toBeLessThan(0.05);
+  });
+
+  it('takes the shape of the likelihood during burn-in (adaptive Metropolis, Haario et al. 2001) when started with a covariance of the wrong shape', () => {
+    // A narrow ridge (correlation 0.995), but the chain is given an isotropic covariance, 1500 kept steps.
+    const s1 = 0.2;
+    const s2 = 0.5;
+    const rho = 0.995;
+    const chi2 = (u: Float64Array) => {
+      const a = (u[0] - 1) / s1;
+      const b = (u[1] + 2) / s2;
+      return (a * a - 2 * rho * a * b + b * b) / (1 - rho * rho);
+    };
+    const run = (burnIn: number) => {
+      const u = mulberry32(7);
+      const chain = metropolisChain(chi2, [1, -2], 0, [0.0004, 0, 0, 0.0004], 1, u, normals(u), { steps: 1500, burnIn });
+      const x = Float64Array.from({ length: chain.count }, (_, i) => chain.samples[2 * i]).sort();
+      return quantileSorted(x, QUANTILE_95[1]) - quantileSorted(x, QUANTILE_95[0]);
+    };
+    // True central 95 % width of u0: 2·1.96·σ1 = 0.784 (normal quantiles). Below ADAPT_MIN_BURN_IN the proposal only rescales.
+    const adapted = run(1000);
+    const scaledOnly = run(ADAPT_MIN_BURN_IN - 1);
+    expect(Math.abs(adapted - 2 * 1.959964 * s1)).toBeLessThan(0.08);
+    expect(Math.abs(scaledOnly - 2 * 1.959964 * s1)).toBeGreaterThan(Math.abs(adapted - 2 * 1.959964 * s1));
   });
 
   it('interpolates quantiles between order statistics (Hyndman & Fan 1996, type 7)', () => {
