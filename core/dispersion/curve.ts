@@ -322,7 +322,11 @@ export interface FollowedModes {
  * along its branch (dc/dω = (c/ω)(1 − c/U), first order), must find a root
  * of its own here within max(|step|, 1e-4·c), one to one, wherever that
  * prediction lies inside the range scanned here (above the floor and below
- * the last root found or β_H); if one does not, the frequency is solved
+ * the last root found or β_H). After the first frequency, the scan starts
+ * just below the previous fundamental carried to this frequency (four
+ * steps or 0.4 % below it): a new root lower down would need two roots born
+ * together at a double root of F, which we do not expect below the
+ * fundamental (our assumption, not a theorem). If a root is not matched, the frequency is solved
  * again with care (the default mode) and its neighbours checked again. Two
  * roots of a close pair missed by the fast scan at one frequency are thus
  * recovered from a neighbour where the scan saw them; a pair missed at
@@ -340,10 +344,10 @@ export function followModes(solver: RayleighStackSolver, freq: Float64Array, mod
   const close: CloseApproach[][] = Array.from({ length: nf }, () => []);
   const roots = new Float64Array(modes);
   let resolved = 0;
-  const solveAt = (i: number, withCare: boolean): void => {
+  const solveAt = (i: number, withCare: boolean, start?: number): void => {
     solver.careful = withCare;
     const omega = 2 * Math.PI * freq[i];
-    const n = solver.solve(omega, modes, roots);
+    const n = solver.solve(omega, modes, roots, start);
     found[i] = n;
     complete[i] = solver.outcome.complete ? 1 : 0;
     status[i] = solver.outcome.status;
@@ -375,7 +379,20 @@ export function followModes(solver: RayleighStackSolver, freq: Float64Array, mod
     }
     return true;
   };
-  for (let i = 0; i < nf; i++) solveAt(i, false);
+  // Below the previous frequency's fundamental, carried along its branch, no root is looked for: a root
+  // there would have to be born with a partner at a double root of F (not expected below the fundamental);
+  // the fundamental itself must then be found above the start, or the check below solves again with care.
+  for (let i = 0; i < nf; i++) {
+    let start: number | undefined;
+    if (i > 0 && found[i - 1] > 0) {
+      const c = phase[(i - 1) * modes];
+      const u = group[(i - 1) * modes];
+      const w0 = 2 * Math.PI * freq[i - 1];
+      const step = (c / w0) * (1 - c / u) * (2 * Math.PI * freq[i] - w0);
+      if (c > 0 && u > 0) start = c + step - 4 * Math.max(Math.abs(step), 1e-3 * c);
+    }
+    solveAt(i, false, start);
+  }
   // Forward, then backward: a frequency that disagrees with a neighbour is solved again with care.
   for (let pass = 0; pass < 2; pass++) {
     for (let n = 1; n < nf; n++) {

@@ -209,8 +209,11 @@ export class RayleighStackSolver {
    * Writes c_0 < c_1 < … (m/s) for the lowest min(modes, present) modes at
    * ω (rad/s) into out[0…]; returns how many were written. Check
    * `outcome.status`: a root that did not converge is written as NaN.
+   * With `start` (m/s), the scan begins there instead of at the floor, and
+   * only roots above it are found and numbered from 0: for a caller that
+   * knows there is none below (curve.ts followModes).
    */
-  solve(omega: number, modes: number, out: Float64Array): number {
+  solve(omega: number, modes: number, out: Float64Array, start?: number): number {
     const o = this.outcome;
     o.status = 'converged';
     o.found = 0;
@@ -222,7 +225,7 @@ export class RayleighStackSolver {
     if (!(omega > 0) || modes <= 0 || !(this.floor > 0)) return 0;
     this.omega = omega;
     const top = this.stack.vsH;
-    let c0 = this.floor;
+    let c0 = start !== undefined && start > this.floor && start < this.stack.vsH ? start : this.floor;
     let f0 = this.f(c0);
     let g0 = magnitude(f0);
     let c1 = this.nextPoint(c0, this.phase(c0), top);
