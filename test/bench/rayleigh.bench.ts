@@ -1,13 +1,15 @@
 /**
  * Rayleigh-wave benchmarks (issue 13). Targets on the 2-core machine,
  * medians: one curve of 200 frequencies × 5 modes in ≤ 20 ms for a 5-layer
- * model; a single root (the fundamental) in ≤ 20 µs. The model is the
+ * model; a single root (the fundamental) in ≤ 20 µs, measured three ways
+ * (nothing known with the careful and the fast scan; tracked from a
+ * neighbouring frequency's root, as inside a curve). The model is the
  * invented five-layer site of test/fixtures.ts with invented P speeds
  * (vp = 2.2·vs in the layers, 1400 m/s in the half-space).
  */
 import { logBand, rayleighCurves } from '../../core/dispersion/curve';
 import type { LayeredModel } from '../../core/dispersion/model';
-import { RayleighStackSolver, prepareRayleighStack, rayleighSecular } from '../../core/dispersion/rayleigh-stack';
+import { RayleighStackSolver, prepareRayleighStack, rayleighSecular, rayleighStackGroupVelocity } from '../../core/dispersion/rayleigh-stack';
 import { INVENTED_FIVE_LAYER_SITE } from '../fixtures';
 import { bench, type BenchResult } from './harness';
 
@@ -50,6 +52,29 @@ export default async function rayleighBench(): Promise<BenchResult[]> {
       target_ms: 0.02,
       note: 'the same with careful = false (the mode curves use, checked there against neighbouring frequencies)',
     }),
+  );
+  // Tracked: mode 0 at 10.5 Hz given the root at 10 Hz, carried along its branch (dc/dω = (c/ω)(1 − c/U)) and the
+  // scan started just below it, as followModes does from one frequency of a curve to the next.
+  const w10 = 2 * Math.PI * 10;
+  const w105 = 2 * Math.PI * 10.5;
+  solver.careful = true;
+  solver.solve(w10, 1, out);
+  const c10 = out[0];
+  const u10 = rayleighStackGroupVelocity(stack, w10, c10);
+  const step = (c10 / w10) * (1 - c10 / u10) * (w105 - w10);
+  const start = c10 + step - 4 * Math.max(Math.abs(step), 1e-3 * c10);
+  solver.careful = false;
+  results.push(
+    await bench(
+      'rayleigh single root, 5 layers (mode 0 at 10.5 Hz tracked from the 10 Hz root, as in a curve)',
+      () => solver.solve(w105, 1, out, start),
+      {
+        inner: 200,
+        samples: 31,
+        target_ms: 0.02,
+        note: 'fast scan started just below the carried root (solve with start), then Brent',
+      },
+    ),
   );
   solver.careful = true;
   let c = 200;
