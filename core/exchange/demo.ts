@@ -13,22 +13,14 @@ import type { TwoLayer } from '../dispersion/love-layer';
 import { loveCutoffHz, loveVelocities } from '../dispersion/love-layer';
 import type { Pick } from '../picks/picks';
 import { mulberry32, normals } from '../shared/random';
+import { DEMO_SITE, isDemoSite } from './records';
+
+// The demo site's fields and its test live with the records (records.ts),
+// so the sync code can tell the demo apart without loading this generator.
+export { DEMO_SITE, isDemoSite };
 
 /** The invented model the demo picks come from. */
 export const DEMO_MODEL: Readonly<TwoLayer> = Object.freeze({ h: 7.5, vs1: 190, vs2: 560, rho1: 1850, rho2: 2150 });
-
-/** The invented site's descriptive fields. */
-export const DEMO_SITE = Object.freeze({
-  name: 'Invented demo: Kestrel Bend terrace fill',
-  date: '2026-04-14',
-  crew: 'Demo crew (invented)',
-  notes:
-    'INVENTED SCENARIO for trying the app; not a real site. Made-up river-terrace fill: ' +
-    '7.5 m of loose sandy gravel (190 m/s) over weathered mudstone (560 m/s). ' +
-    'Picks are the model\'s Love-wave group velocities plus seeded 3 % noise.',
-  location: Object.freeze({ lat: 51.4321, lon: -2.1234, source: 'typed' as const }),
-  axisUnit: 'hz' as const,
-});
 
 /** Relative noise (one sd) on the demo picks. */
 export const DEMO_NOISE = 0.03;
@@ -51,14 +43,4 @@ export function demoPicks(seed = DEMO_SEED): Pick[] {
   const f1 = loveCutoffHz(DEMO_MODEL, 1);
   for (const f of [16, 19, 22, 26, 30, 35]) if (f > f1 * 1.05) add(f, 1);
   return picks;
-}
-
-/**
- * True for the invented demo site as the app installs it (its invented name
- * and crew). The app keeps such a site out of sync and out of "export all"
- * unless the crew asks for it, so that invented data never reaches the
- * office by accident. A site renamed by the crew is theirs and travels.
- */
-export function isDemoSite(site: { type: string; name?: string; crew?: string }): boolean {
-  return site.type === 'site' && site.name === DEMO_SITE.name && site.crew === DEMO_SITE.crew;
 }

@@ -11,7 +11,7 @@
  * (core/recordings/recording.ts).
  */
 import { InputError, describeValue } from '../shared/errors';
-import { MAX_RECORDING_BYTES } from '../recordings/read';
+import { MAX_RECORDING_BYTES } from '../recordings/recording';
 import {
   checkOverrides,
   COMPONENTS,

@@ -20,32 +20,18 @@ import { InputError, describeValue } from '../shared/errors';
 import { fromBase64 } from './base64';
 import { checkRecordingRecord, type RecordingFile } from './bundle';
 import type { RecordingRecord } from './records';
+import { MAX_ATTACHED_FILE_BYTES, MAX_RECORDINGS_PAGE_BYTES, MAX_RECORDINGS_PER_PUSH } from './sync-protocol';
 
-/** Largest raw file that travels by sync, bytes (8 MiB; its base64 is under 11 MiB). */
-export const MAX_ATTACHED_FILE_BYTES = 8 * 1024 * 1024;
-/** Most recordings in one push or pull page. */
-export const MAX_RECORDINGS_PER_PUSH = 1000;
-/** Raw bytes of files in one pull page (the first file of a page always goes). */
-export const MAX_RECORDINGS_PAGE_BYTES = 8 * 1024 * 1024;
-
-export interface RecordingsPushRequest {
-  recordings: RecordingRecord[];
-  files?: RecordingFile[];
-}
-
-export interface RecordingsPushResponse {
-  accepted: number;
-  ignored: number;
-  conflicts: number;
-  cursor: string;
-}
-
-export interface RecordingsPullResponse {
-  recordings: RecordingRecord[];
-  files: RecordingFile[];
-  cursor: string;
-  more: boolean;
-}
+// The protocol's constants and message shapes live with the other protocol
+// types (sync-protocol.ts), which the field app imports without ajv.
+export {
+  MAX_ATTACHED_FILE_BYTES,
+  MAX_RECORDINGS_PAGE_BYTES,
+  MAX_RECORDINGS_PER_PUSH,
+  type RecordingsPullResponse,
+  type RecordingsPushRequest,
+  type RecordingsPushResponse,
+} from './sync-protocol';
 
 /** A checked push: the records, and each file's bytes (its SHA-256 still to be checked by the receiver). */
 export interface CheckedRecordingsPush {

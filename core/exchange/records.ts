@@ -156,3 +156,28 @@ export function nextRevision<T extends StoredRecord>(record: T, changes: Partial
     history: historyAfter(record),
   };
 }
+
+// The invented demo site (its picks come from demo.ts).
+
+/** The invented site's descriptive fields. */
+export const DEMO_SITE = Object.freeze({
+  name: 'Invented demo: Kestrel Bend terrace fill',
+  date: '2026-04-14',
+  crew: 'Demo crew (invented)',
+  notes:
+    'INVENTED SCENARIO for trying the app; not a real site. Made-up river-terrace fill: ' +
+    '7.5 m of loose sandy gravel (190 m/s) over weathered mudstone (560 m/s). ' +
+    'Picks are the model\'s Love-wave group velocities plus seeded 3 % noise.',
+  location: Object.freeze({ lat: 51.4321, lon: -2.1234, source: 'typed' as const }),
+  axisUnit: 'hz' as const,
+});
+
+/**
+ * True for the invented demo site as the app installs it (its invented name
+ * and crew). The app keeps such a site out of sync and out of "export all"
+ * unless the crew asks for it, so that invented data never reaches the
+ * office by accident. A site renamed by the crew is theirs and travels.
+ */
+export function isDemoSite(site: { type: string; name?: string; crew?: string }): boolean {
+  return site.type === 'site' && site.name === DEMO_SITE.name && site.crew === DEMO_SITE.crew;
+}

@@ -28,7 +28,8 @@
  * Types and constants only (the field app imports them); the server's
  * checks of incoming bodies are in sync-protocol-check.ts.
  */
-import type { AnyRecord } from './records';
+import type { RecordingFile } from './bundle';
+import type { AnyRecord, RecordingRecord } from './records';
 import type { MergeOutcome } from './sync';
 
 export const PROTOCOL_VERSION = 1;
@@ -85,3 +86,31 @@ export interface ErrorResponse {
   field?: string;
 }
 
+// Seismograph recordings travel by a protocol of their own
+// (recording-sync.ts holds its description and the server's checks).
+
+/** Largest raw file that travels by sync, bytes (8 MiB; its base64 is under 11 MiB). */
+export const MAX_ATTACHED_FILE_BYTES = 8 * 1024 * 1024;
+/** Most recordings in one push or pull page. */
+export const MAX_RECORDINGS_PER_PUSH = 1000;
+/** Raw bytes of files in one pull page (the first file of a page always goes). */
+export const MAX_RECORDINGS_PAGE_BYTES = 8 * 1024 * 1024;
+
+export interface RecordingsPushRequest {
+  recordings: RecordingRecord[];
+  files?: RecordingFile[];
+}
+
+export interface RecordingsPushResponse {
+  accepted: number;
+  ignored: number;
+  conflicts: number;
+  cursor: string;
+}
+
+export interface RecordingsPullResponse {
+  recordings: RecordingRecord[];
+  files: RecordingFile[];
+  cursor: string;
+  more: boolean;
+}

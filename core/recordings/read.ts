@@ -11,12 +11,11 @@
  */
 import { InputError } from '../shared/errors';
 import { looksLikeText, readCsvTraces, textOfBytes } from './csv-traces';
-import { applyOverrides, type GeometryOverrides, type Recording } from './recording';
+import { applyOverrides, MAX_RECORDING_BYTES, type GeometryOverrides, type Recording } from './recording';
 import { looksLikeSeg2, readSeg2 } from './seg2-read';
 import { looksLikeSegy, readSegy } from './segy-read';
 
-/** Largest file read, bytes (common practice: a field record is a few MB; 512 MB keeps a wrong file from exhausting a tablet). */
-export const MAX_RECORDING_BYTES = 512 * 1024 * 1024;
+export { MAX_RECORDING_BYTES };
 
 /** Reads a recording and applies `overrides`. Throws one InputError (naming the byte offset, key, row or field) for a bad file or override. */
 export function readRecording(data: Uint8Array | ArrayBuffer, name: string, overrides: GeometryOverrides = {}): Recording {

@@ -77,6 +77,9 @@ export interface GeometrySummary {
   component: Component;
 }
 
+/** Largest file read, bytes (common practice: a field record is a few MB; 512 MB keeps a wrong file from exhausting a tablet). */
+export const MAX_RECORDING_BYTES = 512 * 1024 * 1024;
+
 /** Largest |delay| accepted from a file or the user, s (common practice: field records last seconds, not hours). */
 export const MAX_ABS_DELAY_S = 3600;
 /** Largest |offset| accepted from the user, m (common practice: a near-surface spread is well under 100 km). */

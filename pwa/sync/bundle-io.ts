@@ -15,7 +15,7 @@ import {
   type RecordingFile,
 } from '../../core/exchange/bundle';
 import { fromBase64, toBase64 } from '../../core/exchange/base64';
-import { isDemoSite } from '../../core/exchange/demo';
+import { isDemoSite } from '../../core/exchange/records';
 import type { AnyRecord, RecordingRecord } from '../../core/exchange/records';
 import { planMerge } from '../../core/exchange/sync';
 import { InputError } from '../../core/shared/errors';

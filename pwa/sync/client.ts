@@ -31,7 +31,7 @@
  * Nothing here touches the DOM; it runs in the page and in Node tests alike
  * (given `fetch`, an IndexedDB and, optionally, online/offline events).
  */
-import { isDemoSite } from '../../core/exchange/demo';
+import { isDemoSite } from '../../core/exchange/records';
 import type { AnyRecord } from '../../core/exchange/records';
 import { recordLabel } from '../../core/exchange/record-limits';
 import { InputError } from '../../core/shared/errors';

@@ -15,7 +15,7 @@ import {
   MAX_RECORDINGS_PER_PUSH,
   type RecordingsPullResponse,
   type RecordingsPushResponse,
-} from '../../core/exchange/recording-sync';
+} from '../../core/exchange/sync-protocol';
 import { planMerge } from '../../core/exchange/sync';
 import type { FieldStore } from '../store';
 import { sha256Hex } from '../store/recordings';

@@ -12,15 +12,17 @@
  */
 import { checkPickSet, type Pick } from '../../../core/picks/picks';
 import { nextRevision, type PickRecord } from '../../../core/exchange/records';
-import { gatherOfRecording } from '../../../core/signal/gather';
 import type { ImageMethod } from '../../../core/signal/image';
-import { ridgePicks, strongestRidgeSeed, type Ridge } from '../../../core/signal/ridge';
+import type { Ridge } from '../../../core/signal/ridge';
 import { newPick } from '../../store';
 import { isAbortError, type LatestOnly } from '../../worker/bridge';
 import type { EstimateController } from './estimate-controller';
 import { storedPicks, type PicksController } from './picks-controller';
 import { openRecord, type RecordsCompute, type RecordsState } from './records-state';
 import { messageOf, type StateHub } from './state-hub';
+
+/** The ridge and gather code, loaded on first use (ridge-work.ts). */
+const ridgeWork = () => import('./ridge-work');
 
 const STOP_WORDS: Record<Ridge['stops']['low'], string> = {
   faded: 'faded',
@@ -67,7 +69,7 @@ export class RidgeController {
     }
     this.set({ status: 'imaging', error: undefined, image: undefined, ridge: undefined, range: undefined, removed: [], ridgeNote: undefined });
     try {
-      const gather = gatherOfRecording(rec.recording);
+      const gather = (await ridgeWork()).gatherOfRecording(rec.recording);
       const options =
         this.s.method === 'phase-shift'
           ? { method: 'phase-shift' as const }
@@ -109,7 +111,7 @@ export class RidgeController {
   async followStrongest(): Promise<void> {
     const image = this.s.image;
     if (!image) return;
-    const seed = strongestRidgeSeed(image);
+    const seed = (await ridgeWork()).strongestRidgeSeed(image);
     if (!seed) {
       this.set({ ridge: undefined, range: undefined, ridgeNote: 'No reliable ridge stands out in this image; tap one if you see it.' });
       return;
@@ -140,7 +142,7 @@ export class RidgeController {
   }
 
   /** The picks the kept ridge points make (core/signal/ridge.ts ridgePicks), or throws the core's InputError. */
-  keptPicks(): Pick[] {
+  async keptPicks(): Promise<Pick[]> {
     const { image, ridge, range, removed } = this.s;
     if (!image || !ridge || !range) return [];
     const modeText = this.s.mode.trim();
@@ -148,7 +150,7 @@ export class RidgeController {
     if (modeText === '' || !Number.isInteger(mode) || mode < 0 || mode > 50) {
       throw new Error(`The mode must be a whole number from 0 (fundamental) to 50, but it is "${modeText}".`);
     }
-    const all = ridgePicks(image, ridge, { mode });
+    const all = (await ridgeWork()).ridgePicks(image, ridge, { mode });
     return all.filter((_, i) => i >= range[0] && i <= range[1] && !removed.includes(i));
   }
 
@@ -163,7 +165,7 @@ export class RidgeController {
     if (!site || !store) return;
     let picks: Pick[];
     try {
-      picks = this.keptPicks();
+      picks = await this.keptPicks();
       if (picks.length === 0) throw new Error('There are no ridge points to add: tap a ridge on the image first.');
       const existing = this.hub.current.picks;
       const all: Pick[] = [...existing, ...picks];

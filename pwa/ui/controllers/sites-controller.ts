@@ -5,7 +5,7 @@
  * field, the typed text kept on a refusal), its position, deleting it, and
  * the invented demo site.
  */
-import { DEMO_SITE, demoPicks } from '../../../core/exchange/demo';
+import { DEMO_SITE } from '../../../core/exchange/records';
 import { nextRevision, type SiteRecord } from '../../../core/exchange/records';
 import { newPick, newSite } from '../../store';
 import { replaceById, without, type SiteFacts, type SiteSort, type ViewName } from './app-state';
@@ -264,8 +264,10 @@ export class SitesController {
     const store = this.hub.store;
     if (!store) return;
     const site = newSite({ ...DEMO_SITE, location: { ...DEMO_SITE.location } });
-    const picks = demoPicks().map((p, i) => newPick(site.id, p, i));
     try {
+      // The generator loads on first use: it is not part of the first download.
+      const { demoPicks } = await import('../../../core/exchange/demo');
+      const picks = demoPicks().map((p, i) => newPick(site.id, p, i));
       const saved = await store.saveSite(site);
       await store.savePicks(picks);
       this.hub.set({ sites: [saved, ...this.hub.current.sites] });

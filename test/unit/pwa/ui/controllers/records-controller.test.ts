@@ -121,7 +121,7 @@ describe('records controller', () => {
     c.ridge.togglePoint(6);
     c.ridge.togglePoint(6);
     c.ridge.setMode('1');
-    const kept = c.ridge.keptPicks();
+    const kept = await c.ridge.keptPicks();
     expect(kept).toHaveLength(n - 3 - 3 + 1 - 1);
     expect(kept.every((p) => p.mode === 1)).toBe(true);
     expect(kept.some((p) => p.frequency === ridge.frequency[5])).toBe(false);
