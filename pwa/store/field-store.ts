@@ -360,7 +360,7 @@ class IdbFieldStore implements FieldStore {
 
   async deleteSite(id: string): Promise<void> {
     const now = new Date();
-    await this.write(['sites', 'picks', 'estimates', 'recordings', 'recordingBytes', 'outbox'], 'the deletion of the site', async (tx) => {
+    await this.write(['sites', 'picks', 'estimates', 'recordings', 'recordingBytes', 'outbox', 'settings'], 'the deletion of the site', async (tx) => {
       const site = await tx.objectStore('sites').get(id);
       if (!site) throw new StoreError('This site is not in the store, so it cannot be deleted.', { field: 'id' });
       if (site.deleted) return;
@@ -380,6 +380,11 @@ class IdbFieldStore implements FieldStore {
         const store = t.type === 'site' ? 'sites' : t.type === 'pick' ? 'picks' : t.type === 'recording' ? 'recordings' : 'estimates';
         await tx.objectStore(store).put(t as never);
         await tx.objectStore('outbox').add(outboxEntry(t, queuedAt));
+      }
+      // This device's per-site settings (keys ending in ".SITE_ID": the survey
+      // depth, the layer builder's model) go with the site.
+      for (const key of await tx.objectStore('settings').getAllKeys()) {
+        if (typeof key === 'string' && key.endsWith(`.${id}`)) await tx.objectStore('settings').delete(key);
       }
     });
   }

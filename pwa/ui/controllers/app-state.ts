@@ -15,7 +15,9 @@ import type { LayeredModel } from '../../../core/dispersion/model';
 import type { TrialResult } from '../../worker/model-trial';
 import type { LayerRowText, PInput, WaveChoice } from './layered-form';
 
-export type ViewName = 'picks' | 'records' | 'estimate' | 'profile' | 'figures' | 'whatif' | 'survey' | 'details';
+/** Every view of an open site (one list, so a kept place can name any of them). */
+export const VIEW_NAMES = ['picks', 'records', 'estimate', 'profile', 'figures', 'whatif', 'survey', 'details'] as const;
+export type ViewName = (typeof VIEW_NAMES)[number];
 export type SiteSort = 'recent' | 'name' | 'date';
 export type Theme = 'standard' | 'sun';
 

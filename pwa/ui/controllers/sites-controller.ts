@@ -8,7 +8,7 @@
 import { DEMO_SITE } from '../../../core/exchange/records';
 import { nextRevision, type SiteRecord } from '../../../core/exchange/records';
 import { newPick, newSite } from '../../store';
-import { replaceById, without, type SiteFacts, type SiteSort, type ViewName } from './app-state';
+import { replaceById, VIEW_NAMES, without, type SiteFacts, type SiteSort, type ViewName } from './app-state';
 import { storedVerdict } from '../views/verdict-text';
 import type { EstimateController } from './estimate-controller';
 import type { SiteTextField } from './form-text';
@@ -131,8 +131,7 @@ export class SitesController {
     try {
       const place = await store.getSetting<{ siteId?: string; view?: ViewName } | null>(PLACE_KEY);
       if (!place?.siteId || !this.hub.current.sites.some((x) => x.id === place.siteId) || this.hub.current.openSiteId) return;
-      const views: ViewName[] = ['picks', 'records', 'estimate', 'figures', 'whatif', 'survey', 'details'];
-      this.openSite(place.siteId, place.view && views.includes(place.view) ? place.view : 'picks');
+      this.openSite(place.siteId, place.view && (VIEW_NAMES as readonly string[]).includes(place.view) ? place.view : 'picks');
     } catch {
       // Nothing kept: the site list it is.
     }

@@ -268,9 +268,18 @@ describe('deleting', () => {
     await store.savePicks([p, keep]);
     const est = estimateFor(site, '2026-05-04T11:00:00.000Z');
     await store.saveEstimate(est);
+    // This device's per-site settings go with the site; others' stay.
+    await store.putSetting(`survey.depth.${site.id}`, '20');
+    await store.putSetting(`layered.model.${site.id}`, { layers: [] });
+    await store.putSetting(`survey.depth.${other.id}`, '30');
+    await store.putSetting('ui.theme', 'sun');
     const before = (await store.outbox()).length;
 
     await store.deleteSite(site.id);
+    expect(await store.getSetting(`survey.depth.${site.id}`)).toBeUndefined();
+    expect(await store.getSetting(`layered.model.${site.id}`)).toBeUndefined();
+    expect(await store.getSetting(`survey.depth.${other.id}`)).toBe('30');
+    expect(await store.getSetting('ui.theme')).toBe('sun');
     expect((await store.listSites()).map((s) => s.id)).toEqual([other.id]);
     expect(await store.listPicks(site.id)).toEqual([]);
     expect(await store.latestEstimate(site.id)).toBeUndefined();

@@ -255,6 +255,22 @@ describe('sites, demo, update and estimate', () => {
     expect((await store.listSites())[0].location).toBeUndefined();
   });
 
+  it('after a reload, returns to the site and view left open, the layered profile included', async () => {
+    const name = `controller-test-place-${++dbCount}`;
+    const first = new AppController(pendingRunner);
+    await first.start(() => openFieldStore(name));
+    await first.sites.createSite('Place test (invented)');
+    const id = first.current.openSiteId!;
+    first.sites.setView('profile');
+    // The place is written in the background; wait until it is kept.
+    const kept = await openFieldStore(name);
+    await expect.poll(() => kept.getSetting<{ view?: string }>('ui.place').then((p) => p?.view)).toBe('profile');
+    const second = new AppController(pendingRunner);
+    await second.start(() => openFieldStore(name));
+    expect(second.current.openSiteId).toBe(id);
+    expect(second.current.view).toBe('profile');
+  });
+
   it('installs the invented demo site with its 23 picks', async () => {
     const c = await started();
     await c.sites.loadDemo();
