@@ -88,6 +88,10 @@ describe('the layer builder in Chromium, offline', () => {
     expect(caption).toMatch(/^Layered best.* \(3 layers.*Screening estimate only\./);
     expect(caption.includes('for reference only')).toBe(level === 'unresolved');
     expect((await key.textContent())!.includes('thin and faint: not resolved, for reference only')).toBe(level === 'unresolved');
+    // Rayleigh picks are drawn in their own colour: the key says so and shows no Love mode colours.
+    const keyText = (await page.getByRole('list', { name: 'Plot key' }).textContent()) ?? '';
+    expect(keyText).toContain('Rayleigh, mode 0');
+    expect(keyText).not.toMatch(/Love mode|^mode 0/);
 
     await page.getByRole('button', { name: 'What-if', exact: true }).click();
     await page.getByRole('button', { name: 'Layer builder' }).click();

@@ -69,7 +69,10 @@ export function PlotPanel(props: PlotPanelProps) {
 
   const s = props.settings;
   const kinds = new Set(props.picks.map((p) => `${p.wave === 'rayleigh' ? 'rayleigh' : 'love'}-${p.kind}`));
-  const modes = [...new Set(props.picks.map((p) => p.mode))].sort((a, b) => a - b);
+  // Love picks take their mode's colour; Rayleigh picks are drawn in one colour of their own (plot-engine.ts).
+  const loveModes = [...new Set(props.picks.filter((p) => p.wave !== 'rayleigh').map((p) => p.mode))].sort((a, b) => a - b);
+  const rayleighModes = [...new Set(props.picks.filter((p) => p.wave === 'rayleigh').map((p) => p.mode))].sort((a, b) => a - b);
+  const modes = [...new Set(props.picks.map((p) => p.mode))];
   const summary =
     `Dispersion plot: ${props.picks.length} pick(s), velocity in m/s against ${s.axis === 'frequency' ? 'frequency in Hz' : 'period in s'}` +
     (props.model || props.computed ? `, with the ${props.curveLabel} curves.` : '.') +
@@ -108,11 +111,16 @@ export function PlotPanel(props: PlotPanelProps) {
       <div class={`plot-host${props.picks.length === 0 && !props.model && !props.computed ? ' is-empty' : ''}`} ref={host} role="img" aria-label={summary} />
       {failed ? <p class="error" role="alert">{failed}</p> : null}
       <ul class="legend" aria-label="Plot key">
-        {modes.map((m) => (
-          <li key={m}>
-            <span class={`swatch m${m % 4}`} aria-hidden="true" /> mode {m}
+        {loveModes.map((m) => (
+          <li key={`love-${m}`}>
+            <span class={`swatch m${m % 4}`} aria-hidden="true" /> {rayleighModes.length ? 'Love ' : ''}mode {m}
           </li>
         ))}
+        {rayleighModes.length ? (
+          <li>
+            <span class="swatch rayleigh" aria-hidden="true" /> Rayleigh, {rayleighModes.length === 1 ? 'mode' : 'modes'} {rayleighModes.join(', ')}
+          </li>
+        ) : null}
         {kinds.has('love-group') ? <li><span class="glyph disc" aria-hidden="true" /> Love group-velocity pick ± 1 sd</li> : null}
         {kinds.has('love-phase') ? <li><span class="glyph diamond" aria-hidden="true" /> Love phase-velocity pick ± 1 sd</li> : null}
         {kinds.has('rayleigh-group') ? <li><span class="glyph square" aria-hidden="true" /> Rayleigh group-velocity pick ± 1 sd</li> : null}
