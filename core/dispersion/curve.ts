@@ -322,7 +322,8 @@ export interface FollowedModes {
  * along its branch (dc/dω = (c/ω)(1 − c/U), first order), must find a root
  * of its own here within max(|step|, 1e-4·c), one to one, wherever that
  * prediction lies inside the range scanned here (above the floor and below
- * the last root found or β_H). After the first frequency, the scan starts
+ * the last root found or β_H). The first frequency is solved with care.
+ * After it, the scan starts
  * just below the previous fundamental carried to this frequency (four
  * steps or 0.4 % below it): a new root lower down would need two roots born
  * together at a double root of F, which we do not expect below the
@@ -391,7 +392,9 @@ export function followModes(solver: RayleighStackSolver, freq: Float64Array, mod
       const step = (c / w0) * (1 - c / u) * (2 * Math.PI * freq[i] - w0);
       if (c > 0 && u > 0) start = c + step - 4 * Math.max(Math.abs(step), 1e-3 * c);
     }
-    solveAt(i, false, start);
+    // The first frequency with care: every root there is found by the careful scan and then carried.
+    solveAt(i, i === 0, start);
+    if (i === 0) careful[0] = 1;
   }
   // Forward, then backward: a frequency that disagrees with a neighbour is solved again with care.
   for (let pass = 0; pass < 2; pass++) {

@@ -5,8 +5,8 @@
  * every frequency. Reference: the careful scan of the same compound-matrix
  * secular function (its own checks are in rayleigh-random.test.ts and
  * test/reference/rayleigh-thin-layer.test.ts). Models are invented; the
- * first is a seeded random model (a stiff layer over a very soft one at
- * depth) on which the fast scan alone misses a close pair at 50.0046 Hz.
+ * first is a seeded random model (stiff layers over a very soft one at
+ * depth) on which the fast scan alone misses a close pair at 13.077 Hz.
  */
 import { describe, expect, it } from 'vitest';
 import { followModes } from '../../../../core/dispersion/curve';
@@ -16,14 +16,15 @@ import { mulberry32 } from '../../../../core/shared/random';
 
 const pairNearThirdRoot: LayeredModel = {
   layers: [
-    { thickness: 14.24067913601175, vs: 521.295511610806, vp: 1290.7800596018672, density: 2045.3939526341856 },
-    { thickness: 12.277417056728154, vs: 334.79835195466876, vp: 1500, density: 1512.570578372106 },
-    { thickness: 5.0255973841995, vs: 852.9197243973613, vp: 1500, density: 2053.6718145012856 },
-    { thickness: 13.621698052971624, vs: 109.39932223409414, vp: 375.7476872533441, density: 1853.6311977077276 },
+    { thickness: 24.59803100139834, vs: 539.3205722607672, vp: 1131.7518469407266, density: 2176.8789226189256 },
+    { thickness: 14.943903608713299, vs: 655.6265330314636, vp: 1762.6280009023458, density: 1626.1481400579214 },
+    { thickness: 29.162335702450946, vs: 630.5064535047859, vp: 1500, density: 1554.4764164369553 },
+    { thickness: 14.367927458602935, vs: 75.64569569192827, vp: 1500, density: 2172.639847267419 },
+    { thickness: 24.601707814610563, vs: 572.9553820006549, vp: 1378.5908599689376, density: 2346.5489509981126 },
   ],
-  halfspace: { vs: 657.5038830347361, vp: 1500, density: 2355.826880526729 },
+  halfspace: { vs: 893.3653858335847, vp: 1752.64674578849, density: 2305.46811260283 },
 };
-const MISSED_AT = 50.004587031660265;
+const MISSED_AT = 13.0771355752378;
 
 /** Frequencies where followModes and careful solves disagree. */
 function disagreements(model: LayeredModel, freq: Float64Array, modes: number): string[] {
@@ -53,7 +54,7 @@ describe('Rayleigh curves: fast scan checked against neighbouring frequencies', 
     const nfast = solver.solve(2 * Math.PI * MISSED_AT, 30, fast);
     // The case is a real test of the check: the fast scan alone loses two roots here.
     expect(nc - nfast).toBe(2);
-    const freq = Float64Array.from({ length: 41 }, (_, i) => 40 + 0.5 * i);
+    const freq = Float64Array.from({ length: 41 }, (_, i) => 10 + 0.15 * i);
     const band = Float64Array.from([...freq, MISSED_AT]).sort();
     expect(disagreements(pairNearThirdRoot, band, 20)).toEqual([]);
   });
