@@ -1,4 +1,3 @@
-/// <reference types="vitest/config" />
 /**
  * Build of the field app (pwa/) and the vitest settings.
  *
@@ -12,7 +11,7 @@
  * - The compute worker is bundled as an ES module chunk of its own.
  * - The built index.html carries the app's Content-Security-Policy and
  *   referrer policy as meta tags (office/app-csp.ts).
- * - vitest reads the `test` key; it runs from the repository root.
+ * - The tests' settings are in vitest.config.ts, which builds on this file.
  */
 import { fileURLToPath } from 'node:url';
 import preact from '@preact/preset-vite';
@@ -88,12 +87,4 @@ export default defineConfig({
           devOptions: { enabled: false },
         }),
   ],
-  test: {
-    root: here('.'),
-    include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],
-    environment: 'node',
-    testTimeout: 30_000,
-    hookTimeout: 120_000,
-    reporters: ['default', './test/summary-reporter.ts'],
-  },
 });

@@ -1,0 +1,33 @@
+/**
+ * The test settings (vitest prefers this file to vite.config.ts, whose app
+ * settings it takes over).
+ *
+ * - Tests run from the repository root (the app's vite root is pwa/).
+ * - At least two workers: vitest's own default is one fewer than the
+ *   cores, a single one on CI's 2-core machine, where the browser and
+ *   office tests spend much of their time waiting on Chromium, the office
+ *   server or the app's compute worker.
+ * - The longest files start first (test/long-first-sequencer.ts), so that
+ *   no long file starts near the end and runs alone.
+ */
+import { availableParallelism } from 'node:os';
+import { fileURLToPath } from 'node:url';
+import { defineConfig, mergeConfig } from 'vitest/config';
+import LongFirstSequencer from './test/long-first-sequencer';
+import app from './vite.config';
+
+export default mergeConfig(
+  app,
+  defineConfig({
+    test: {
+      root: fileURLToPath(new URL('.', import.meta.url)),
+      include: ['test/**/*.test.ts', 'test/**/*.test.tsx'],
+      environment: 'node',
+      testTimeout: 30_000,
+      hookTimeout: 120_000,
+      maxWorkers: Math.max(2, availableParallelism() - 1),
+      sequence: { sequencer: LongFirstSequencer },
+      reporters: ['default', './test/summary-reporter.ts'],
+    },
+  }),
+);
