@@ -1,8 +1,11 @@
 /**
  * Test helpers for the office side, with real parts: the office server as
- * its own process (`node --import tsx office/server.ts`) on a free port of
- * 127.0.0.1, a real SQLite file in a temporary folder, and the shearfield
- * command line run in-process through office/cli.ts.
+ * its own process, started as `npm run office` starts it
+ * (`bin/office-server.mjs`: the plain JavaScript build while it is newer
+ * than the sources, which `npm test` makes sure of, else the TypeScript
+ * sources through tsx), on a free port of 127.0.0.1, a real SQLite file in
+ * a temporary folder, and the shearfield command line run in-process
+ * through office/cli.ts.
  */
 import Database from 'better-sqlite3';
 import { spawn, type ChildProcess } from 'node:child_process';
@@ -41,9 +44,9 @@ export function removeTempDataDirs(): void {
   for (const d of madeDirs.splice(0)) rmSync(d, { recursive: true, force: true });
 }
 
-/** Starts `office/server.ts` on `port` (0 = a free one) with `dataDir` (and any further server options); resolves when it listens. */
+/** Starts the office server on `port` (0 = a free one) with `dataDir` (and any further server options); resolves when it listens. */
 export async function startOffice(dataDir: string, port = 0, distDir = join(REPO_ROOT, 'dist'), extraArgs: readonly string[] = []): Promise<OfficeProcess> {
-  const child = spawn(process.execPath, ['--import', 'tsx', 'office/server.ts', '--port', String(port), '--data', dataDir, '--dist', distDir, ...extraArgs], {
+  const child = spawn(process.execPath, ['bin/office-server.mjs', '--port', String(port), '--data', dataDir, '--dist', distDir, ...extraArgs], {
     cwd: REPO_ROOT,
     detached: true,
     stdio: ['ignore', 'pipe', 'pipe'],
