@@ -32,6 +32,7 @@ import { loveVelocities } from '../../core/dispersion/love-layer';
 import type { Pick } from '../../core/picks/picks';
 import {
   ARTIFACT_DIR,
+  nextPaint,
   openApp,
   reload,
   REPO_ROOT,
@@ -115,7 +116,7 @@ describe('the field app in Chromium', () => {
     // a clean picture: dismiss the notice
     const dismiss = page.getByRole('button', { name: 'Dismiss this message' });
     if (await dismiss.count()) await dismiss.first().click();
-    await page.waitForTimeout(300);
+    await nextPaint(page);
     mkdirSync(ARTIFACT_DIR, { recursive: true });
     const tablet = join(ARTIFACT_DIR, 'app-tablet-landscape.png');
     await page.screenshot({ path: tablet });
@@ -123,10 +124,10 @@ describe('the field app in Chromium', () => {
     copyFileSync(tablet, join(REPO_ROOT, 'docs', 'screenshot-tablet.png'));
     await screenshot(page, 'app-tablet-landscape-full');
     await page.setViewportSize(VIEWPORTS.tabletPortrait);
-    await page.waitForTimeout(300);
+    await nextPaint(page);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'app-tablet-portrait.png') });
     await page.setViewportSize(VIEWPORTS.phone);
-    await page.waitForTimeout(300);
+    await nextPaint(page);
     await page.screenshot({ path: join(ARTIFACT_DIR, 'app-phone.png') });
     await screenshot(page, 'app-phone-full');
     await page.setViewportSize(VIEWPORTS.tabletLandscape);

@@ -27,7 +27,7 @@ import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { loveVelocities } from '../../core/dispersion/love-layer';
 import { CAUTION } from '../../core/shared/caution';
 import { parsePicksCsv } from '../../core/picks/picks';
-import { openApp, reload, REPO_ROOT, screenshot, setOffline, VIEWPORTS, type AppSession } from './harness';
+import { openApp, reload, REPO_ROOT, screenshot, setOffline, VIEWPORTS, waitForView, type AppSession } from './harness';
 
 const UNRESOLVED = 'Invented: 6 m layer, 20–40 Hz only';
 const TYPED_SITE = 'Invented: keyboard entry';
@@ -223,6 +223,9 @@ describe('field trust at tablet size', () => {
     const dir = join(REPO_ROOT, 'docs', 'screens');
     mkdirSync(dir, { recursive: true });
     await page.locator('.site-card', { hasText: UNRESOLVED }).click();
+    // Opening the site runs its estimate again: the pictures show it finished.
+    await view('Picks & plot');
+    await page.getByText(/^Best-fit curve for reference only/).waitFor({ timeout: 30_000 });
     for (const [size, vp] of [
       ['tablet-landscape', VIEWPORTS.tabletLandscape],
       ['tablet-portrait', VIEWPORTS.tabletPortrait],
@@ -230,7 +233,7 @@ describe('field trust at tablet size', () => {
       await page.setViewportSize(vp);
       for (const v of VIEWS) {
         await view(v);
-        await page.waitForTimeout(400);
+        await waitForView(page, v);
         await page.evaluate(() => window.scrollTo(0, 0));
         await page.screenshot({ path: join(dir, `${v.toLowerCase().replace(/\W+/g, '-')}-${size}.png`) });
       }

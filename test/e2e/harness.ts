@@ -79,10 +79,23 @@ export interface PreviewServer {
 /**
  * Serves dist/ (or `outDir`, an absolute path to another build) with
  * `vite preview` on `port` (default: a free one); resolves when it answers.
+ * With no port given, a port taken between the look-up and vite's start
+ * (test files run side by side) is given up for another free one.
  */
 export async function startPreview(port?: number, outDir?: string): Promise<PreviewServer> {
   checkPrerequisites();
-  const p = port ?? (await freePort());
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await startPreviewOn(port ?? (await freePort()), outDir);
+    } catch (e) {
+      if (port !== undefined || attempt >= 3 || !(e instanceof PortTaken)) throw e;
+    }
+  }
+}
+
+class PortTaken extends Error {}
+
+async function startPreviewOn(p: number, outDir?: string): Promise<PreviewServer> {
   const url = `http://127.0.0.1:${p}`;
   const child: ChildProcess = spawn(
     join(REPO_ROOT, 'node_modules', '.bin', 'vite'),
@@ -115,7 +128,10 @@ export async function startPreview(port?: number, outDir?: string): Promise<Prev
 
   const deadline = Date.now() + 30_000;
   for (;;) {
-    if (exited) throw new Error(`vite preview exited before serving ${url}:\n${output}`);
+    if (exited) {
+      const why = `vite preview exited before serving ${url}:\n${output}`;
+      throw /already in use/i.test(output) ? new PortTaken(why) : new Error(why);
+    }
     try {
       const res = await fetch(url, { signal: AbortSignal.timeout(1000) });
       if (res.ok) break;
@@ -179,6 +195,30 @@ export async function launchBrowser(
 /** Waits until a service worker controls `page` (after the first install, clients.claim()). */
 export async function waitForServiceWorkerControl(page: Page, timeoutMs = 30_000): Promise<void> {
   await page.waitForFunction(() => navigator.serviceWorker?.controller != null, undefined, { timeout: timeoutMs });
+}
+
+/** Resolves after the page has painted two more frames (layout, resize observers and redraws done). */
+export async function nextPaint(page: Page): Promise<void> {
+  await page.evaluate(() => new Promise<void>((ok) => requestAnimationFrame(() => requestAnimationFrame(() => ok()))));
+}
+
+/**
+ * Waits until the site view labelled `name` is open and drawn: its tab is
+ * the current one, the lazily loaded views have arrived, every plot with
+ * something to draw has its canvas, and two frames have been painted since.
+ */
+export async function waitForView(page: Page, name: string, timeoutMs = 10_000): Promise<void> {
+  await page.waitForFunction(
+    (label) => {
+      const tab = Array.from(document.querySelectorAll('nav.views button')).find((b) => b.getAttribute('aria-label') === label);
+      if (tab?.getAttribute('aria-current') !== 'page') return false;
+      if (Array.from(document.querySelectorAll('[role="status"]')).some((e) => e.textContent === 'Loading the view…')) return false;
+      return Array.from(document.querySelectorAll('.plot-host:not(.is-empty)')).every((h) => h.querySelector('canvas') !== null);
+    },
+    name,
+    { timeout: timeoutMs },
+  );
+  await nextPaint(page);
 }
 
 /** Cuts (or restores) the network for every page of the context. */

@@ -17,7 +17,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
 import { loveVelocities } from '../../core/dispersion/love-layer';
-import { openApp, REPO_ROOT, screenshot, VIEWPORTS, type AppSession } from './harness';
+import { openApp, REPO_ROOT, screenshot, VIEWPORTS, waitForView, type AppSession } from './harness';
 
 const LAYER = { h: 6, vs1: 180, vs2: 450, rho1: 1800, rho2: 2100 };
 const CSV =
@@ -65,7 +65,14 @@ async function sideways(): Promise<{ scrollWidth: number; clientWidth: number; o
 
 async function openView(name: string): Promise<void> {
   await page.getByRole('button', { name, exact: true }).click();
-  await page.waitForTimeout(300);
+  await waitForView(page, name);
+}
+
+/** Opens a site from its card and waits until its estimate (run again on opening) is back. */
+async function openSite(text: string): Promise<void> {
+  await page.locator('.site-card', { hasText: text }).click();
+  await openView('Picks & plot');
+  await page.getByText(/^Best fit: H = |^Best-fit curve for reference only/).waitFor({ timeout: 30_000 });
 }
 
 describe('phones: 390×844, touch, device scale 2', () => {
@@ -85,7 +92,7 @@ describe('phones: 390×844, touch, device scale 2', () => {
     for (const site of ['Invented: 6 m layer', 'Invented demo:']) {
       if (site.startsWith('Invented demo')) {
         await page.getByRole('button', { name: '← All sites' }).click();
-        await page.locator('.site-card', { hasText: site }).click();
+        await openSite(site);
       }
       for (const theme of ['standard', 'sun'] as const) {
         const pressed = (await page.getByRole('button', { name: 'Sunlight contrast' }).getAttribute('aria-pressed')) === 'true';
@@ -110,8 +117,7 @@ describe('phones: 390×844, touch, device scale 2', () => {
   }, 120_000);
 
   it('2. the picks table fits without a sideways swipe, and the plot stays in view while a pick is typed', async () => {
-    await page.locator('.site-card', { hasText: 'Invented demo:' }).click();
-    await openView('Picks & plot');
+    await openSite('Invented demo:');
     const wrap = await page.evaluate(() => {
       const w = document.querySelector('table.picks')!.closest('.table-wrap') as HTMLElement;
       return { scroll: w.scrollWidth, client: w.clientWidth };
@@ -132,15 +138,14 @@ describe('phones: 390×844, touch, device scale 2', () => {
   it('3. screenshots of every view for docs/ (the README shows the phone ones)', async () => {
     mkdirSync(SHOTS, { recursive: true });
     await page.getByRole('button', { name: '← All sites' }).click();
-    await page.locator('.site-card', { hasText: 'Invented: 6 m layer' }).click();
+    await openSite('Invented: 6 m layer');
     for (const v of VIEWS) {
       await openView(v);
       await page.evaluate(() => window.scrollTo(0, 0));
       await page.screenshot({ path: join(SHOTS, `${v.toLowerCase().replace(/\W+/g, '-')}-phone.png`), scale: 'css' });
     }
     await page.getByRole('button', { name: '← All sites' }).click();
-    await page.locator('.site-card', { hasText: 'Invented demo:' }).click();
-    await openView('Picks & plot');
+    await openSite('Invented demo:');
     await page.evaluate(() => window.scrollTo(0, 0));
     const phone = join(SHOTS, 'demo-picks-phone.png');
     await page.screenshot({ path: phone, scale: 'css' });
