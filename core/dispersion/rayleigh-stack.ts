@@ -195,20 +195,30 @@ export class RayleighStackSolver {
     return this.omega * sum;
   }
 
-  /** Next grid point after c (at most `top`). */
+  /** Φ at the point the last nextPoint returned. */
+  private nextPhase = 0;
+
+  /** Next grid point after c (at most `top`); its Φ into nextPhase. */
   private nextPoint(c: number, phi: number, top: number): number {
     // F is analytic in r = √(1 − c²/β_H²), not in c, near β_H: step at most HALFSPACE_STEP in r there.
     const r = Math.sqrt(Math.max(0, 1 - (c * c) / (top * top)));
     const rNext = r - HALFSPACE_STEP;
     const cap = rNext > 0 ? top * Math.sqrt(1 - rNext * rNext) : top;
     let dc = Math.min((this.careful ? RELATIVE_STEP : FAST_RELATIVE_STEP) * c, cap - c);
+    const step = this.careful ? PHASE_STEP : FAST_PHASE_STEP;
     for (let i = 0; i < 30; i++) {
       const c1 = Math.min(c + dc, top);
-      const dphi = this.phase(c1) - phi;
-      if (dphi <= (this.careful ? PHASE_STEP : FAST_PHASE_STEP)) return c1;
-      dc *= Math.max(0.1, (0.9 * (this.careful ? PHASE_STEP : FAST_PHASE_STEP)) / dphi);
+      const phi1 = this.phase(c1);
+      const dphi = phi1 - phi;
+      if (dphi <= step) {
+        this.nextPhase = phi1;
+        return c1;
+      }
+      dc *= Math.max(0.1, (0.9 * step) / dphi);
     }
-    return Math.min(c + dc, top);
+    const c1 = Math.min(c + dc, top);
+    this.nextPhase = this.phase(c1);
+    return c1;
   }
 
   /**
@@ -235,6 +245,7 @@ export class RayleighStackSolver {
     let f0 = this.f(c0);
     let g0 = magnitude(f0);
     let c1 = this.nextPoint(c0, this.phase(c0), top);
+    let phi1 = this.nextPhase;
     let f1 = this.f(c1);
     let g1 = magnitude(f1);
     let gPrev = NaN;
@@ -248,8 +259,10 @@ export class RayleighStackSolver {
       let c2 = NaN;
       let f2 = NaN;
       let g2 = NaN;
+      let phi2 = NaN;
       if (c1 < top) {
-        c2 = this.nextPoint(c1, this.phase(c1), top);
+        c2 = this.nextPoint(c1, phi1, top);
+        phi2 = this.nextPhase;
         f2 = this.f(c2);
         g2 = magnitude(f2);
       }
@@ -275,6 +288,7 @@ export class RayleighStackSolver {
       c1 = c2;
       f1 = f2;
       g1 = g2;
+      phi1 = phi2;
     }
     // Close pairs among the roots found.
     for (let i = 0; i + 1 < o.found; i++) {
