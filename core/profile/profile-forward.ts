@@ -29,7 +29,8 @@
  * Rayleigh fundamental by a parity check (the secular function has the same
  * sign at the scan floor as just below the bracket, so no single root lies
  * below) and a move of at most WARM_MOVE, and only in a model whose shear
- * and P speeds never decrease with depth. Otherwise the full solver runs.
+ * and P speeds never decrease with depth, or from a model a Jacobian step
+ * away (LOW_VELOCITY_WARM_WIDTH). Otherwise the full solver runs.
  * P-SV has no Sturm count, and a parity check cannot see a pair of roots
  * below: under a low-velocity layer a branch trapped in it can pass close
  * below the fundamental, and a small change of the model or frequency
@@ -97,6 +98,14 @@ export const WARM_MOVE = 0.05;
  * beyond it each pick is tracked along frequency instead.
  */
 export const RAYLEIGH_WARM_SPREAD = 0.03;
+/**
+ * In a model with a low-velocity layer a Rayleigh root is warm-started
+ * only from a model that differs by a Jacobian step (first bracket at most
+ * ±2e-5 relative, i.e. a move of 1e-5): a pair of roots would have to be
+ * born within that distance below the fundamental, where the misfit jumps
+ * anyway.
+ */
+const LOW_VELOCITY_WARM_WIDTH = 2e-5;
 /**
  * Relative tolerance of a warm root: 1e-11, far below any pick's standard
  * deviation (a few per cent), and a few Brent steps cheaper than full
@@ -224,7 +233,7 @@ export const RAYLEIGH_FORWARD: WaveForwardFactory = (model) => {
       return rayleighStackGroupVelocity(stack, omega, c);
     },
     phaseNear(omega, mode, guess, width = WARM_STEP) {
-      if (mode !== 0 || !warmable) return NaN;
+      if (mode !== 0 || (!warmable && width > LOW_VELOCITY_WARM_WIDTH)) return NaN;
       const c = rayleighNear(stack, floor, omega, guess, width);
       return Math.abs(c - guess) <= WARM_MOVE * guess ? c : NaN;
     },
