@@ -5,7 +5,7 @@
  * vitest does this by itself from the durations it keeps of earlier runs
  * (in node_modules/.vite/vitest); without them (a clean clone, as on CI) it
  * starts the largest files first, and file size says little about run time
- * (the 4 kB profile-coverage test runs for over a minute). So where vitest
+ * (the 4 kB profile-coverage test is among the longest). So where vitest
  * has no duration for some file, the files named in LONG_FILES start first,
  * in that order, and the rest follow in vitest's own order.
  */
@@ -13,28 +13,33 @@ import { relative } from 'node:path';
 import { BaseSequencer, type TestSpecification } from 'vitest/node';
 
 /**
- * Test files that take longest, longest first (seconds, each file run
- * alone on a quiet 2-core machine, measured 2026-12-02). Keep it roughly up
- * to date: a file missing here only starts later.
+ * Test files that take longest, longest first (the order of their
+ * durations in a full run with two workers, 2026-12-02). Keep it roughly
+ * up to date: a file missing here only starts later.
  */
 export const LONG_FILES: readonly string[] = [
-  'test/reference/profile-coverage.test.ts', // ~70 s
-  'test/e2e/office-sync-browser.test.ts', // ~40 s
-  'test/e2e/phone-layout.test.ts', // ~20 s
-  'test/e2e/office-integrity.test.ts',
+  'test/e2e/office-sync-browser.test.ts',
+  'test/reference/profile-coverage.test.ts',
   'test/e2e/office-server.test.ts',
-  'test/e2e/field-trust.test.ts',
-  'test/e2e/app.test.ts',
-  'test/reference/estimate-coverage.test.ts',
   'test/unit/core/exchange/importer-fuzz.test.ts',
+  'test/reference/estimate-coverage.test.ts',
+  'test/e2e/app.test.ts',
+  'test/e2e/field-trust.test.ts',
   'test/unit/core/recordings/fuzz.test.ts',
+  'test/e2e/office-integrity.test.ts',
   'test/unit/core/dispersion/love-random.test.ts',
+  'test/reference/rayleigh-thin-layer.test.ts',
+  'test/e2e/layer-builder.test.ts',
+  'test/e2e/records.test.ts',
+  'test/e2e/phone-layout.test.ts',
+  'test/e2e/offline-shell.test.ts',
   'test/e2e/office-sync.test.ts',
+  'test/e2e/office-exports.test.ts',
+  'test/unit/office/site-cli.test.ts',
+  'test/unit/office/estimate-cli.test.ts',
   'test/e2e/office-integrity-browser.test.ts',
   'test/e2e/profile.test.ts',
   'test/unit/office/estimate-layers-cli.test.ts',
-  'test/e2e/records.test.ts',
-  'test/e2e/offline-shell.test.ts',
 ];
 
 export default class LongFirstSequencer extends BaseSequencer {
