@@ -721,7 +721,7 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
   if (P.defaultedSd > 0) warnings.push(defaultSdNote(P.defaultedSd, P.n));
   if (poorFit) {
     warnings.push(
-      `The fit is poor: χ²/dof = ${round(chi2PerDof)} is above what the stated pick errors allow, so the intervals are widened by that factor; check the picks, the modes and the number of layers.`,
+      `The fit is poor: the best model misses the picks by more than their stated errors allow (about ${round(Math.sqrt(chi2PerDof), 2)} times their sd on average), so the intervals are widened to match; check the picks, the modes and the number of layers.`,
     );
   }
   if (recommended < N) {
@@ -750,7 +750,7 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
     warnings.push(`Vs30 reaches below the depth of investigation (${round(doi)} m): its range rests partly on depths the picks do not constrain.`);
   }
   if (altMinima.length > 0) {
-    warnings.push(`${altMinima.length + 1} separate ${N}-layer models fit within Δχ² = 3.84; the intervals and the band span them all (see alternatives).`);
+    warnings.push(`The picks fit ${altMinima.length + 1} separate ${N}-layer models almost equally well (each inside the 95 % level of the best); the intervals and the band span them all (see the other models that fit).`);
   }
   if (chain.count > 0 && chain.acceptance < 0.05) {
     warnings.push(`The appraisal ensemble moved rarely (acceptance ${round(chain.acceptance * 100, 2)} %); the intervals may be too narrow.`);
