@@ -9,10 +9,6 @@
  *   server or the app's compute worker.
  * - The longest files start first (test/long-first-sequencer.ts), so that
  *   no long file starts near the end and runs alone.
- * - The two files that send the office server bodies over its limit
- *   (70 MB, 16 MiB) run last, one at a time: side by side, the server's
- *   close after its 413 answer sometimes reaches a client still sending
- *   before the answer does (write EPIPE instead of the 413).
  */
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
@@ -20,7 +16,6 @@ import { configDefaults, defineConfig, mergeConfig } from 'vitest/config';
 import LongFirstSequencer from './test/long-first-sequencer';
 import app from './vite.config';
 
-const OVER_LIMIT = ['test/e2e/office-server.test.ts', 'test/e2e/office-sync.test.ts'];
 
 export default mergeConfig(
   app,
@@ -34,8 +29,7 @@ export default mergeConfig(
       sequence: { sequencer: LongFirstSequencer },
       reporters: ['default', './test/summary-reporter.ts'],
       projects: [
-        { extends: true, test: { name: 'tests', include: ['test/**/*.test.ts', 'test/**/*.test.tsx'], exclude: [...configDefaults.exclude, ...OVER_LIMIT] } },
-        { extends: true, test: { name: 'over-limit', include: OVER_LIMIT, maxWorkers: 1, sequence: { groupOrder: 1 } } },
+        { extends: true, test: { name: 'tests', include: ['test/**/*.test.ts', 'test/**/*.test.tsx'], exclude: [...configDefaults.exclude] } },
       ],
     },
   }),

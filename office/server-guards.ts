@@ -121,15 +121,18 @@ export function answerAndClose(req: IncomingMessage, res: ServerResponse, status
 /**
  * Reads a request body of at most `limit` bytes within `timeoutMs`.
  * Over the limit (declared or counted): a 413 at once; the rest of the body
- * is drained (not kept) so the client can read the answer, then the
- * connection closes. Too slow: a 408 and the connection is cut.
+ * is drained (not kept) so the client can read the answer, and the
+ * connection is cut if the body has not ended `timeoutMs` later. Too slow:
+ * a 408 and the connection is cut.
  */
 export function readBody(req: IncomingMessage, limit: number, timeoutMs: number): Promise<Buffer> {
   return new Promise((resolveBody, reject) => {
     const tooBig = () =>
-      new HttpError(413, `The request body is larger than the ${limit}-byte limit (${Math.round(limit / 1048576)} MiB); send the changes in smaller batches. Nothing was saved.`, {
-        Connection: 'close',
-      });
+      // No "Connection: close": with it Node destroys the socket as soon as
+      // the answer is written, and a client still sending its body can see
+      // that reset (write EPIPE) before it reads the 413. The rest of the
+      // body is drained instead, and the socket cut if it does not end in time.
+      new HttpError(413, `The request body is larger than the ${limit}-byte limit (${Math.round(limit / 1048576)} MiB); send the changes in smaller batches. Nothing was saved.`);
     const chunks: Buffer[] = [];
     let size = 0;
     let settled = false;
@@ -145,9 +148,12 @@ export function readBody(req: IncomingMessage, limit: number, timeoutMs: number)
       setImmediate(() => req.socket.destroy());
     }, timeoutMs);
     // Past the limit the rest is drained, not kept, for at most `timeoutMs` more.
+    // A body that ends in time leaves the connection for the client's next request.
     const drain = () => {
+      const cut = setTimeout(() => req.socket.destroy(), timeoutMs);
+      cut.unref();
+      req.once('end', () => clearTimeout(cut));
       req.resume();
-      setTimeout(() => req.socket.destroy(), timeoutMs).unref();
     };
     if (Number(req.headers['content-length']) > limit) {
       settle(() => reject(tooBig()));

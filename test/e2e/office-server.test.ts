@@ -11,6 +11,7 @@ import { existsSync, mkdtempSync, readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import type { PickRecord, SiteRecord } from '../../core/exchange/records';
+import { MAX_PUSH_BYTES } from '../../core/exchange/sync-protocol';
 import { DB_FILE_NAME } from '../../office/store';
 import { addDevice, REPO_ROOT, removeTempDataDirs, startOffice, tempDataDir, type OfficeProcess } from './office-harness';
 
@@ -183,6 +184,36 @@ describe('16. slow, large and unwanted requests', () => {
     const many = await fetch(`${srv.url}/api/v1/push`, { method: 'POST', headers, body: JSON.stringify({ batchId: 'many', records: Array(50_001).fill({}) }) });
     expect(many.status).toBe(413);
     expect((await many.json()).error).toBe('A push may carry at most 50000 records, but this one has 50001; send the changes in smaller batches. Nothing was saved.');
+  });
+
+  it('a client still sending after the 413 is not reset: the rest of its body is drained and the connection serves its next request', async () => {
+    const { srv, token } = await office();
+    const u = new URL(srv.url);
+    const size = MAX_PUSH_BYTES + 4 * 1024 * 1024;
+    const outcome = await new Promise<{ answer: string; writeError?: string }>((ok) => {
+      const socket = connect(Number(u.port), u.hostname);
+      let answer = '';
+      let writeError: string | undefined;
+      socket.on('error', (e) => (writeError = (e as NodeJS.ErrnoException).code ?? e.message));
+      socket.on('close', () => ok({ answer, writeError }));
+      socket.on('data', (d: Buffer) => {
+        answer += d.toString('utf8');
+        // The second answer arrived: done.
+        if ((answer.match(/HTTP\/1\.1 /g) ?? []).length === 2 && answer.endsWith('}')) socket.end();
+      });
+      socket.on('connect', async () => {
+        socket.write(`POST /api/v1/push HTTP/1.1\r\nHost: 127.0.0.1:${u.port}\r\nAuthorization: Bearer ${token}\r\nContent-Type: application/json\r\nContent-Length: ${size}\r\n\r\n`);
+        const chunk = Buffer.alloc(1024 * 1024, 32);
+        // Keep sending well after the answer has come back (the server has read past its limit by then).
+        for (let sent = 0; sent < size && !socket.destroyed; sent += chunk.length) {
+          if (!socket.write(chunk.subarray(0, Math.min(chunk.length, size - sent)))) await new Promise((r) => socket.once('drain', r));
+        }
+        socket.write(`GET /api/v1/status HTTP/1.1\r\nHost: 127.0.0.1:${u.port}\r\nAuthorization: Bearer ${token}\r\n\r\n`);
+      });
+    });
+    expect(outcome.writeError).toBeUndefined();
+    expect(outcome.answer).toMatch(/^HTTP\/1\.1 413 /);
+    expect(outcome.answer).toMatch(/HTTP\/1\.1 200 [^]*"server":"shearfield-office"/);
   });
 
   it('a body that drips slower than --body-timeout gets 408 and the connection is cut', async () => {
