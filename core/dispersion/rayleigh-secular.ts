@@ -723,7 +723,8 @@ function stepMatrix(G: Float64Array, u: number, p: number, CC: number, CS: numbe
 
 /**
  * stepMatrix into G and, with the products' derivatives hCC … hD (and 0
- * for e, held fixed), its derivative into H, sharing the coefficients.
+ * for e, held fixed), its derivative into H: the matrix is linear in the
+ * six products, so its derivative is the same matrix of their derivatives.
  */
 function stepMatrixPair(
   G: Float64Array,
@@ -742,66 +743,8 @@ function stepMatrixPair(
   hSS: number,
   hD: number,
 ): void {
-  const t = 2 * u - 1;
-  const u1 = u - 1;
-  const pu = p - u;
-  const t2u = (t * t) / u;
-  const s00 = 4 * p * u1 - 2 * t * t + 1;
-  const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
-  const s04 = u * t - p * u1;
-  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) / u;
-  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) / (u * u);
-  const d4u1 = 4 * u - 1;
-  G[0] = CC + 4 * u * t * D + SS * s00;
-  G[1] = 2 * u * d4u1 * D + SS * s01;
-  G[2] = u * CS + pu * SC;
-  G[3] = u1 * CS - u * SC;
-  G[4] = -2 * u * u * D + SS * s04;
-  G[5] = -2 * t * d4u1 * D + SS * s10;
-  G[6] = e - 8 * u * t * D - 2 * SS * s00;
-  G[7] = -t * CS - 2 * pu * SC;
-  G[8] = -2 * u1 * CS + t * SC;
-  G[9] = u * d4u1 * D + 0.5 * SS * s01;
-  G[10] = 4 * u1 * CS - t2u * SC;
-  G[11] = 4 * u1 * CS - 2 * t * SC;
-  G[12] = CC;
-  G[13] = -(u1 / u) * SS;
-  G[14] = -u1 * CS + u * SC;
-  G[15] = t2u * CS + 4 * pu * SC;
-  G[16] = 2 * t * CS + 4 * pu * SC;
-  G[17] = (pu / u) * SS;
-  G[18] = CC;
-  G[19] = -u * CS - pu * SC;
-  G[20] = -8 * t * t * D + SS * s40;
-  G[21] = -4 * t * d4u1 * D + 2 * SS * s10;
-  G[22] = -t2u * CS - 4 * pu * SC;
-  G[23] = -4 * u1 * CS + t2u * SC;
-  G[24] = CC + 4 * u * t * D + SS * s00;
-  H[0] = hCC + 4 * u * t * hD + hSS * s00;
-  H[1] = 2 * u * d4u1 * hD + hSS * s01;
-  H[2] = u * hCS + pu * hSC;
-  H[3] = u1 * hCS - u * hSC;
-  H[4] = -2 * u * u * hD + hSS * s04;
-  H[5] = -2 * t * d4u1 * hD + hSS * s10;
-  H[6] = -8 * u * t * hD - 2 * hSS * s00;
-  H[7] = -t * hCS - 2 * pu * hSC;
-  H[8] = -2 * u1 * hCS + t * hSC;
-  H[9] = u * d4u1 * hD + 0.5 * hSS * s01;
-  H[10] = 4 * u1 * hCS - t2u * hSC;
-  H[11] = 4 * u1 * hCS - 2 * t * hSC;
-  H[12] = hCC;
-  H[13] = -(u1 / u) * hSS;
-  H[14] = -u1 * hCS + u * hSC;
-  H[15] = t2u * hCS + 4 * pu * hSC;
-  H[16] = 2 * t * hCS + 4 * pu * hSC;
-  H[17] = (pu / u) * hSS;
-  H[18] = hCC;
-  H[19] = -u * hCS - pu * hSC;
-  H[20] = -8 * t * t * hD + hSS * s40;
-  H[21] = -4 * t * d4u1 * hD + 2 * hSS * s10;
-  H[22] = -t2u * hCS - 4 * pu * hSC;
-  H[23] = -4 * u1 * hCS + t2u * hSC;
-  H[24] = hCC + 4 * u * t * hD + hSS * s00;
+  stepMatrix(G, u, p, CC, CS, SC, SS, D, e);
+  stepMatrix(H, u, p, hCC, hCS, hSC, hSS, hD, 0);
 }
 
 /** ∂/∂u of stepMatrix at fixed products (e's coefficient is constant): adds h·∂G/∂u into G. */
