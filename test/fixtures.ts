@@ -4,9 +4,10 @@
  */
 import { loveVelocities, type TwoLayer } from '../core/dispersion/love-layer';
 import type { LayeredModel } from '../core/dispersion/model';
-import type { Pick } from '../core/picks/picks';
+import { picksToCsv, type Pick } from '../core/picks/picks';
 import { gaussian } from '../core/shared/random';
 import { WAVE_FORWARDS } from '../core/profile/profile-forward';
+import { vpFromPoisson } from '../core/profile/p-speed';
 
 /**
  * The crustal layer over mantle of Shearer, *Introduction to Seismology*
@@ -126,4 +127,21 @@ export function layeredPicks(
     out.push(p);
   }
   return out;
+}
+
+/**
+ * The invented two-layer site's exact Rayleigh picks (P speeds from
+ * Poisson's ratio 0.3, the estimate's default) as a crew would type them:
+ * a picks CSV with frequencies to 0.01 Hz and speeds to 0.1 m/s.
+ */
+export function typedRayleighPicksCsv(count: number, from: number, to: number): string {
+  const m = INVENTED_TWO_LAYER_SITE;
+  const vp = [...m.layers.map((l) => vpFromPoisson(l.vs, 0.3)), vpFromPoisson(m.halfspace.vs, 0.3)];
+  const picks = layeredPicks(m, 'rayleigh', count, from, to, undefined, vp).map((p) => ({
+    ...p,
+    frequency: Number(p.frequency.toFixed(2)),
+    velocity: Number(p.velocity.toFixed(1)),
+    sd: Number(p.sd!.toFixed(1)),
+  }));
+  return picksToCsv(picks, { lineEnding: '\n' });
 }

@@ -16,23 +16,11 @@ import { copyFileSync, mkdirSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { picksToCsv } from '../../core/picks/picks';
-import { vpFromPoisson } from '../../core/profile/p-speed';
-import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../fixtures';
+import { typedRayleighPicksCsv } from '../fixtures';
 import { ARTIFACT_DIR, openApp, reload, REPO_ROOT, setOffline, VIEWPORTS, waitForServiceWorkerControl, type AppSession } from './harness';
 
 const SITE = 'E2E layered terrace (invented)';
-const M = INVENTED_TWO_LAYER_SITE;
-const VP = [...M.layers.map((l) => vpFromPoisson(l.vs, 0.3)), vpFromPoisson(M.halfspace.vs, 0.3)];
-const CSV = picksToCsv(
-  layeredPicks(M, 'rayleigh', 12, 3, 50, undefined, VP).map((p) => ({
-    ...p,
-    frequency: Number(p.frequency.toFixed(2)),
-    velocity: Number(p.velocity.toFixed(1)),
-    sd: Number(p.sd!.toFixed(1)),
-  })),
-  { lineEnding: '\n' },
-);
+const CSV = typedRayleighPicksCsv(12, 3, 50);
 
 let app: AppSession;
 let page: Page;
