@@ -107,6 +107,13 @@ describe('phones: 390×844, touch, device scale 2', () => {
           );
           for (const [sw, cw, name] of tables) expect(Number(sw), `${site} / ${v} / ${theme}: table ${name}`).toBeLessThanOrEqual(Number(cw));
         }
+        // The layer builder (What-if's second tab), started from the site's estimate.
+        await openView('What-if');
+        await page.getByRole('button', { name: 'Layer builder' }).click();
+        await page.getByRole('heading', { name: 'Layer builder' }).waitFor();
+        const b = await sideways();
+        expect(b.scrollWidth, `${site} / layer builder / ${theme}: ${b.outside.join('; ')}`).toBeLessThanOrEqual(b.clientWidth);
+        await page.getByRole('button', { name: 'One layer (sliders)' }).click();
       }
     }
     // The site list and the sync panel, too.
