@@ -10,6 +10,7 @@ import type { AxisQuantity } from '../charts/chart-data';
 import type { MisfitSlice } from '../../../core/estimate/misfit-slice';
 import type { EstimateOutcome } from './compute';
 import type { RecordsState } from './records-controller';
+import { emptyRecordsState } from './records-state';
 import type { ProfileResult } from '../../../core/profile/profile-estimate';
 import type { LayeredModel } from '../../../core/dispersion/model';
 import type { TrialResult } from '../../worker/model-trial';
@@ -253,7 +254,7 @@ export const initialState: AppState = {
   estimate: { status: 'idle' },
   locating: false,
   sync: { busy: false, formError: '', conflicted: [], siteNames: {} },
-  records: { list: [], method: 'phase-shift', overrides: { first: '', spacing: '', delay: '' }, status: 'idle', mode: '0', removed: [] },
+  records: emptyRecordsState(),
   recordings: { list: [], busy: false },
   profile: { status: 'idle', progress: 0, layers: 2, poissonText: '', waterTableText: '' },
   layered: {
