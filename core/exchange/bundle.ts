@@ -39,7 +39,7 @@ import { CAUTION } from '../shared/caution';
 import { InputError, describeValue } from '../shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../dispersion/model';
 import { validatePick } from '../picks/picks';
-import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordingRecord, RecordType, SiteRecord } from './records';
+import { checkSiteModel, type AnyRecord, type EstimateRecord, type EstimateSettings, type PickRecord, type RecordingRecord, type RecordType, type SiteRecord } from './records';
 import { fromBase64 } from './base64';
 import { checkRecordingFields } from './recording-record';
 import { checkDocumentDepth, checkRecordLimits } from './record-limits';
@@ -155,6 +155,16 @@ function schemaMessage(error: ErrorObject, root: string, lead: string): InputErr
             ? 'must be a revision key such as 3-0123456789abcdef'
             : 'must be an ISO 8601 UTC time such as 2026-05-04T10:30:00Z';
       break;
+    case 'maxItems':
+      reason = `must list at most ${String(p.limit)} items`;
+      break;
+    case 'minItems':
+      reason = `must list at least ${String(p.limit)} item${p.limit === 1 ? '' : 's'}`;
+      break;
+    case 'minimum':
+    case 'maximum':
+      reason = `must be ${error.keyword === 'minimum' ? 'at least' : 'at most'} ${String(p.limit)}`;
+      break;
     case 'false schema':
       reason = 'must not carry conflicts of its own';
       break;
@@ -226,6 +236,7 @@ function checkRules(rec: AnyRecord, where: string, lead: string): void {
       if (day.getUTCFullYear() !== y || day.getUTCMonth() !== m - 1 || day.getUTCDate() !== d) {
         throw new InputError(`${where}.date`, `${where}.date is ${describeValue(rec.date)}, which is not a calendar date.`);
       }
+      if (rec.layeredModel !== undefined) checkSiteModel(rec.layeredModel, `${where}.layeredModel`);
     }
     checkSettings(rec.settings, where);
   } catch (e) {

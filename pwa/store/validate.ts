@@ -12,7 +12,7 @@ import { checkRecordLimits } from '../../core/exchange/record-limits';
 import { InputError, describeValue } from '../../core/shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../../core/dispersion/model';
 import { validatePick, type Pick } from '../../core/picks/picks';
-import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordingRecord, SiteRecord, StoredRecord } from '../../core/exchange/records';
+import { checkSiteModel, type AnyRecord, type EstimateRecord, type EstimateSettings, type PickRecord, type RecordingRecord, type SiteRecord, type StoredRecord } from '../../core/exchange/records';
 import { checkRecordingFields } from '../../core/exchange/recording-record';
 
 /** Text limits for site fields (common practice). */
@@ -136,6 +136,7 @@ export function checkSite(site: SiteRecord): void {
     }
   }
   checkEstimateSettings(site.settings);
+  if (site.layeredModel !== undefined) checkSiteModel(site.layeredModel, 'layeredModel');
 }
 
 /** The Pick part of a pick record (what core/picks/picks.ts validates). */

@@ -157,7 +157,7 @@ describe('site bundle', () => {
   it('checks a single pushed record against the same schema', () => {
     const { picks } = fixture();
     expect(checkRecord(picks[0], 'records[0]')).toBe(picks[0]);
-    expectInputError(() => checkRecord({ ...picks[0], rev: 0 }, 'records[3]'), 'The record is not valid: records[3].rev must be >= 1.');
+    expectInputError(() => checkRecord({ ...picks[0], rev: 0 }, 'records[3]'), 'The record is not valid: records[3].rev must be at least 1.');
     expectInputError(() => checkRecord({ ...picks[0], type: 'note' }, 'records[3]'), 'The record is not valid: records[3].type must be "site", "pick" or "estimate", but it is "note".');
     expectInputError(() => checkRecord('x', 'records[0]'), 'The record is not valid: records[0] must be an object, but it is "x".');
   });
