@@ -38,6 +38,10 @@ Writes into OUTDIR (created if missing):
                      raw_file, file, caution); raw_file says whether the raw file is
                      written here, stayed on the tablet (the site's choice) or has not
                      reached the office
+  models/SITE_ID.json  each site's layer-builder model, when it has one: a model file
+                     (layers, halfspace; units in the field names) that shearfield curve
+                     reads, with the site's id and name, what the crew typed for the P waves
+                     (p_input: vp or poisson), the waves and modes drawn, and the caution
   recordings/SITE_ID/RECORDING_ID-NAME  each raw file the office holds, byte for byte
                      (the name as the crew gave it, with characters other than letters,
                      digits, . _ - written _)
@@ -101,6 +105,26 @@ function recordingPaths(recordings: readonly RecordingRecord[]): Map<string, str
   return paths;
 }
 
+/**
+ * A site's layer-builder model as a model file (core/dispersion/model.ts
+ * ModelJson: `shearfield curve` reads its layers and halfspace and ignores
+ * the rest), with the site it belongs to, how it was typed and drawn, and
+ * the caution.
+ */
+function siteModelFile(s: SiteRecord): Record<string, unknown> {
+  const m = s.layeredModel!;
+  return {
+    site_id: s.id,
+    site_name: s.name,
+    layers: m.model.layers,
+    halfspace: m.model.halfspace,
+    p_input: m.pInput,
+    waves: (['love', 'rayleigh'] as const).filter((w) => m.waves[w]),
+    modes: m.modes,
+    caution: CAUTION,
+  };
+}
+
 const sitesExport: Command = {
   name: 'sites-export',
   summary: 'Export every site as CSV and GeoJSON, each site\'s picks as CSV, and the seismograph files the office holds.',
@@ -154,10 +178,17 @@ const sitesExport: Command = {
         rows.push({ recording: r, file: path });
       }
       if (recordings.length > 0) writeFileSync(join(out, 'recordings.csv'), recordingsToCsv(rows));
+      const modelled = sites.filter((s) => s.layeredModel !== undefined);
+      if (modelled.length > 0) {
+        mkdirSync(join(out, 'models'), { recursive: true });
+        const modelNames = pickFileNames(modelled);
+        for (const s of modelled) writeFileSync(join(out, 'models', modelNames.get(s.id)!.replace(/\.csv$/, '.json')), JSON.stringify(siteModelFile(s), null, 2) + '\n');
+      }
       const held = rows.filter((r) => r.file !== undefined).length;
       io.out(
         `Wrote ${sites.length} sites to ${join(out, 'sites.csv')} and ${join(out, 'sites.geojson')}, and ${files} picks files to ${join(out, 'picks')} (for spreadsheets) and ${files} to ${join(out, 'picks-raw')} (exact text)` +
-          (recordings.length > 0 ? `, and ${recordings.length} seismograph files to ${join(out, 'recordings.csv')} (${held} raw files under ${join(out, 'recordings')}).\n` : '.\n'),
+          (recordings.length > 0 ? `, and ${recordings.length} seismograph files to ${join(out, 'recordings.csv')} (${held} raw files under ${join(out, 'recordings')})` : '') +
+          (modelled.length > 0 ? `, and ${modelled.length} layer-builder model${modelled.length === 1 ? '' : 's'} to ${join(out, 'models')}.\n` : '.\n'),
       );
     } finally {
       store.close();

@@ -14,12 +14,14 @@ import {
   checkRayleighModel,
   checkShearSpeed,
   checkThickness,
+  modelToJson,
   pSpeedFromPoisson,
   poissonRatio,
   validateModel,
   type Layer,
   type LayeredModel,
 } from '../../../core/dispersion/model';
+import type { SiteLayeredModel } from '../../../core/exchange/records';
 import type { EstimateResult } from '../../../core/estimate/estimate';
 import type { ProfileResult } from '../../../core/profile/profile-types';
 import { checkPoisson, DEFAULT_POISSON } from '../../../core/profile/p-speed';
@@ -59,7 +61,11 @@ export interface StoredBuilderModel {
   modes: number;
 }
 
-/** Settings key of a site's builder model (kept on this device only, like the survey depth). */
+/**
+ * Settings key of a site's builder model as earlier versions kept it on the
+ * device only; a site that has no model of its own takes it from there
+ * (layered-work.ts), and from then on the model is kept with the site.
+ */
 export function builderKey(siteId: string): string {
   return `layered.model.${siteId}`;
 }
@@ -273,4 +279,32 @@ export function readStored(value: unknown): StoredBuilderModel | undefined {
   const modes = MODE_CHOICES.includes(o.modes as 1) ? (o.modes as number) : 3;
   if (!readRows(rows, o.pInput, waves.rayleigh).model) return undefined;
   return { v: 1, pInput: o.pInput, rows, waves, modes };
+}
+
+/** The site's layered model (core/exchange/records.ts) of a model that passed every check, with how it was typed and drawn. */
+export function siteModelOf(model: LayeredModel, kept: Omit<StoredBuilderModel, 'v' | 'rows'>): SiteLayeredModel {
+  return { model: modelToJson(model), pInput: kept.pInput, waves: { love: kept.waves.love, rayleigh: kept.waves.rayleigh }, modes: kept.modes };
+}
+
+/** A number as the crew's text: as stored, up to 10 significant figures (so that a derived value does not print its float noise). */
+function storedText(x: number): string {
+  return String(Number(x.toPrecision(10)));
+}
+
+/**
+ * The builder's rows of a site's layered model: its numbers as text, the P
+ * column as P speeds or as the Poisson's ratios they give (to 6 figures, so
+ * that a typed 0.3 comes back as 0.3).
+ */
+export function rowsOfSiteModel(m: SiteLayeredModel): StoredBuilderModel {
+  const p = (vs: number, vp: number | undefined) => (vp === undefined ? '' : m.pInput === 'vp' ? storedText(vp) : String(Number(poissonRatio(vp, vs).toPrecision(6))));
+  const rows: LayerRowText[] = m.model.layers.map((l) => ({
+    thickness: storedText(l.thickness_m),
+    vs: storedText(l.vs_m_s),
+    p: p(l.vs_m_s, l.vp_m_s),
+    density: storedText(l.density_kg_m3),
+  }));
+  const h = m.model.halfspace;
+  rows.push({ thickness: '', vs: storedText(h.vs_m_s), p: p(h.vs_m_s, h.vp_m_s), density: storedText(h.density_kg_m3) });
+  return { v: 1, pInput: m.pInput, rows, waves: { ...m.waves }, modes: m.modes };
 }

@@ -4,9 +4,12 @@
  *
  * The layer builder and its what-if (the `layered` slice of the state):
  * rows of N layers over a half-space, typed and checked by the core's model
- * rules (layered-form.ts), kept per site on this device (settings store) as
- * soon as every value passes; a refused value is named in one sentence and
- * the kept model stays as it was. The model's Love and/or Rayleigh curves,
+ * rules (layered-form.ts), kept with the site (the site record's
+ * `layeredModel`, so it syncs to the office and travels in bundles) as soon
+ * as every value passes; a refused value is named in one sentence and the
+ * kept model stays as it was. A newer model arriving with the site (a sync
+ * pull, a bundle import) replaces the rows. A model an earlier version kept
+ * on this device only (settings store) moves to the site when it opens. The model's Love and/or Rayleigh curves,
  * its misfit against the picks and its site figures are computed in the
  * compute worker (model-trial.ts), the latest edit aborting the stale run.
  *
@@ -16,12 +19,14 @@
  * verdict, so an unresolved estimate's curves can look unsupported.
  */
 import type { LayeredModel } from '../../../core/dispersion/model';
+import { nextRevision, type SiteLayeredModel } from '../../../core/exchange/records';
+import { canonicalJson } from '../../../core/exchange/revision';
 import type { Pick } from '../../../core/picks/picks';
 import type { ProfileResult } from '../../../core/profile/profile-types';
 import { profileVerdict } from '../../../core/profile/profile-verdict';
 import { pickOf } from '../../store';
 import { computeModelTrial, type TrialRequest, type TrialResult } from '../../worker/bridge';
-import { initialState, WHATIF_TAB_KEY, type AppState, type LayeredState, type TrialState } from './app-state';
+import { initialState, replaceById, WHATIF_TAB_KEY, type AppState, type LayeredState, type TrialState } from './app-state';
 import {
   blankRows,
   builderKey,
@@ -30,6 +35,8 @@ import {
   readStored,
   rowsOfEstimate,
   rowsOfProfile,
+  rowsOfSiteModel,
+  siteModelOf,
   switchPInput,
   type LayerRowText,
   type PInput,
@@ -88,6 +95,16 @@ export function bestFitCaption(v: { level: 'resolved' | 'rough' | 'unresolved'; 
   return `Layered best fit (${n}, resolved): ${v.text}`;
 }
 
+/** The open site's record. */
+function siteOf(s: AppState): AppState['sites'][number] | undefined {
+  return s.openSiteId === undefined ? undefined : s.sites.find((x) => x.id === s.openSiteId);
+}
+
+/** Canonical JSON of a site's layered model (undefined when it has none), to tell a model from elsewhere from the one kept. */
+function modelJson(site: { layeredModel?: SiteLayeredModel } | undefined): string | undefined {
+  return site?.layeredModel ? canonicalJson(site.layeredModel) : undefined;
+}
+
 export class LayeredWork {
   private siteId?: string;
   private picks?: AppState['picks'];
@@ -96,6 +113,11 @@ export class LayeredWork {
   private bestRun?: AbortController;
   /** The crew chose the waves (or a stored model did): picks no longer set them. */
   private wavesChosen = false;
+  /** Canonical JSON of the site's model the rows last took or gave (so only a model from elsewhere replaces them). */
+  private keptJson?: string;
+  /** Saves run one after another, each on the site as the one before left it. */
+  private saving: Promise<void> = Promise.resolve();
+  private pendingSaves = 0;
 
   constructor(
     private readonly hub: StateHub,
@@ -119,8 +141,16 @@ export class LayeredWork {
       this.trialRun?.abort();
       this.bestRun?.abort();
       this.wavesChosen = false;
+      this.keptJson = modelJson(siteOf(s));
       this.hub.set({ layered: { ...initialState.layered, tab: s.layered.tab } });
       if (s.openSiteId) void this.load(s.openSiteId);
+      return;
+    }
+    const arrived = siteOf(s)?.layeredModel;
+    if (arrived && this.pendingSaves === 0 && modelJson(siteOf(s)) !== this.keptJson) {
+      // A newer model came with the site from elsewhere (sync, a bundle): it replaces the rows.
+      this.keptJson = modelJson(siteOf(s));
+      this.take(rowsOfSiteModel(arrived), false);
       return;
     }
     if (s.picks !== this.picks) {
@@ -146,23 +176,33 @@ export class LayeredWork {
     }
   }
 
-  /** Reads the site's kept model and computes it. */
+  /**
+   * Reads the site's model (or, for a site without one, the model an
+   * earlier version kept on this device, which then moves to the site) and
+   * computes it.
+   */
   private async load(siteId: string): Promise<void> {
+    const own = siteOf(this.hub.current)?.layeredModel;
     let stored: StoredBuilderModel | undefined;
     try {
       const [kept, tab] = await Promise.all([
-        this.hub.store?.getSetting<unknown>(builderKey(siteId)),
+        own ? undefined : this.hub.store?.getSetting<unknown>(builderKey(siteId)),
         this.hub.store?.getSetting<unknown>(WHATIF_TAB_KEY),
       ]);
-      stored = readStored(kept);
+      stored = own ? readStored(rowsOfSiteModel(own)) : readStored(kept);
       if (this.siteId === siteId && (tab === 'one' || tab === 'layers') && tab !== this.state.tab) this.patch({ tab });
     } catch {
       stored = undefined;
     }
     if (this.siteId !== siteId || !stored) return;
+    this.take(stored, !own);
+  }
+
+  /** Shows a kept model's rows and computes them; `save` keeps them with the site. */
+  private take(stored: StoredBuilderModel, save: boolean): void {
     this.wavesChosen = true;
     this.patch({ pInput: stored.pInput, rows: stored.rows, waves: stored.waves, modes: stored.modes, note: undefined });
-    this.commit(false);
+    this.commit(save);
   }
 
   /** Type P speeds or Poisson's ratios; the typed values are converted where they can be. */
@@ -236,21 +276,31 @@ export class LayeredWork {
     const reading = readRows(s.rows, s.pInput, s.waves.rayleigh);
     this.patch({ errors: reading.errors, empty: reading.empty, warnings: reading.warnings });
     if (!reading.model) return;
-    if (save) void this.save();
+    if (save && this.siteId) {
+      const [id, model] = [this.siteId, siteModelOf(reading.model, s)];
+      this.pendingSaves++;
+      this.saving = this.saving.then(() => this.save(id, model)).finally(() => this.pendingSaves--);
+    }
     this.runTrial(reading.model);
   }
 
-  private async save(): Promise<void> {
-    const id = this.siteId;
+  /** Keeps the model with the site as a new revision of it (none when it is the one kept). */
+  private async save(id: string, layeredModel: SiteLayeredModel): Promise<void> {
     const store = this.hub.store;
-    if (!id || !store) return;
-    const s = this.state;
-    const kept: StoredBuilderModel = { v: 1, pInput: s.pInput, rows: s.rows.map((r) => ({ ...r })), waves: { ...s.waves }, modes: s.modes };
+    const site = this.hub.current.sites.find((x) => x.id === id);
+    if (!store || !site || site.deleted) return;
+    const json = canonicalJson(layeredModel);
+    if (json === modelJson(site)) return;
+    this.keptJson = json;
     try {
-      await store.putSetting(builderKey(id), kept);
+      const saved = await store.saveSite(nextRevision(site, { layeredModel }));
+      this.hub.set({ sites: replaceById(this.hub.current.sites, saved) });
       if (this.siteId === id) this.patch({ saveError: undefined });
     } catch (e) {
-      if (this.siteId === id) this.patch({ saveError: `The model was not kept on this device: ${messageOf(e)}` });
+      if (this.siteId === id) {
+        this.keptJson = modelJson(site);
+        this.patch({ saveError: `The model was not kept with the site: ${messageOf(e)}` });
+      }
     }
   }
 

@@ -9,7 +9,7 @@
  * the form's typed text.
  */
 import { useEffect, useState } from 'preact/hooks';
-import type { AnyRecord } from '../../../core/exchange/records';
+import type { AnyRecord, SiteLayeredModel } from '../../../core/exchange/records';
 import type { SyncPanelState } from '../controllers/app-state';
 import { differing, type SyncController } from '../controllers/sync-controller';
 import { syncWords } from '../../sync/sync-state';
@@ -29,9 +29,22 @@ function when(iso: string | undefined): string {
   return Number.isNaN(d.getTime()) ? iso : d.toLocaleString();
 }
 
-function show(v: unknown): string {
+function show(v: unknown, field?: string): string {
   if (v === undefined) return '(empty)';
+  if (field === 'layeredModel') return modelWords(v as SiteLayeredModel);
   return typeof v === 'string' ? v : JSON.stringify(v);
+}
+
+/** A site's layer-builder model in words, for the conflict table: "2 layers: 4 m at 180 m/s, 10 m at 300 m/s; half-space 600 m/s". */
+function modelWords(m: SiteLayeredModel): string {
+  const layers = m.model.layers.map((l) => `${l.thickness_m} m at ${l.vs_m_s} m/s`).join(', ');
+  const n = m.model.layers.length;
+  return `${n} layer${n === 1 ? '' : 's'}: ${layers}; half-space ${m.model.halfspace.vs_m_s} m/s`;
+}
+
+/** A field's name in the conflict table. */
+function fieldName(k: string): string {
+  return k === 'layeredModel' ? 'layer builder model' : k;
 }
 
 function recordLabel(r: AnyRecord, sites: Readonly<Record<string, string>>): string {
@@ -211,9 +224,9 @@ export function SyncPanel({ state, sync, online }: SyncPanelProps) {
                       <tbody>
                         {differing(r, c.record).map((k) => (
                           <tr key={k}>
-                            <th scope="row">{k}</th>
-                            <td>{show((r as unknown as Record<string, unknown>)[k])}</td>
-                            <td>{show((c.record as unknown as Record<string, unknown>)[k])}</td>
+                            <th scope="row">{fieldName(k)}</th>
+                            <td>{show((r as unknown as Record<string, unknown>)[k], k)}</td>
+                            <td>{show((c.record as unknown as Record<string, unknown>)[k], k)}</td>
                           </tr>
                         ))}
                       </tbody>

@@ -11,11 +11,13 @@ import 'fake-indexeddb/auto';
 import { afterEach, describe, expect, it, vi } from 'vitest';
 import type { LayeredModel } from '../../../../../core/dispersion/model';
 import type { ProfileResult } from '../../../../../core/profile/profile-types';
-import { openFieldStore, type FieldStore } from '../../../../../pwa/store';
+import { newSite, openFieldStore, type FieldStore } from '../../../../../pwa/store';
 import { AppController } from '../../../../../pwa/ui/controllers/app-controller';
 import type { TrialRunner } from '../../../../../pwa/ui/controllers/layered-controller';
 import { bestFitCaption } from '../../../../../pwa/ui/controllers/layered-work';
 import { builderKey } from '../../../../../pwa/ui/controllers/layered-form';
+import { nextRevision } from '../../../../../core/exchange/records';
+import { pSpeedFromPoisson } from '../../../../../core/dispersion/model';
 import type { ProfileRunner } from '../../../../../pwa/ui/controllers/profile-controller';
 import { trialModel, type TrialRequest, type TrialResult } from '../../../../../pwa/worker/model-trial';
 
@@ -61,8 +63,22 @@ describe('the layer builder', () => {
     expect(t.result!.curves[1].modes[0].phase.length).toBeGreaterThan(0);
     const id = c.current.openSiteId!;
     c.layered.setTab('layers');
-    const kept = await stores[0].getSetting<{ rows: { p: string }[] }>(builderKey(id));
-    expect(kept!.rows.map((r) => r.p)).toEqual(['340', '1550', '1900']);
+    await vi.waitFor(async () => expect((await stores[0].getSite(id))!.layeredModel?.model.halfspace.vp_m_s).toBe(1900));
+    const kept = (await stores[0].getSite(id))!.layeredModel!;
+    expect(kept).toEqual({
+      model: {
+        layers: [
+          { thickness_m: 4, vs_m_s: 180, density_kg_m3: 1800, vp_m_s: 340 },
+          { thickness_m: 10, vs_m_s: 300, density_kg_m3: 1900, vp_m_s: 1550 },
+        ],
+        halfspace: { vs_m_s: 600, density_kg_m3: 2100, vp_m_s: 1900 },
+      },
+      pInput: 'vp',
+      waves: { love: true, rayleigh: true },
+      modes: 3,
+    });
+    // The model goes with the site to the office: its revision waits in the outbox.
+    expect((await stores[0].outbox()).some((e) => e.recordId === id && e.rev === (c.current.sites.find((x) => x.id === id)!.rev))).toBe(true);
 
     c.layered.editCell(1, 'p', '330');
     await c.layered.commit();
@@ -72,7 +88,7 @@ describe('the layer builder', () => {
     expect(c.current.layered.rows[1].p).toBe('330'); // the typed text stays on screen
     expect(c.current.layered.trial.model!.layers[1].vp).toBe(1550); // the curves stay those of the kept model
     await new Promise((r) => setTimeout(r, 20));
-    expect((await stores[0].getSetting<{ rows: { p: string }[] }>(builderKey(id)))!.rows[1].p).toBe('1550');
+    expect((await stores[0].getSite(id))!.layeredModel!.model.layers[1].vp_m_s).toBe(1550);
 
     // A fresh app on the same store (a reload) opens the site with the kept model, and computes it.
     const again = await started(name);
@@ -81,6 +97,66 @@ describe('the layer builder', () => {
     expect(again.current.layered.rows.map((r) => r.p)).toEqual(['340', '1550', '1900']);
     expect(again.current.layered.waves).toEqual({ love: true, rayleigh: true });
     expect(again.current.layered.tab).toBe('layers'); // the What-if view returns to the builder
+  });
+
+  it('saves no new site revision for a model that did not change, and takes a newer model that arrives with the site', async () => {
+    const c = await started(`layered-test-${++dbCount}`);
+    await c.sites.createSite('Builder sync site (invented)');
+    await typeTwoLayers(c);
+    const id = c.current.openSiteId!;
+    await vi.waitFor(async () => expect((await stores[0].getSite(id))!.layeredModel?.waves.rayleigh).toBe(true));
+    await new Promise((r) => setTimeout(r, 20));
+    const rev = (await stores[0].getSite(id))!.rev;
+    await c.layered.commit(); // the same rows again
+    await new Promise((r) => setTimeout(r, 20));
+    expect((await stores[0].getSite(id))!.rev).toBe(rev);
+
+    // Another tablet's newer model arrives (a sync pull or a bundle import): the rows follow it, typed as Poisson's ratios.
+    const site = (await stores[0].getSite(id))!;
+    const theirs = nextRevision(site, {
+      layeredModel: {
+        model: {
+          layers: [{ thickness_m: 6.5, vs_m_s: 200, density_kg_m3: 1850, vp_m_s: pSpeedFromPoisson(200, 0.3) }],
+          halfspace: { vs_m_s: 550, density_kg_m3: 2050, vp_m_s: pSpeedFromPoisson(550, 0.25) },
+        },
+        pInput: 'poisson',
+        waves: { love: false, rayleigh: true },
+        modes: 2,
+      },
+    });
+    await stores[0].putIncoming([theirs]);
+    await c.sync.recordsChanged();
+    await vi.waitFor(() => expect(c.current.layered.rows.map((r) => r.p)).toEqual(['0.3', '0.25']));
+    expect(c.current.layered.rows.map((r) => r.thickness)).toEqual(['6.5', '']);
+    expect(c.current.layered.pInput).toBe('poisson');
+    expect(c.current.layered.modes).toBe(2);
+    await vi.waitFor(() => expect(c.current.layered.trial.model?.layers[0].thickness).toBe(6.5));
+    await new Promise((r) => setTimeout(r, 20));
+    expect((await stores[0].getSite(id))!.rev).toBe(theirs.rev); // taking it saves nothing new
+  });
+
+  it('moves a model an earlier version kept on this device only to the site when the site opens', async () => {
+    const name = `layered-test-${++dbCount}`;
+    const old = await openFieldStore(name);
+    stores.push(old);
+    const site = await old.saveSite(newSite({ name: 'Builder old site (invented)' }));
+    const rows = [
+      { thickness: '5', vs: '190', p: '', density: '1800' },
+      { thickness: '', vs: '560', p: '', density: '2100' },
+    ];
+    await old.putSetting(builderKey(site.id), { v: 1, pInput: 'vp', rows, waves: { love: true, rayleigh: false }, modes: 2 });
+    const c = await started(name);
+    c.sites.openSite(site.id, 'whatif');
+    await vi.waitFor(() => expect(c.current.layered.rows).toEqual(rows));
+    await vi.waitFor(async () =>
+      expect((await old.getSite(site.id))!.layeredModel).toEqual({
+        model: { layers: [{ thickness_m: 5, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
+        pInput: 'vp',
+        waves: { love: true, rayleigh: false },
+        modes: 2,
+      }),
+    );
+    expect((await old.getSite(site.id))!.rev).toBe(2);
   });
 
   it('lets the latest edit win: a stale computation is aborted and its answer never shows', async () => {
