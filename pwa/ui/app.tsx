@@ -303,6 +303,8 @@ function SiteWork({ s, c }: { s: AppState; c: AppController }) {
           picks={s.picks}
           model={fitted}
           estimate={s.estimate}
+          layered={layeredCurves}
+          layeredCaption={best.caption}
           plot={s.plot}
           theme={s.theme}
           records={c.records}

@@ -74,5 +74,20 @@ describe('the layered profile in Chromium, offline', () => {
     // The result itself (verdict, caution, band, Vs30, layers), as the README shows it.
     await page.getByTestId('profile-result').screenshot({ path: shot });
     copyFileSync(shot, join(REPO_ROOT, 'docs', 'screenshot-profile.png'));
+
+    // The Records view's image overlays the layered best fit (its Rayleigh curves by line style), with the verdict's words and the caution.
+    await page.getByRole('button', { name: 'Records', exact: true }).click();
+    await page.getByRole('button', { name: 'Try the invented demo record' }).click();
+    await page.locator('canvas.dispersion-image').waitFor({ timeout: 60_000 });
+    const fit = page.getByTestId('record-layered-fit');
+    await fit.waitFor({ timeout: 30_000 });
+    const words = (await fit.textContent()) ?? '';
+    expect(words).toContain('Rayleigh: its own colour, dash-dot for phase velocity');
+    expect(words).toContain('Screening estimate only.');
+    expect(words.includes('for reference only')).toBe(level === 'unresolved');
+    expect(await fit.getAttribute('data-unsupported')).toBe(String(level === 'unresolved'));
+    expect(await page.getByTestId('record-fit').count()).toBe(0);
+    await page.locator('figure.image-figure').screenshot({ path: join(ARTIFACT_DIR, 'records-layered-fit.png') });
+    expect(pageErrors).toEqual([]);
   }, 300_000);
 });

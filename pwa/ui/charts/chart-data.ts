@@ -200,12 +200,14 @@ export interface ComputedKey extends CurveKey {
 /**
  * Computed curves on one x column in the chosen quantity: for each wave,
  * every computed mode in the kinds picked for that wave (phase when there
- * are no picks of it), NaN where a mode does not exist.
+ * are no picks of it), or only in `kind` when given (a dispersion image
+ * shows one kind), NaN where a mode does not exist.
  */
 export function computedColumns(
   c: ComputedCurves,
   picks: readonly PlotPick[],
   axis: AxisQuantity,
+  kind?: PickKind,
 ): { keys: ComputedKey[]; x: Float64Array; y: Float64Array[] } {
   const band = c.band;
   const n = band.length;
@@ -218,12 +220,12 @@ export function computedColumns(
   const keys: ComputedKey[] = [];
   const y: Float64Array[] = [];
   for (const w of c.curves) {
-    const kinds = [...new Set(picks.filter((p) => (p.wave ?? 'love') === w.wave).map((p) => p.kind))].sort();
+    const kinds = kind ? [kind] : [...new Set(picks.filter((p) => (p.wave ?? 'love') === w.wave).map((p) => p.kind))].sort();
     for (const mc of w.modes) {
       if (mc.frequency.length === 0) continue;
-      for (const kind of kinds.length ? kinds : (['phase'] as const)) {
+      for (const k of kinds.length ? kinds : (['phase'] as const)) {
         const col = new Float64Array(n).fill(NaN);
-        const src = kind === 'phase' ? mc.phase : mc.group;
+        const src = k === 'phase' ? mc.phase : mc.group;
         let j = 0;
         for (let i = 0; i < n && j < mc.frequency.length; i++) {
           if (band[i] === mc.frequency[j]) {
@@ -231,7 +233,7 @@ export function computedColumns(
             j++;
           }
         }
-        keys.push({ wave: w.wave, mode: mc.mode, kind });
+        keys.push({ wave: w.wave, mode: mc.mode, kind: k });
         y.push(col);
       }
     }

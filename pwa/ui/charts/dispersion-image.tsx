@@ -2,7 +2,10 @@
  * The dispersion image on a canvas, in the dispersion plot's units and axes
  * (frequency in Hz or period in s across, log or linear as the plot is set;
  * velocity in m/s up), with the site's picks, the best-fit curves and the
- * followed ridge over it.
+ * followed ridge over it. The best fit is the layered estimate's Love and
+ * Rayleigh curves when there is one (drawn as the picks plot draws them,
+ * curve-style.ts: colour and line style by wave, thin and faint when the
+ * estimate is not resolved), else the one-layer model's Love curves.
  *
  * Colour: power 0–1 on an own ramp (deep blue-green through sand to a
  * bright yellow); cells marked marginal are washed towards grey and
@@ -21,7 +24,8 @@ import { MARGINAL, UNRELIABLE, type DispersionImage } from '../../../core/signal
 import type { Ridge } from '../../../core/signal/ridge';
 import type { PlotSettings } from '../controllers/app-state';
 import { logBand } from '../../../core/dispersion/curve';
-import { curveColumns } from './chart-data';
+import { computedColumns, curveColumns, type ComputedCurves } from './chart-data';
+import { curveDash, faded, modeColour, palette } from './curve-style';
 
 export interface DispersionImageProps {
   image: DispersionImage;
@@ -30,6 +34,8 @@ export interface DispersionImageProps {
   removed: readonly number[];
   picks: readonly PickRecord[];
   model?: LayeredModel;
+  /** The layered estimate's best-fit curves (computed in the worker), drawn instead of `model`'s; `unsupported`: thin and faint. */
+  computed?: ComputedCurves & { unsupported?: boolean };
   settings: PlotSettings;
   theme: string;
   onTap: (frequency: number, velocity: number) => void;
@@ -128,8 +134,13 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
   const drag = useRef<{ end: 'low' | 'high'; x: number } | null>(null);
   const { image, settings } = props;
 
+  const layered = useMemo(() => {
+    if (!props.computed) return null;
+    return computedColumns(props.computed, [], settings.axis, image.method === 'phase-shift' ? 'phase' : 'group');
+  }, [props.computed, image, settings.axis]);
+
   const curves = useMemo(() => {
-    if (!props.model) return null;
+    if (!props.model || props.computed) return null;
     const f = image.frequencies;
     const band = logBand(Math.max(f[0], 0.1), f[f.length - 1], 160);
     const kind = image.method === 'phase-shift' ? 'phase' : 'group';
@@ -138,7 +149,7 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
     } catch {
       return null;
     }
-  }, [props.model, image, settings.axis]);
+  }, [props.model, props.computed, image, settings.axis]);
 
   useEffect(() => {
     const c = canvas.current;
@@ -276,6 +287,40 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
         }
         ctx.setLineDash([]);
       }
+      // The layered best fit: each wave and mode as the picks plot draws it, over a light edge; faint when unsupported.
+      if (layered) {
+        const pal = palette(c);
+        const faint = !!props.computed?.unsupported;
+        layered.keys.forEach((k, n) => {
+          const col = layered.y[n];
+          const colour = k.wave === 'rayleigh' ? pal.rayleigh : modeColour(pal, k.mode);
+          const width = faint ? 1.25 : k.mode === 0 ? 2.5 : 1.75;
+          for (const [stroke, w] of [
+            [faint ? 'rgba(255,255,255,0.35)' : 'rgba(255,255,255,0.85)', width + 2],
+            [faint ? faded(colour) : colour, width],
+          ] as const) {
+            ctx.strokeStyle = stroke;
+            ctx.lineWidth = w;
+            ctx.setLineDash(curveDash(k.wave, k.kind) ?? []);
+            ctx.beginPath();
+            let pen = false;
+            for (let i = 0; i < layered.x.length; i++) {
+              const y = col[i];
+              if (!Number.isFinite(y)) {
+                pen = false;
+                continue;
+              }
+              const X = xOf(fr, fr.axis === 'frequency' ? layered.x[i] : 1 / layered.x[i]);
+              const Y = yOf(fr, y);
+              if (pen) ctx.lineTo(X, Y);
+              else ctx.moveTo(X, Y);
+              pen = true;
+            }
+            ctx.stroke();
+          }
+        });
+        ctx.setLineDash([]);
+      }
       // The site's picks of this image's kind: white rings.
       const kind = image.method === 'phase-shift' ? 'phase' : 'group';
       for (const p of props.picks) {
@@ -332,7 +377,7 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
     const observer = typeof ResizeObserver !== 'undefined' ? new ResizeObserver(() => draw()) : undefined;
     observer?.observe(c);
     return () => observer?.disconnect();
-  }, [image, props.ridge, props.range, props.removed, props.picks, curves, settings, props.theme]);
+  }, [image, props.ridge, props.range, props.removed, props.picks, curves, layered, props.computed?.unsupported, settings, props.theme]);
 
   const local = (e: PointerEvent) => {
     const r = (e.currentTarget as HTMLCanvasElement).getBoundingClientRect();

@@ -26,6 +26,7 @@ import {
   type PickColumns,
   type PlotPick,
 } from './chart-data';
+import { curveDash, faded, modeColour, palette, type Palette } from './curve-style';
 
 export interface PlotInput {
   picks: readonly PlotPick[];
@@ -50,48 +51,9 @@ export interface PlotInput {
   theme: string;
 }
 
-/** Plot colours, read from the page's CSS variables so both themes apply. */
-interface Palette {
-  modes: string[];
-  text: string;
-  grid: string;
-  select: string;
-  cutoff: string;
-  /** Rayleigh picks (told apart from Love by shape as well). */
-  rayleigh: string;
-}
-
-function palette(el: HTMLElement): Palette {
-  const cs = getComputedStyle(el);
-  const v = (name: string, fallback: string) => cs.getPropertyValue(name).trim() || fallback;
-  return {
-    modes: [v('--mode-0', '#0b4fa8'), v('--mode-1', '#b04a00'), v('--mode-2', '#6b2fa0'), v('--mode-3', '#00695c')],
-    text: v('--ink', '#111'),
-    grid: v('--grid', '#ccc'),
-    select: v('--select', '#d00'),
-    cutoff: v('--ink-soft', '#555'),
-    rayleigh: v('--rayleigh', '#8a4f00'),
-  };
-}
-
-/** Colour of a mode, cycling the palette. */
-export function modeColour(p: { modes: string[] }, mode: number): string {
-  return p.modes[mode % p.modes.length];
-}
-
 function signature(input: PlotInput, keys: readonly CurveKey[], hasModel: boolean, hasCompare = false): string {
   const k = keys.map((c) => `${(c as Partial<ComputedKey>).wave ?? ''}${c.mode}${c.kind}`).join(',');
   return [input.axis, input.xLog, input.yLog, input.theme, hasModel, hasCompare, !!input.computed?.unsupported, k].join('|');
-}
-
-/**
- * Dash pattern of a curve, so Love and Rayleigh curves differ by line style
- * as well as colour: Love group solid, Love phase dashed; Rayleigh phase
- * dash-dot, Rayleigh group dash-dot-dot.
- */
-export function curveDash(wave: 'love' | 'rayleigh', kind: 'phase' | 'group'): number[] | undefined {
-  if (wave === 'rayleigh') return kind === 'phase' ? [12, 4, 2, 4] : [12, 4, 2, 4, 2, 4];
-  return kind === 'phase' ? [8, 5] : undefined;
 }
 
 /** Whether two bands hold the same frequencies (so their curves share the x column). */
@@ -99,11 +61,6 @@ function sameBand(a: Float64Array, b: Float64Array): boolean {
   if (a.length !== b.length) return false;
   for (let i = 0; i < a.length; i++) if (a[i] !== b[i]) return false;
   return true;
-}
-
-/** A colour at half strength (for curves the data do not support). */
-function faded(colour: string): string {
-  return /^#[0-9a-f]{6}$/i.test(colour) ? `${colour}80` : colour;
 }
 
 /** NaN → null, as uPlot draws gaps only at null. */

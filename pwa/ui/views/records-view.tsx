@@ -14,6 +14,7 @@ import type { EstimateState, PlotSettings } from '../controllers/app-state';
 import type { RecordsController, RecordsState } from '../controllers/records-controller';
 import type { RidgeController } from '../controllers/ridge-controller';
 import { DispersionImageCanvas } from '../charts/dispersion-image';
+import type { ComputedCurves } from '../charts/chart-data';
 import '../styles/records.css';
 
 export interface RecordsViewProps {
@@ -24,6 +25,10 @@ export interface RecordsViewProps {
   picks: readonly PickRecord[];
   model?: LayeredModel;
   estimate: EstimateState;
+  /** The layered estimate's best-fit curves (Love and/or Rayleigh), drawn on the image instead of the one-layer model's; `unsupported`: thin and faint. */
+  layered?: ComputedCurves & { unsupported?: boolean };
+  /** The layered best fit's caption (verdict words; "for reference only" when not resolved). */
+  layeredCaption?: string;
   plot: PlotSettings;
   theme: string;
   /** The files: reading, keeping, geometry. */
@@ -34,6 +39,15 @@ export interface RecordsViewProps {
 }
 
 const fmt = (x: number, digits = 3) => String(Number(x.toPrecision(digits)));
+
+/** The line styles of the layered best fit's waves, in words (the image shows one kind of velocity). */
+function layeredKey(c: ComputedCurves): string {
+  const waves = new Set(c.curves.map((w) => w.wave));
+  const parts: string[] = [];
+  if (waves.has('love')) parts.push('Love: mode colours, solid for group velocity, dashed for phase');
+  if (waves.has('rayleigh')) parts.push('Rayleigh: its own colour, dash-dot for phase velocity, dash-dot-dot for group');
+  return `— Layered best-fit curves (${parts.join('; ')}).`;
+}
 
 export function RecordsView(p: RecordsViewProps) {
   const s = p.state;
@@ -218,6 +232,7 @@ export function RecordsView(p: RecordsViewProps) {
                 removed={s.removed}
                 picks={p.picks}
                 model={p.model}
+                computed={p.layered}
                 settings={p.plot}
                 theme={p.theme}
                 onTap={(f, v) => void p.ridge.tap(f, v)}
@@ -225,7 +240,11 @@ export function RecordsView(p: RecordsViewProps) {
               />
               <figcaption>
                 <span class="key key-ridge">◆ ridge points</span> <span class="key">○ the site's {s.image.method === 'phase-shift' ? 'phase' : 'group'} picks</span>{' '}
-                {result ? (
+                {p.layered ? (
+                  <span class="key" data-testid="record-layered-fit" data-unsupported={String(!!p.layered.unsupported)}>
+                    {layeredKey(p.layered)} {p.layeredCaption} {CAUTION}
+                  </span>
+                ) : result ? (
                   <span
                     class="key"
                     data-testid="record-fit"

@@ -38,6 +38,18 @@ describe('computed curves on the plot', () => {
     expect([...c.y[2]]).toEqual([NaN, NaN, 260]);
   });
 
+  it('lays out only the kind a dispersion image shows when asked, for every wave', () => {
+    const picks = [{ frequency: 3, velocity: 260, kind: 'phase' as const, mode: 0, wave: 'love' as const }];
+    const c = computedColumns(curves, picks, 'frequency', 'group');
+    expect(c.keys).toEqual([
+      { wave: 'love', mode: 0, kind: 'group' },
+      { wave: 'rayleigh', mode: 0, kind: 'group' },
+      { wave: 'rayleigh', mode: 1, kind: 'group' },
+    ]);
+    expect([...c.y[1]]).toEqual([270, 210, 170]);
+    expect([...c.y[2]]).toEqual([NaN, NaN, 230]);
+  });
+
   it('lays the columns out in ascending period when the plot is against period', () => {
     const c = computedColumns(curves, [], 'period');
     expect([...c.x]).toEqual([1 / 8, 1 / 4, 1 / 2]);
