@@ -13,7 +13,10 @@
  *  2. local refinement of the best few separate samples by
  *     Levenberg–Marquardt (core/numeric/levenberg-marquardt.ts) on the exact
  *     forward step (profile-forward.ts): the best is the fit, the others
- *     are alternatives when they fit within Δχ² = 3.84;
+ *     are alternatives when they fit within Δχ² = 3.84. Steps 1–2 run the
+ *     forward step in its screening form (Rayleigh roots tracked along
+ *     frequency under a low-velocity layer too); the χ² of each refined
+ *     fit, and everything below, comes from the verified form;
  *  3. appraisal by a Metropolis random walk around the fit (appraisal.ts):
  *     per-parameter central 68.27 % and 95 % intervals, the band, Vs30 and
  *     site classes over that ensemble. When the fit is poor (χ² above its
@@ -257,15 +260,20 @@ function projector(L: Layout): (p: Float64Array) => void {
   };
 }
 
-/** Largest change of any log parameter (about 10 %) for which the previous model's roots start the next solve. */
-const WARM_DISTANCE = 0.1;
-
 class Misfit {
   private readonly predicted: Float64Array;
   /** Each pick's root of the last model evaluated, and that model's parameters (warm starts, profile-forward.ts). */
   private readonly guesses: Float64Array;
   private readonly last: Float64Array;
   private hasLast = false;
+  /** Whether the last model's roots were screened (not verified against a pair below, profile-forward.ts). */
+  private lastScreened = false;
+  /**
+   * Screening forward step (profile-forward.ts): Rayleigh roots of a model with a low-velocity layer
+   * tracked along frequency, not each verified by the full scan. On for the search's samples and the
+   * steps of Levenberg–Marquardt only: each refined fit's χ² and everything after is verified.
+   */
+  screening = false;
   evaluations = 0;
   constructor(
     private readonly P: Problem,
@@ -285,11 +293,13 @@ class Misfit {
     }
     // How far the model moved since the last one (the largest change of a log parameter).
     let spread = this.hasLast ? 0 : Infinity;
-    for (let j = 0; j < this.L.k && spread <= WARM_DISTANCE; j++) spread = Math.max(spread, Math.abs(u[j] - this.last[j]));
-    if (!(spread <= WARM_DISTANCE)) this.guesses.fill(NaN);
-    predictPicks(this.P.picks, m, this.predicted, this.guesses, spread);
+    for (let j = 0; j < this.L.k; j++) spread = Math.max(spread, Math.abs(u[j] - this.last[j]));
+    // Roots of a screened model never start a verified solve.
+    if (!this.hasLast || (this.lastScreened && !this.screening)) this.guesses.fill(NaN);
+    predictPicks(this.P.picks, m, this.predicted, this.guesses, spread, this.screening);
     for (let j = 0; j < this.L.k; j++) this.last[j] = u[j];
     this.hasLast = true;
+    this.lastScreened = this.screening;
     for (let i = 0; i < this.P.n; i++) {
       const r = (this.P.v[i] - this.predicted[i]) / this.P.sd[i];
       out[i] = Number.isFinite(r) ? r : FAILED_RESIDUAL;
@@ -328,6 +338,7 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
   const u = new Float64Array(L.k);
   const uniform = mulberry32(seed);
   let since = 0;
+  misfit.screening = true;
   const ensemble = neighbourhoodSearch(
     L.k,
     (x) => {
@@ -387,15 +398,18 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
       project,
     );
     tick(misfit.evaluations - before);
+    misfit.screening = false;
     const chi2 = misfit.chi2(out.p, scratch);
+    misfit.screening = true;
     if (Number.isFinite(chi2)) fits.push({ u: out.p, chi2, normal: out.normal });
   }
+  misfit.screening = false;
   if (fits.length === 0) {
     // Every refinement left the physical domain: keep the best sample itself.
     const b = order[0];
     const ub = new Float64Array(L.k);
     for (let j = 0; j < L.k; j++) ub[j] = L.lower[j] + ensemble.points[b * L.k + j] * (L.upper[j] - L.lower[j]);
-    fits.push({ u: ub, chi2: ensemble.misfit[b], normal: new Float64Array(L.k * L.k) });
+    fits.push({ u: ub, chi2: misfit.chi2(ub, scratch), normal: new Float64Array(L.k * L.k) });
   }
   fits.sort((a, b) => a.chi2 - b.chi2);
   const minima: Fit[] = [];
@@ -765,6 +779,9 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
   const method =
     `Maximum likelihood for Gaussian pick errors over ${N} layer${N > 1 ? 's' : ''} over a half-space (log thickness and shear speed, search box from the picks). ` +
     `Global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479; ${F.ensemble.count} models), Levenberg–Marquardt refinement of the best separate samples and of two wavelength–depth starts, ` +
+    (P.waves.rayleigh > 0
+      ? 'the Rayleigh roots of the search samples and refinement steps tracked along frequency even under a low-velocity layer (a screen: each refined fit, the ensemble and the best fit have every root verified by the full scan), '
+      : '') +
     `then a Metropolis random walk around the fit (${chain.count} models kept, seed ${seed}) for the 68 %/95 % intervals, the depth band, Vs30 and the site classes` +
     (poorFit ? `, tempered by χ²/dof = ${round(scale)} because the fit is poor.` : '.') +
     ` Forward step: ${P.waves.love > 0 ? 'Love waves by the Thomson–Haskell propagator, group velocity from the energy integrals' : ''}` +

@@ -48,7 +48,7 @@ async function timed(name: string, picks: Pick[], options: ProfileOptions, sampl
   const per = (key: keyof typeof forwardWork) => Math.round((forwardWork[key] - before[key]) / calls);
   r.note =
     `Node, one thread (as in the worker); NA search for N = 1…${options.layers}, LM refinement, ensemble, band, Vs30; ` +
-    `per call ${per('models')} models, ${per('fullSolves')} roots solved in full, ${per('warmSolves') - per('warmMisses')} tracked or warm`;
+    `per call ${per('models')} models (${per('screenedModels')} screened), ${per('fullSolves')} roots solved in full, ${per('warmSolves') - per('warmMisses')} tracked or warm`;
   return r;
 }
 

@@ -15,6 +15,8 @@ import { estimateProfile, type ProfileOptions } from '../../../../core/profile/p
 import { profileJson } from '../../../../core/profile/profile-json';
 import { mulberry32 } from '../../../../core/shared/random';
 import { vpFromPoisson } from '../../../../core/profile/p-speed';
+import { WAVE_FORWARDS } from '../../../../core/profile/profile-forward';
+import type { LayeredModel } from '../../../../core/dispersion/model';
 import { INVENTED_TWO_LAYER_SITE, layeredPicks } from '../../../fixtures';
 import { inputError } from '../../../input-error';
 
@@ -114,6 +116,36 @@ describe('Rayleigh picks, alone and with Love picks', () => {
     expect(Math.abs(r.profile.layers[0].thickness.best - 5) / 5).toBeLessThan(1e-3);
     expect(r.warnings[0]).toMatch(/^P speeds come from an assumed Poisson's ratio of 0\.3 \(the default/);
     expect(r.method).toMatch(/Thomson–Haskell.*compound-matrix secular function \(Dunkin 1965\)/);
+  });
+
+  it('under a low-velocity layer keeps only verified misfits: the χ² and each predicted pick are those of the full root scan, though the search screened its samples by tracking', () => {
+    // Invented site: a stiff crust over a soft layer over rock (ν = 0.3), 14 noisy Rayleigh picks 3–50 Hz.
+    const crust: LayeredModel = {
+      layers: [
+        { thickness: 3, vs: 300, density: 1800 },
+        { thickness: 6, vs: 150, density: 1800 },
+      ],
+      halfspace: { vs: 500, density: 2100 },
+    };
+    const vpCrust = [300, 150, 500].map((v) => vpFromPoisson(v, 0.3));
+    const picks = layeredPicks(crust, 'rayleigh', 14, 3, 50, mulberry32(7), vpCrust);
+    const r = estimateProfile(picks, { ...quick, poisson: 0.3, effort: { iterations: 6, chainSteps: 300, burnIn: 100 } });
+    const [top, soft] = r.profile.layers;
+    expect(soft.vs.best).toBeLessThan(top.vs.best); // the fit has the low-velocity layer, where screening and verification differ
+    const engine = WAVE_FORWARDS.rayleigh!({
+      layers: r.profile.layers.map((l) => ({ thickness: l.thickness.best, vs: l.vs.best, vp: l.vp, density: l.density })),
+      halfspace: { vs: r.profile.halfspace.vs.best, vp: r.profile.halfspace.vp, density: r.profile.halfspace.density },
+    });
+    let chi2 = 0;
+    picks.forEach((p, i) => {
+      const omega = 2 * Math.PI * p.frequency;
+      const c = engine.phase(omega, 0);
+      const want = p.kind === 'phase' ? c : engine.group(omega, 0, c);
+      expect(Math.abs(r.pickFit.predicted[i] - want) / want, `pick ${i + 1}`).toBeLessThan(1e-8);
+      chi2 += ((p.velocity - want) / p.sd!) ** 2;
+    });
+    expect(Math.abs(r.chi2 - chi2)).toBeLessThan(1e-6 * Math.max(1, chi2));
+    expect(r.method).toMatch(/tracked along frequency even under a low-velocity layer \(a screen: each refined fit, the ensemble and the best fit have every root verified by the full scan\)/);
   });
 
   it('keeps P at 1500 m/s or more below a given water table (common practice)', () => {
