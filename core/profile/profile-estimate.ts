@@ -23,7 +23,10 @@
  *     95 % point for the degrees of freedom) the likelihood is tempered by
  *     χ²/dof, as the one-layer estimate scales its Δχ² levels;
  *  4. model choice by BIC (Schwarz 1978) over the layer counts tried
- *     (BIC_NOT_WORTH_MENTIONING).
+ *     (BIC_NOT_WORTH_MENTIONING). A fit worse than the pick errors allow is
+ *     searched again: by fresh samples for a count that may be reported,
+ *     by refinement from the fit of one more layer with one interface
+ *     removed (nestedStarts) for a smaller count that is only compared.
  * The P speeds that Rayleigh waves need come from p-speed.ts; densities are
  * fixed (defaults common practice). Randomness is seeded (core/shared/random.ts),
  * so a given seed gives the same result.
@@ -368,8 +371,6 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
     });
     if (far) starts.push(i);
   }
-  const project = projector(L);
-  const fits: Fit[] = [];
   const p0s: Float64Array[] = starts.map((s) => {
     const p0 = new Float64Array(L.k);
     for (let j = 0; j < L.k; j++) p0[j] = L.lower[j] + ensemble.points[s * L.k + j] * (L.upper[j] - L.lower[j]);
@@ -378,14 +379,35 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
   // Starts that do not depend on the search's luck (profile-starts.ts), refined first: they most
   // often reach the deepest basin, and a later start that arrives at a minimum already found stops there.
   p0s.unshift(...DEPTHS_PER_WAVELENGTH.map((d) => wavelengthDepthStart(P.v, P.frequency, layers, L.lower, L.upper, d)));
+  const fits = refine(P, L, misfit, p0s, [], tick);
+  if (fits.length === 0) {
+    // Every refinement left the physical domain: keep the best sample itself.
+    const b = order[0];
+    const ub = new Float64Array(L.k);
+    for (let j = 0; j < L.k; j++) ub[j] = L.lower[j] + ensemble.points[b * L.k + j] * (L.upper[j] - L.lower[j]);
+    fits.push({ u: ub, chi2: misfit.chi2(ub, scratch), normal: new Float64Array(L.k * L.k) });
+  }
+  return { layout: L, misfit, ensemble, minima: distinctMinima(fits, L.k) };
+}
+
+/**
+ * Levenberg–Marquardt from each start (the steps screened, the χ² of each
+ * end point verified); a start stops early at a minimum already in `known`
+ * or found before it. Returns the refined fits (those inside the physical domain).
+ */
+function refine(P: Problem, L: Layout, misfit: Misfit, p0s: readonly Float64Array[], known: readonly Fit[], tick: (units: number) => void): Fit[] {
+  const scratch = new Float64Array(P.n);
+  const project = projector(L);
+  const fits: Fit[] = [];
   const found = (p: Float64Array, chi2: number) =>
-    fits.some((f) => {
+    [...known, ...fits].some((f) => {
       if (chi2 < f.chi2) return false;
       for (let j = 0; j < L.k; j++) if (Math.abs(f.u[j] - p[j]) >= SAME_MINIMUM) return false;
       return true;
     });
   for (const p0 of p0s) {
     const before = misfit.evaluations;
+    misfit.screening = true;
     const out = levenbergMarquardt(
       (p, r) => {
         misfit.residuals(p, r);
@@ -400,28 +422,62 @@ function fitLayers(P: Problem, layers: number, effort: ProfileEffort, seed: numb
     tick(misfit.evaluations - before);
     misfit.screening = false;
     const chi2 = misfit.chi2(out.p, scratch);
-    misfit.screening = true;
     if (Number.isFinite(chi2)) fits.push({ u: out.p, chi2, normal: out.normal });
   }
   misfit.screening = false;
-  if (fits.length === 0) {
-    // Every refinement left the physical domain: keep the best sample itself.
-    const b = order[0];
-    const ub = new Float64Array(L.k);
-    for (let j = 0; j < L.k; j++) ub[j] = L.lower[j] + ensemble.points[b * L.k + j] * (L.upper[j] - L.lower[j]);
-    fits.push({ u: ub, chi2: misfit.chi2(ub, scratch), normal: new Float64Array(L.k * L.k) });
-  }
-  fits.sort((a, b) => a.chi2 - b.chi2);
+  return fits;
+}
+
+/** The fits best first, without those within SAME_MINIMUM of a better one. */
+function distinctMinima(fits: readonly Fit[], k: number): Fit[] {
+  const sorted = [...fits].sort((a, b) => a.chi2 - b.chi2);
   const minima: Fit[] = [];
-  for (const f of fits) {
+  for (const f of sorted) {
     const dup = minima.some((m) => {
       let far = 0;
-      for (let j = 0; j < L.k; j++) far = Math.max(far, Math.abs(m.u[j] - f.u[j]));
+      for (let j = 0; j < k; j++) far = Math.max(far, Math.abs(m.u[j] - f.u[j]));
       return far < SAME_MINIMUM;
     });
     if (!dup) minima.push(f);
   }
-  return { layout: L, misfit, ensemble, minima };
+  return minima;
+}
+
+/**
+ * Starts for N layers from a fit of N + 1 (nested models): each interface
+ * removed in turn, the two layers it parted merged into one of their
+ * total thickness and travel-time average speed (h₁ + h₂)/(h₁/β₁ + h₂/β₂),
+ * the deepest interface removed by dropping the deepest layer; clipped to the box.
+ */
+function nestedStarts(deeper: Fit, N: number, L: Layout): Float64Array[] {
+  const M = N + 1;
+  const h = Array.from({ length: M }, (_, j) => Math.exp(deeper.u[j]));
+  const b = Array.from({ length: M }, (_, j) => Math.exp(deeper.u[M + j]));
+  const starts: Float64Array[] = [];
+  for (let cut = 0; cut < M; cut++) {
+    const hs: number[] = [];
+    const bs: number[] = [];
+    for (let j = 0; j < M; j++) {
+      if (j === cut + 1) continue;
+      if (j === cut && cut + 1 < M) {
+        hs.push(h[j] + h[j + 1]);
+        bs.push((h[j] + h[j + 1]) / (h[j] / b[j] + h[j + 1] / b[j + 1]));
+      } else if (j !== cut || cut + 1 < M) {
+        hs.push(h[j]);
+        bs.push(b[j]);
+      }
+    }
+    const p0 = new Float64Array(L.k);
+    for (let j = 0; j < N; j++) {
+      p0[j] = Math.log(hs[j]);
+      p0[N + j] = Math.log(bs[j]);
+    }
+    p0[2 * N] = deeper.u[2 * M];
+    for (let j = 0; j < L.k; j++) p0[j] = Math.min(L.upper[j], Math.max(L.lower[j], p0[j]));
+    projector(L)(p0);
+    starts.push(p0);
+  }
+  return starts;
 }
 
 // ---------------------------------------------------------------- appraisal
@@ -525,14 +581,21 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
   };
   progress?.(0);
 
-  // 1–2. Search and refine each layer count.
+  // 1–2. Search and refine each layer count, the most layers first (a smaller count only compared
+  // is then searched again, when it fits poorly, from the larger count's fit: nestedStarts).
   const fits = new Map<number, LayerFit>();
-  for (const N of usable) {
+  for (const N of [...usable].reverse()) {
     let fit = fitLayers(P, N, efforts.get(N)!, seed + 7919 * N, tick);
     // A fit the picks' errors cannot explain may be a local minimum the search settled in:
-    // search once more with fresh samples and keep the better (the misfit decides, nothing else).
+    // search once more and keep the better (the misfit decides, nothing else).
     const dofN = P.n - (2 * N + 1);
-    if (dofN > 0 && fit.minima[0].chi2 > chi2Upper95(dofN)) {
+    const larger = fits.get(N + 1);
+    if (dofN > 0 && fit.minima[0].chi2 > chi2Upper95(dofN) && layersOption !== 'auto' && N < most && larger) {
+      // Only compared: refine from the (N + 1)-layer fit with one interface removed in turn.
+      const more = refine(P, fit.layout, fit.misfit, nestedStarts(larger.minima[0], N, fit.layout), fit.minima, tick);
+      fit.minima = distinctMinima([...fit.minima, ...more], fit.layout.k);
+    } else if (dofN > 0 && fit.minima[0].chi2 > chi2Upper95(dofN)) {
+      // Fresh samples.
       const again = fitLayers(P, N, efforts.get(N)!, seed + 7919 * N + 104729, tick);
       if (again.minima[0].chi2 < fit.minima[0].chi2) {
         again.minima.push(...fit.minima);
@@ -775,7 +838,10 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
 
   const criterion =
     `Bayesian information criterion BIC = χ² + k·ln n (Schwarz 1978, Ann. Stat. 6:461), k = 2N + 1 free parameters, n = ${P.n} picks; ` +
-    `the smallest N within ${BIC_NOT_WORTH_MENTIONING} of the least BIC is recommended (Kass & Raftery 1995).`;
+    `the smallest N within ${BIC_NOT_WORTH_MENTIONING} of the least BIC is recommended (Kass & Raftery 1995).` +
+    (layersOption === 'auto' || usable.length < 2
+      ? ''
+      : ` Each N is searched by the neighbourhood algorithm; a smaller N that fits worse than the pick errors allow is refined again from the best fit of one more layer with each interface removed in turn (nested models).`);
   const method =
     `Maximum likelihood for Gaussian pick errors over ${N} layer${N > 1 ? 's' : ''} over a half-space (log thickness and shear speed, search box from the picks). ` +
     `Global search by the neighbourhood algorithm (Sambridge 1999, GJI 138:479; ${F.ensemble.count} models), Levenberg–Marquardt refinement of the best separate samples and of two wavelength–depth starts, ` +
