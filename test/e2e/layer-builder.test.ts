@@ -22,7 +22,7 @@ import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { INVENTED_TWO_LAYER_SITE, typedRayleighPicksCsv } from '../fixtures';
-import { ARTIFACT_DIR, openApp, reload, REPO_ROOT, setOffline, VIEWPORTS, waitForServiceWorkerControl, type AppSession } from './harness';
+import { ARTIFACT_DIR, nextPaint, openApp, reload, REPO_ROOT, setOffline, VIEWPORTS, waitForServiceWorkerControl, type AppSession } from './harness';
 
 const SITE = 'E2E builder terrace (invented)';
 const M = INVENTED_TWO_LAYER_SITE;
@@ -141,6 +141,37 @@ describe('the layer builder in Chromium, offline', () => {
     await page.waitForFunction(() => (document.getElementById('lb-1-p') as HTMLInputElement | null)?.value === '598.7', undefined, { timeout: 10_000 });
     await page.getByTestId('builder-misfit').waitFor({ timeout: 15_000 });
     expect(await page.getByTestId('builder-errors').count()).toBe(0);
+
+    // Tablets, landscape and portrait: with a long form (five layers), the plot sits at the top of its column (landscape)
+    // or above the form (portrait), and stays wholly in view while the last rows are edited.
+    for (let i = 0; i < 3; i++) await page.getByRole('button', { name: 'Add a layer' }).click();
+    await page.getByTestId('builder-row-5').waitFor();
+    for (const size of [{ width: 1280, height: 800 }, { width: 800, height: 1280 }]) {
+      await page.setViewportSize(size);
+      await page.evaluate(() => window.scrollTo(0, 0));
+      await nextPaint(page);
+      const at = () =>
+        page.evaluate(() => {
+          const plot = document.querySelector('.split > .plot-panel')!.getBoundingClientRect();
+          const form = document.querySelector('.split > .panel.builder')!.getBoundingClientRect();
+          return { plotTop: plot.top, plotBottom: plot.bottom, plotLeft: plot.left, formTop: form.top, formBottom: form.bottom, formRight: form.right, vh: innerHeight };
+        });
+      const top = await at();
+      const where = `${size.width}×${size.height}`;
+      if (size.width > size.height) {
+        expect(top.plotLeft, `${where}: the plot beside the form`).toBeGreaterThanOrEqual(top.formRight);
+        expect(Math.abs(top.plotTop - top.formTop), `${where}: the plot at the top of its column`).toBeLessThanOrEqual(2);
+      } else {
+        expect(top.plotBottom, `${where}: the plot above the form`).toBeLessThanOrEqual(top.formTop);
+      }
+      await page.getByLabel('Half-space density (kg/m³)', { exact: true }).scrollIntoViewIfNeeded();
+      await page.getByLabel('Half-space density (kg/m³)', { exact: true }).focus();
+      await nextPaint(page);
+      const editing = await at();
+      expect(editing.formTop, `${where}: the form scrolled`).toBeLessThan(0);
+      expect(editing.plotTop, `${where}: the plot in view while editing`).toBeGreaterThanOrEqual(0);
+      expect(editing.plotBottom, `${where}: the plot in view while editing`).toBeLessThanOrEqual(editing.vh);
+    }
     expect(pageErrors).toEqual([]);
   }, 60_000);
 });

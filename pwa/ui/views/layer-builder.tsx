@@ -126,7 +126,7 @@ export function LayerBuilderView(props: LayerBuilderProps) {
         <Caution />
         <p class="hint">
           Type a model of up to {MAX_BUILDER_LAYERS} layers over a half-space to see its curves against the picks. The model is kept
-          with the site on this device as soon as every value passes the checks.
+          with the site as soon as every value passes the checks, and goes with it to the office and in bundles.
         </p>
         <div class="row-form" role="group" aria-label="Start from">
           <button type="button" disabled={!props.hasProfile} onClick={() => layered.startFrom('profile')}>
