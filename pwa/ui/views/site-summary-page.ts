@@ -2,13 +2,15 @@
  * A one-page site summary the crew can print or save as PDF from the tablet
  * (the browser's print dialog also shares on most tablets): the site, the
  * thickness with its verdict and intervals, the site figures, a small plot of
- * the picks with the best-fit curves, the picks, and the caution. Built with
+ * the picks with the best-fit curves, the picks, the layer builder's model
+ * when the site has one (typed by the crew, not fitted), and the caution. Built with
  * DOM calls only (text is set as text, never parsed as markup), in a page of
  * its own, so it works offline.
  */
 import { CAUTION } from '../../../core/shared/caution';
 import type { EstimateResult } from '../../../core/estimate/estimate';
-import type { PickRecord, SiteRecord } from '../../../core/exchange/records';
+import type { PickRecord, SiteLayeredModel, SiteRecord } from '../../../core/exchange/records';
+import { poissonRatio } from '../../../core/dispersion/model';
 import type { SiteFigures } from '../../../core/site/site';
 import { curveColumns, curveKeysOf, plotBand } from '../charts/chart-data';
 import { num } from './format';
@@ -82,6 +84,23 @@ function plotSvg(doc: Document, picks: readonly PickRecord[], r: EstimateResult 
   add('text', { x: '4', y: '16', 'font-size': '11' }, `${num(v1)} m/s`);
   add('text', { x: '4', y: String(H - B), 'font-size': '11' }, `${num(v0)} m/s`);
   return svg;
+}
+
+/** The columns of the layer builder's model table. */
+export const MODEL_COLUMNS = ['', 'Thickness (m)', 'Shear speed (m/s)', 'P speed (m/s)', "Poisson's ratio", 'Density (kg/m³)'] as const;
+
+/**
+ * The layer builder's model as table rows (MODEL_COLUMNS): each layer, then
+ * the half-space (no thickness); the P speed and the Poisson's ratio it
+ * gives (ν = (r² − 2)/(2(r² − 1)), r = vp/vs), or "—" where the model has no
+ * P speeds (Love waves only).
+ */
+export function modelRows(m: SiteLayeredModel): string[][] {
+  const p = (vs: number, vp: number | undefined): [string, string] => (vp === undefined ? ['—', '—'] : [num(vp), String(Number(poissonRatio(vp, vs).toPrecision(3)))]);
+  const rows = m.model.layers.map((l, i) => [`Layer ${i + 1}`, num(l.thickness_m), num(l.vs_m_s), ...p(l.vs_m_s, l.vp_m_s), num(l.density_kg_m3)]);
+  const h = m.model.halfspace;
+  rows.push(['Half-space', '—', num(h.vs_m_s), ...p(h.vs_m_s, h.vp_m_s), num(h.density_kg_m3)]);
+  return rows;
 }
 
 /** Fills `doc` with the summary of one site. */
@@ -162,6 +181,18 @@ export function buildSiteSummary(doc: Document, site: SiteRecord, picks: readonl
     pt.append(row);
   });
   body.append(el('h2', 'Picks'), pt);
+  if (site.layeredModel) {
+    const mt = el('table');
+    const mh = el('tr');
+    for (const h of MODEL_COLUMNS) mh.append(el('th', h));
+    mt.append(mh);
+    for (const r of modelRows(site.layeredModel)) {
+      const row = el('tr');
+      row.append(el('th', r[0]), ...r.slice(1).map((c) => el('td', c)));
+      mt.append(row);
+    }
+    body.append(el('h2', "Layer builder model (typed by the crew, not fitted to the picks)"), mt);
+  }
   const caution = el('p', undefined, 'caution');
   caution.append(el('strong', 'Caution. '), doc.createTextNode(CAUTION));
   body.append(caution);

@@ -4,7 +4,8 @@
  * travel, a raw file only where its site chose to send it, and the files
  * arrive byte for byte; importing again duplicates nothing; a file changed
  * after export is refused and nothing is written. The files are invented
- * SEG-2 records written by the core's writer.
+ * SEG-2 records written by the core's writer. A site's layer builder model travels
+ * with it, and a bundle with a bad model value changes nothing.
  */
 import 'fake-indexeddb/auto';
 import { afterEach, describe, expect, it } from 'vitest';
@@ -81,5 +82,41 @@ describe('bundles with seismograph files', () => {
     expect(await b.listSites()).toEqual([]);
     expect(await b.allRecordings()).toEqual([]);
     expect(await b.outbox()).toEqual([]);
+  });
+});
+
+describe('bundles with a layer builder model', () => {
+  const layeredModel = {
+    model: { layers: [{ thickness_m: 6, vs_m_s: 190, density_kg_m3: 1800, vp_m_s: 400 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100, vp_m_s: 1700 } },
+    pInput: 'vp' as const,
+    waves: { love: true, rayleigh: true },
+    modes: 2,
+  };
+
+  it('carries the site\'s model to another tablet unchanged', async () => {
+    const a = await tablet();
+    const site = await a.saveSite(newSite({ name: 'Invented site: with a model', layeredModel }));
+    const b = await tablet();
+    const outcome = await importBundleText(b, (await exportBundle(a)).text);
+    expect(outcome.ok).toBe(true);
+    expect((await b.getSite(site.id))!.layeredModel).toEqual(layeredModel);
+  });
+
+  it('refuses a bundle whose model has a bad value, naming the layer and field, and leaves the stored site as it was', async () => {
+    const a = await tablet();
+    const site = await a.saveSite(newSite({ name: 'Invented site: with a model', layeredModel }));
+    const b = await tablet();
+    expect((await importBundleText(b, (await exportBundle(a)).text)).ok).toBe(true);
+    const before = await b.getSite(site.id);
+    const data = JSON.parse((await exportBundle(a)).text);
+    data.sites[0].rev = 2;
+    data.sites[0].layeredModel.model.halfspace.density_kg_m3 = 2.1;
+    const outcome = await importBundleText(b, JSON.stringify(data));
+    expect(outcome).toEqual({
+      ok: false,
+      message:
+        'Nothing was imported. The bundle is not valid: sites[0].layeredModel.model.halfspace.density_kg_m3 is 2.1 kg/m³, below the 1000 kg/m³ lower bound for density. It looks like g/cm³; enter the density in kg/m³.',
+    });
+    expect(await b.getSite(site.id)).toEqual(before);
   });
 });
