@@ -15,6 +15,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { parsePicksCsv } from '../../core/picks/picks';
 import { nextRevision, type AnyRecord, type PickRecord, type SiteRecord } from '../../core/exchange/records';
 import { canonicalJson, revisionKey } from '../../core/exchange/revision';
+import { resolveConflict } from '../../core/exchange/sync';
 import { MAX_PUSH_BYTES } from '../../core/exchange/sync-protocol';
 import { newPick, newSite, openFieldStore, type FieldStore } from '../../pwa/store';
 import { exportBundle, importBundleText } from '../../pwa/sync/bundle-io';
@@ -296,6 +297,45 @@ describe('office sync, two tablets and a crash', () => {
       expect(canonicalJson(local)).toBe(canonicalJson(merged));
       expect((await c.refresh()).conflicts).toBe(1);
     }
+  });
+
+  it('3b. two tablets changing the layer builder model of one site from the same revision: both models are kept for review; keeping one after review converges everywhere', async () => {
+    const data = tempDataDir();
+    const tA = await addDevice(data, 'tablet-a');
+    const tB = await addDevice(data, 'tablet-b');
+    const srv = await office(data);
+    const [a, b] = [await tablet(), await tablet()];
+    const [ca, cb] = [clientFor(a), clientFor(b)];
+    await ca.configure(srv.url, tA);
+    await cb.configure(srv.url, tB);
+    const { sites } = await survey(a, 1, 2);
+    expect((await ca.syncNow()).ok).toBe(true);
+    expect((await cb.syncNow()).ok).toBe(true);
+    // Invented models: the same layer, 5 m on tablet A and 8 m on tablet B.
+    const model = (h: number) => ({
+      model: { layers: [{ thickness_m: h, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
+      pInput: 'vp' as const,
+      waves: { love: true, rayleigh: false },
+      modes: 2,
+    });
+    const onA = await a.saveSite(nextRevision(sites[0], { layeredModel: model(5) }, new Date('2026-05-05T09:00:00Z')));
+    await b.saveSite(nextRevision((await b.getSite(sites[0].id))!, { layeredModel: model(8) }, new Date('2026-05-05T09:05:00Z')));
+    expect((await ca.syncNow()).conflicts).toBe(0);
+    expect((await cb.syncNow()).conflicts).toBe(1);
+    expect((await cli(['conflicts', '--data', data])).out).toContain(`from tablet-a; differs in layeredModel`);
+    expect((await ca.syncNow()).ok).toBe(true);
+    const shown = (await a.getSite(sites[0].id))!;
+    expect(shown.layeredModel!.model.layers[0].thickness_m).toBe(8);
+    expect(shown.conflicts![0].record).toEqual(onA);
+
+    // Tablet A keeps its own model after review: a revision that supersedes both, which reaches the office and tablet B.
+    await a.saveSite(resolveConflict(shown, { layeredModel: model(5) }));
+    expect((await ca.syncNow()).ok).toBe(true);
+    expect((await cb.syncNow()).ok).toBe(true);
+    const [row] = query<{ body: string; conflicts: number }>(data, 'SELECT body, conflicts FROM records WHERE id = ?', sites[0].id);
+    expect(row.conflicts).toBe(0);
+    for (const s of [a, b]) expect(canonicalJson(await s.getSite(sites[0].id))).toBe(canonicalJson(JSON.parse(row.body)));
+    expect((await b.getSite(sites[0].id))!.layeredModel!.model.layers[0].thickness_m).toBe(5);
   });
 
   it('4. the server SIGKILLed in the middle of a sync: the client retries after the restart, and everything converges with nothing lost or duplicated', async () => {
