@@ -724,6 +724,18 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
     rangeHigh = Math.max(rangeHigh, Math.exp(L.upper[N + j]));
   }
   const column = new Float64Array(chain.count);
+  // Each sample's interface depths and speeds, computed once (vsAtDepth's sums, in the same order).
+  const bottoms = new Float64Array(chain.count * N);
+  const speeds = new Float64Array(chain.count * (N + 1));
+  for (let s = 0; s < chain.count; s++) {
+    let top = 0;
+    for (let j = 0; j < N; j++) {
+      top += Math.exp(chain.samples[s * L.k + j]);
+      bottoms[s * N + j] = top;
+      speeds[s * (N + 1) + j] = Math.exp(chain.samples[s * L.k + N + j]);
+    }
+    speeds[s * (N + 1) + N] = Math.exp(chain.samples[s * L.k + 2 * N]);
+  }
   const altModels = altMinima.map((m) => m.u);
   for (let i = 0; i < BAND_POINTS; i++) {
     const z = depth[i];
@@ -735,7 +747,11 @@ export function estimateProfile(picks: readonly Pick[], options: ProfileOptions 
       band.high68[i] = band.high95[i] = Math.max(rangeHigh, b);
       continue;
     }
-    for (let s = 0; s < chain.count; s++) column[s] = vsAtDepth(chain.samples.subarray(s * L.k, (s + 1) * L.k), N, z);
+    for (let s = 0; s < chain.count; s++) {
+      let j = 0;
+      while (j < N && !(z < bottoms[s * N + j])) j++;
+      column[s] = speeds[s * (N + 1) + j];
+    }
     const iv = intervalOf(column, b);
     for (const u of altModels) {
       const a = vsAtDepth(u, N, z);

@@ -49,9 +49,11 @@
  * best fit's predictions) comes from a verified forward step.
  *
  * Tracking guesses for Rayleigh picks: the previous model's root at the
- * pick, scaled by how the root at the previous (higher) frequency moved,
- * then the straight-line extrapolation in log ω; either is accepted only
- * by the checks above, so the guess decides the cost, not the root.
+ * pick, scaled by how the roots at the previous two (higher) frequencies
+ * moved (the log ratio extrapolated in log ω), in a first bracket a few
+ * times as wide as the last such guess missed; then the straight-line
+ * extrapolation in log ω. Either is accepted only by the checks above, so
+ * the guess decides the cost, not the root.
  *
  * Below the cutoff of a pick's mode the mode does not exist; the prediction
  * is then the half-space shear speed, the value both velocities tend to at
@@ -90,9 +92,11 @@ export interface WaveForward {
    * nearby model, or of the neighbouring frequency), searched first within
    * ±width·guess (relative half-width, default WARM_STEP): NaN unless a
    * root within WARM_MOVE of the guess is found and verified to be the
-   * mode (then ask `phase`).
+   * mode (then ask `phase`). `moved` (default width) is how far, relative,
+   * the root may have moved since it was verified (a guess from another
+   * frequency: Infinity); the Rayleigh rule for a low-velocity layer reads it.
    */
-  phaseNear(omega: number, mode: number, guess: number, width?: number): number;
+  phaseNear(omega: number, mode: number, guess: number, width?: number, moved?: number): number;
 }
 
 /**
@@ -133,6 +137,9 @@ const WARM_RTOL = 1e-11;
 export const WARM_STEP = 2e-3;
 /** Smallest first half-width (relative): well above the roots' own tolerance. */
 const WARM_STEP_MIN = 1e-9;
+/** A shaped tracking guess's first half-width: SHAPE_STEP_MARGIN times the last one's miss, at least SHAPE_STEP_MIN (relative). */
+const SHAPE_STEP_MARGIN = 4;
+const SHAPE_STEP_MIN = 1e-7;
 
 /**
  * A bracket [a, b] around `guess` within [lo, hi] where f changes sign, by
@@ -249,8 +256,8 @@ export const RAYLEIGH_FORWARD: WaveForwardFactory = (model, screening = false) =
     group(omega, _mode, c) {
       return rayleighStackGroupVelocity(stack, omega, c);
     },
-    phaseNear(omega, mode, guess, width = WARM_STEP) {
-      if (mode !== 0 || (!warmable && width > LOW_VELOCITY_WARM_WIDTH)) return NaN;
+    phaseNear(omega, mode, guess, width = WARM_STEP, moved = width) {
+      if (mode !== 0 || (!warmable && !(moved <= LOW_VELOCITY_WARM_WIDTH))) return NaN;
       const c = rayleighNear(stack, floor, omega, guess, width);
       return Math.abs(c - guess) <= WARM_MOVE * guess ? c : NaN;
     },
@@ -314,6 +321,9 @@ export function predictPicks(picks: ForwardPicks, model: ForwardModel, out: Floa
   let c2 = NaN;
   // The previous model's root at the last pick tracked (NaN if none).
   let p1 = NaN;
+  let p2 = NaN;
+  // The first half-width for the next shaped guess.
+  let shapeWidth = WARM_STEP;
   for (let r = 0; r < order.length; r++) {
     const i = order[r];
     const w = picks.wave[i];
@@ -321,7 +331,8 @@ export function predictPicks(picks: ForwardPicks, model: ForwardModel, out: Floa
     if (w !== lastWave || mode !== lastMode) {
       lastWave = w;
       lastMode = mode;
-      o1 = c1 = o2 = c2 = p1 = NaN;
+      o1 = c1 = o2 = c2 = p1 = p2 = NaN;
+      shapeWidth = WARM_STEP;
     }
     let engine = engines[w];
     if (!engine) {
@@ -337,15 +348,24 @@ export function predictPicks(picks: ForwardPicks, model: ForwardModel, out: Floa
     if (Number.isNaN(c) && !Number.isNaN(c1)) {
       // The previous model's curve scaled to pass through this model's root at the previous pick
       // (Rayleigh only: for Love waves it made more Sturm-count misses than the extrapolation).
-      const shaped = w === 0 ? NaN : old * (c1 / p1);
-      if (Number.isFinite(shaped)) c = near(engine, omega, mode, shaped, WARM_STEP);
+      let shaped = w === 0 ? NaN : old * (c1 / p1);
+      if (!Number.isNaN(c2) && !Number.isNaN(p2) && o2 !== o1) {
+        // The log ratio of the two models' roots, extrapolated in log ω from the two previous picks.
+        const r1 = Math.log(c1 / p1);
+        const r2 = Math.log(c2 / p2);
+        shaped = old * Math.exp(r1 + ((r1 - r2) * Math.log(omega / o1)) / Math.log(o1 / o2));
+      }
+      if (Number.isFinite(shaped)) {
+        c = near(engine, omega, mode, shaped, shapeWidth, Infinity);
+        shapeWidth = Number.isNaN(c) ? WARM_STEP : Math.min(WARM_STEP, Math.max(SHAPE_STEP_MIN, SHAPE_STEP_MARGIN * Math.abs(c / shaped - 1)));
+      }
       if (Number.isNaN(c)) {
         // Straight-line extrapolation of ln c against ln ω from the two previous roots.
         let guess = c1;
         if (!Number.isNaN(c2) && o2 !== o1 && omega !== o1) {
           guess = c1 * Math.exp((Math.log(c1 / c2) * Math.log(omega / o1)) / Math.log(o1 / o2));
         }
-        if (!(Math.abs(guess - shaped) <= WARM_STEP * guess)) c = near(engine, omega, mode, guess, WARM_STEP);
+        if (!(Math.abs(guess - shaped) <= WARM_STEP * guess)) c = near(engine, omega, mode, guess, WARM_STEP, Infinity);
       }
     }
     if (Number.isNaN(c)) {
@@ -354,22 +374,23 @@ export function predictPicks(picks: ForwardPicks, model: ForwardModel, out: Floa
     }
     if (guesses) guesses[i] = c;
     if (Number.isNaN(c)) {
-      o1 = c1 = o2 = c2 = p1 = NaN;
+      o1 = c1 = o2 = c2 = p1 = p2 = NaN;
       out[i] = vsH;
     } else {
       o2 = o1;
       c2 = c1;
       o1 = omega;
       c1 = c;
+      p2 = p1;
       p1 = old;
       out[i] = picks.isPhase[i] ? c : engine.group(omega, mode, c);
     }
   }
 }
 
-function near(engine: WaveForward, omega: number, mode: number, guess: number, width: number): number {
+function near(engine: WaveForward, omega: number, mode: number, guess: number, width: number, moved = width): number {
   forwardWork.warmSolves++;
-  const c = engine.phaseNear(omega, mode, guess, width);
+  const c = engine.phaseNear(omega, mode, guess, width, moved);
   if (Number.isNaN(c)) forwardWork.warmMisses++;
   return c;
 }
