@@ -185,18 +185,19 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
       l1 = cs * l + (sn / un) * t;
       t1 = cs * t - un * sn * l;
       if (countNodes) {
-        // Modified Prüfer angle in (l, τ/(μν)) advances by exactly νd; it
-        // shares the quadrants, hence the π-intervals, of the plain angle.
-        const sg = m & 1 ? -1 : 1;
-        const phi = Math.atan2(sg * l, (sg * t) / un) + x;
-        const q = Math.floor(phi / Math.PI);
-        let mNew = m + q;
-        if (!agrees(mNew, l1, t1)) mNew += phi / Math.PI - q > 0.5 ? 1 : -1;
+        // The modified Prüfer angle in (l, τ/(μν)) advances by exactly νd and
+        // shares the quadrants, hence the π-intervals, of the plain angle: from
+        // interval m it lands in m + ⌊νd/π⌋ or the next, whose parities differ,
+        // so the sign of l (of τ where l = 0) at the layer's foot says which.
+        let mNew = m + Math.floor(x / Math.PI);
+        if (!agrees(mNew, l1, t1)) mNew += 1;
         m = mNew;
       }
     } else {
       const g = (k * Math.sqrt((b - c) * (b + c))) / b;
-      const em = Math.expm1(-2 * g * d); // e^(−2γd) − 1, exact for small γd
+      // e^(−2γd) − 1: expm1 where γd is small (exact there), exp (cheaper) where e^(−2γd) < 0.61, with no cancellation.
+      const gd2 = 2 * g * d;
+      const em = gd2 > 0.5 ? Math.exp(-gd2) - 1 : Math.expm1(-gd2);
       const ch = 1 + 0.5 * em; // cosh γd · e^(−γd)
       const sh = -0.5 * em; // sinh γd · e^(−γd)
       l1 = ch * l + (g === 0 ? d / u : sh / (u * g)) * t;
