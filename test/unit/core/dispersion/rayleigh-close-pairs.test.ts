@@ -1,0 +1,100 @@
+/**
+ * The careful Rayleigh scan (the solver's default) never skips a close pair
+ * of roots beside a third root: five seeded cases where two branches come
+ * within 0.2–1.1 % of each other next to another mode, in or beside the
+ * cell of that mode's root, where the scan judges whether to search a cell
+ * whose ends share a sign (rayleigh-stack.ts, valley). Each case was found
+ * by a seeded search (mulberry32 seeds 1–3, 15,000 solves each, models as
+ * in rayleigh-random.test.ts, every other one with a very soft layer at
+ * depth) as a pair that a weaker judgement missed: the slope on the root's
+ * side with the root divided out (all five), or the rise of that slope
+ * across the cell without the near-root guard (the first).
+ *
+ * Reference: a dense scan of the plain six-minor secular function
+ * (rayleighSecularReference, not the solver's five-minor step) over the
+ * window between the roots around the pair, 4,000 points (steps of 0.01 to
+ * 0.06 m/s, finer than any gap here): each sign change there must hold a
+ * solver root, and the solver may report no other root in the window.
+ */
+import { describe, expect, it } from 'vitest';
+import type { LayeredModel } from '../../../../core/dispersion/model';
+import { rayleighSecularReference } from '../../../../core/dispersion/rayleigh-secular';
+import { RayleighStackSolver, prepareRayleighStack } from '../../../../core/dispersion/rayleigh-stack';
+
+interface PairCase {
+  /** Frequency, Hz. */
+  f: number;
+  /** The close pair (m/s, rounded to 0.1 mm/s), as the careful scan finds it. */
+  pair: [number, number];
+  /** The solver's roots just below and above the pair (m/s, rounded to 0.1 mm/s). */
+  window: [number, number];
+  model: LayeredModel;
+}
+
+const CASES: PairCase[] = [
+  {
+    f: 59.41788361782281,
+    pair: [633.6464, 634.8285],
+    window: [631.1185, 685.7786],
+    model: {layers: [{thickness: 29.74325950385537, vs: 810.1724472362548, vp: 1500, density: 1677.3811604361981}, {thickness: 7.326540512382053, vs: 218.35422920063138, vp: 453.1619818691217, density: 1927.6094727683812}, {thickness: 26.189065860700794, vs: 695.4453630745411, vp: 2319.065270529403, density: 1575.8253000676632}, {thickness: 18.461714010103606, vs: 365.8790603466332, vp: 564.1189049748912, density: 1872.4280772730708}, {thickness: 20.698463365086354, vs: 139.28653375711292, vp: 367.0693875196084, density: 1920.9567182697356}], halfspace: {vs: 858.0281819530923, vp: 1336.7636238981204, density: 2467.636672151275}},
+  },
+  {
+    f: 48.74144593693739,
+    pair: [810.3054, 816.5351],
+    window: [605.4845, 852.8521],
+    model: {layers: [{thickness: 28.043334136600606, vs: 890.4792366642505, vp: 1500, density: 1904.4025875627995}, {thickness: 13.584325506235473, vs: 685.5554477311671, vp: 2523.3641582307255, density: 2023.0564314406365}, {thickness: 21.18081354990136, vs: 82.22031368874013, vp: 1500, density: 1915.1936643756926}, {thickness: 11.588912152103148, vs: 581.2441634014249, vp: 1613.5074188976382, density: 1657.8415541443974}], halfspace: {vs: 1021.1391213903979, vp: 1531.7086820855968, density: 2129.9697428708896}},
+  },
+  {
+    f: 48.521899664800756,
+    pair: [647.8609, 657.1551],
+    window: [636.2281, 720.7996],
+    model: {layers: [{thickness: 14.745202335296199, vs: 699.6634490322322, vp: 1588.6349563429676, density: 1594.8607793543488}, {thickness: 1.8245881230104715, vs: 321.3619364518672, vp: 1045.9492269846417, density: 1650.5178902298212}, {thickness: 18.251327234087512, vs: 762.7047575544566, vp: 2536.8621179450306, density: 2389.6453583147377}, {thickness: 4.760651704506017, vs: 839.3787939101458, vp: 3356.485062109223, density: 1812.1534690726548}, {thickness: 9.298508811974898, vs: 147.0807871222496, vp: 422.2339099015143, density: 1870.3891311306506}], halfspace: {vs: 761.8848346514881, vp: 2841.8930559186924, density: 2309.0794229879975}},
+  },
+  {
+    f: 30.76650723596221,
+    pair: [368.0909, 368.8163],
+    window: [339.196, 373.6307],
+    model: {layers: [{thickness: 28.02805182512384, vs: 237.6788963098079, vp: 591.222152497723, density: 2180.121256969869}, {thickness: 12.970633212476969, vs: 537.6115656550974, vp: 1023.1310500744265, density: 1551.428331527859}, {thickness: 19.055486103752628, vs: 85.99219431169331, vp: 326.46893047112906, density: 1703.8458364550024}, {thickness: 15.201812100829557, vs: 124.93899269029498, vp: 1500, density: 1868.0237187072635}, {thickness: 1.9313152719987556, vs: 72.79821675270796, vp: 130.02911178945942, density: 2335.0521300453693}], halfspace: {vs: 404.2161493201034, vp: 937.2967890457024, density: 2034.3435617396608}},
+  },
+  {
+    f: 49.390481287867445,
+    pair: [338.9888, 339.9749],
+    window: [304.4693, 344.0139],
+    model: {layers: [{thickness: 26.3697058808757, vs: 556.8623210024089, vp: 1232.6153087817552, density: 1812.4871014151722}, {thickness: 27.9766813153401, vs: 236.9171370472759, vp: 1500, density: 1809.6163589507341}, {thickness: 18.967668770463206, vs: 597.8501305449754, vp: 1358.3164208561898, density: 1948.6289157066494}, {thickness: 11.026454000850208, vs: 95.41276613250375, vp: 186.0081500441613, density: 1969.8349351529032}], halfspace: {vs: 617.6546872585063, vp: 1117.726552620026, density: 2025.71842642501}},
+  },
+];
+
+describe('the careful Rayleigh scan and close pairs beside a third root', () => {
+  it('finds every root of a dense reference scan around each pair, and no other', () => {
+    const out = new Float64Array(300);
+    for (const [i, k] of CASES.entries()) {
+      const stack = prepareRayleighStack(k.model);
+      const solver = new RayleighStackSolver(stack);
+      expect(solver.careful).toBe(true);
+      const omega = 2 * Math.PI * k.f;
+      const found = solver.solve(omega, out.length, out);
+      expect(solver.outcome.status).toBe('converged');
+      // The window runs from just above the root below the pair to just below the root above it.
+      const lo = k.window[0] + 0.01;
+      const hi = k.window[1] - 0.01;
+      const roots = Array.from(out.subarray(0, found)).filter((c) => c > lo && c < hi);
+      const points = 4000;
+      const changes: number[][] = [];
+      let c0 = lo;
+      let f0 = rayleighSecularReference(stack, omega, c0);
+      for (let j = 1; j <= points; j++) {
+        const c1 = lo + ((hi - lo) * j) / points;
+        const f1 = rayleighSecularReference(stack, omega, c1);
+        if (f1 === 0 || f0 * f1 < 0) changes.push([c0, c1]);
+        c0 = c1;
+        f0 = f1;
+      }
+      const ctx = `case ${i} at ${k.f} Hz: solver ${roots.map((c) => c.toFixed(4))}, reference sign changes ${changes.map(([a, b]) => `[${a.toFixed(3)}, ${b.toFixed(3)}]`)}`;
+      expect(changes.length, ctx).toBeGreaterThanOrEqual(2);
+      for (const [a, b] of changes) expect(roots.some((c) => c >= a && c <= b), `missed [${a}, ${b}]: ${ctx}`).toBe(true);
+      expect(roots.length, ctx).toBe(changes.length);
+      // The pair itself (to the rounding of the table).
+      for (const p of k.pair) expect(roots.some((c) => Math.abs(c - p) < 1e-4), `pair root ${p}: ${ctx}`).toBe(true);
+    }
+  });
+});
