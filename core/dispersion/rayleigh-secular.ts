@@ -150,39 +150,6 @@ const nextK = new Float64Array(6);
 const fa = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
 const fb = { C: 0, S: 0, expo: 0, scale: 1, dCa: 0, dSa: 0 };
 
-/** C, S and the scale e^{−√a L} (1 when a ≤ 0) of `functions`, without the derivatives in a, into V[i], V[i+1], V[i+2]: the value path. */
-function values(V: Float64Array, i: number, a: number, L: number): void {
-  if (a > 0) {
-    const r = Math.sqrt(a);
-    const x = r * L;
-    if (x > 0.5) {
-      // e^{−2x} < 0.37: 1 − e^{−2x} has no cancellation, and e^{−x} = √(e^{−2x}) (0 below 1e-162, far beneath rounding).
-      const E = Math.exp(-2 * x);
-      V[i] = 0.5 + 0.5 * E;
-      V[i + 1] = (0.5 - 0.5 * E) / r;
-      V[i + 2] = Math.sqrt(E);
-    } else {
-      const em = Math.expm1(-2 * x);
-      V[i] = 1 + 0.5 * em;
-      V[i + 1] = x === 0 ? L : (-0.5 * em) / r;
-      V[i + 2] = Math.sqrt(1 + em);
-    }
-  } else if (a < 0) {
-    const r = Math.sqrt(-a);
-    const x = r * L;
-    V[i] = Math.cos(x);
-    V[i + 1] = Math.sin(x) / r;
-    V[i + 2] = 1;
-  } else {
-    V[i] = 1;
-    V[i + 1] = L;
-    V[i + 2] = 1;
-  }
-}
-
-/** Scratch of `values`: C_a, S_a, scale_a, C_b, S_b, scale_b. */
-const VF = new Float64Array(6);
-
 /**
  * C = cosh(√a L), S = sinh(√a L)/√a (or cos, sin/√−a), multiplied by
  * e^{−√a L} when a > 0 (expo = √a L, else 0); with their derivatives in a
@@ -236,15 +203,17 @@ function derivFunctions(V: Float64Array, i: number, a: number, L: number): void 
     r = Math.sqrt(a);
     const x = r * L;
     if (x > 0.5) {
-      const E = Math.exp(-2 * x);
+      const ex = Math.exp(-x);
+      const E = ex * ex;
       C = 0.5 + 0.5 * E;
       S = (0.5 - 0.5 * E) / r;
-      scale = Math.sqrt(E);
+      scale = ex;
     } else {
-      const em = Math.expm1(-2 * x);
+      const em1 = Math.expm1(-x);
+      const em = em1 * (2 + em1);
       C = 1 + 0.5 * em;
       S = x === 0 ? L : (-0.5 * em) / r;
-      scale = Math.sqrt(1 + em);
+      scale = 1 + em1;
     }
   } else if (a < 0) {
     const q = Math.sqrt(-a);
@@ -418,99 +387,13 @@ function pairing(m: Float64Array, n: Float64Array): number {
 
 const minors = new Float64Array(6);
 const nH = new Float64Array(6);
-const m5 = new Float64Array(5);
-
-/**
- * Carries the five independent minors through layer j at (c, k): the fast
- * form of `step`. The surface solutions keep m_13 = −m_02 (a symplectic
- * invariant of the P-SV system), so five minors suffice (Dunkin 1965):
- * w = (m_01, m_02, m_03, m_12, m_23), here with the stresses of layer j
- * divided by μ_j k (so no moduli appear). The 5×5 matrix below is
- * P m Pᵀ of the header written out (D = C_aC_b − e, e the scale factor of
- * the constant terms; t = 2u − 1), checked against `step` in
- * test/unit/core/dispersion/rayleigh-stack.test.ts.
- */
-function fastStep(s: RayleighStack, j: number, c: number, k: number, w: Float64Array): void {
-  const beta = s.vs[j];
-  const x = (c * c) / (beta * beta);
-  const u = (beta * beta) / (c * c);
-  const p = s.p[j];
-  const L = k * s.thickness[j];
-  values(VF, 0, 1 - p * x, L);
-  values(VF, 3, 1 - x, L);
-  const Ca = VF[0];
-  const Sa = VF[1];
-  const Cb = VF[3];
-  const Sb = VF[4];
-  const e = VF[2] * VF[5];
-  const CC = Ca * Cb;
-  const CS = Ca * Sb;
-  const SC = Sa * Cb;
-  const SS = Sa * Sb;
-  const D = CC - e;
-  const t = 2 * u - 1;
-  const u1 = u - 1;
-  const pu = p - u;
-  const t2u = t * t * x;
-  const s00 = 4 * p * u1 - 2 * t * t + 1;
-  const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
-  const s04 = u * t - p * u1;
-  const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) * x;
-  const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) * (x * x);
-  const d4u1 = 4 * u - 1;
-  const w0 = w[0];
-  const w1 = w[1];
-  const w2 = w[2];
-  const w3 = w[3];
-  const w4 = w[4];
-  w[0] =
-    (CC + 4 * u * t * D + SS * s00) * w0 +
-    (2 * u * d4u1 * D + SS * s01) * w1 +
-    (u * CS + pu * SC) * w2 +
-    (u1 * CS - u * SC) * w3 +
-    (-2 * u * u * D + SS * s04) * w4;
-  w[1] =
-    (-2 * t * d4u1 * D + SS * s10) * w0 +
-    (e - 8 * u * t * D - 2 * SS * s00) * w1 +
-    (-t * CS - 2 * pu * SC) * w2 +
-    (-2 * u1 * CS + t * SC) * w3 +
-    (u * d4u1 * D + 0.5 * SS * s01) * w4;
-  w[2] =
-    (4 * u1 * CS - t2u * SC) * w0 +
-    (4 * u1 * CS - 2 * t * SC) * w1 +
-    CC * w2 +
-    (-(u1 / u) * SS) * w3 +
-    (-u1 * CS + u * SC) * w4;
-  w[3] =
-    (t2u * CS + 4 * pu * SC) * w0 +
-    (2 * t * CS + 4 * pu * SC) * w1 +
-    ((pu / u) * SS) * w2 +
-    CC * w3 +
-    (-u * CS - pu * SC) * w4;
-  w[4] =
-    (-8 * t * t * D + SS * s40) * w0 +
-    (-4 * t * d4u1 * D + 2 * SS * s10) * w1 +
-    (-t2u * CS - 4 * pu * SC) * w2 +
-    (-4 * u1 * CS + t2u * SC) * w3 +
-    (CC + 4 * u * t * D + SS * s00) * w4;
-}
 
 /** Binary exponent of the last rayleighSecular value's scale: the unscaled F is value · 2^exponent · (smooth factors). */
 export const secularScale = { exponent: 0 };
 
-/** Keeps w within 2^±256 by exact powers of two, counted in secularScale.exponent (so |F| stays comparable across c). */
-function rescale(w: Float64Array): void {
-  let big = 0;
-  for (let r = 0; r < 5; r++) {
-    const v = Math.abs(w[r]);
-    if (v > big) big = v;
-  }
-  if (!(big > 0) || !Number.isFinite(big) || (big < 2 ** 256 && big > 2 ** -256)) return;
-  const e = Math.round(Math.log2(big));
-  const f = 2 ** -e;
-  for (let r = 0; r < 5; r++) w[r] *= f;
-  secularScale.exponent += e;
-}
+/** The five minors are rescaled by an exact power of two when their size leaves [2^−256, 2^256]. */
+const RESCALE_ABOVE = 2 ** 256;
+const RESCALE_BELOW = 2 ** -256;
 
 /**
  * The secular function at angular frequency ω (rad/s) and phase velocity
@@ -520,31 +403,160 @@ function rescale(w: Float64Array): void {
  * exact power of two kept in secularScale, used only far from the range
  * of doubles; so a dip of |F| towards zero, the mark of two close roots,
  * stays visible between neighbouring values of c.
+ *
+ * The fast five-minor step: the surface solutions keep m_13 = −m_02 (a
+ * symplectic invariant of the P-SV system), so five minors suffice
+ * (Dunkin 1965): w = (m_01, m_02, m_03, m_12, m_23), here with the
+ * stresses of layer j divided by μ_j k (so no moduli appear). The 5×5
+ * matrix below is P m Pᵀ of the header written out (D = C_aC_b − e, e the
+ * scale factor of the constant terms; t = 2u − 1; the same matrix as
+ * stepMatrix), checked against `step` in
+ * test/unit/core/dispersion/rayleigh-stack.test.ts. Written out with the
+ * minors in locals (no scratch arrays, one exponential per evanescent
+ * wave): this is the solver's inner loop.
  */
 export function rayleighSecular(s: RayleighStack, omega: number, c: number): number {
   const k = omega / c;
-  const w = m5;
-  w.fill(0);
-  w[0] = 1;
-  secularScale.exponent = 0;
+  const c2 = c * c;
+  const { vs, p: pCol, q: qCol, thickness } = s;
+  let w0 = 1;
+  let w1 = 0;
+  let w2 = 0;
+  let w3 = 0;
+  let w4 = 0;
+  let exponent = 0;
   let qPrev = 1;
   for (let j = 0; j < s.count; j++) {
     // Stresses from μ_{j−1}k to μ_j k units.
-    const r = qPrev / s.q[j];
-    w[1] *= r;
-    w[2] *= r;
-    w[3] *= r;
-    w[4] *= r * r;
-    fastStep(s, j, c, k, w);
-    rescale(w);
-    qPrev = s.q[j];
+    const qj = qCol[j];
+    const ratio = qPrev / qj;
+    w1 *= ratio;
+    w2 *= ratio;
+    w3 *= ratio;
+    w4 *= ratio * ratio;
+    qPrev = qj;
+    const beta = vs[j];
+    const b2 = beta * beta;
+    const x = c2 / b2;
+    const u = b2 / c2;
+    const p = pCol[j];
+    const L = k * thickness[j];
+    // C = cosh(√a L)·e^{−√a L}, S = sinh(√a L)/√a·e^{−√a L} and the scale e^{−√a L} (cos, sin/√−a and 1 for
+    // a < 0), for the P wave (a = 1 − px) and the S wave (b = 1 − x). For √a L > 0.5, e^{−2√a L} < 0.37 and
+    // 1 − e^{−2√a L} has no cancellation; below, e^{−2√a L} − 1 = (e^{−√a L} − 1)(e^{−√a L} + 1), exact.
+    const a = 1 - p * x;
+    let Ca = 1;
+    let Sa = L;
+    let ea = 1;
+    if (a > 0) {
+      const r = Math.sqrt(a);
+      const y = r * L;
+      if (y > 0.5) {
+        ea = Math.exp(-y);
+        const E = ea * ea;
+        Ca = 0.5 + 0.5 * E;
+        Sa = (0.5 - 0.5 * E) / r;
+      } else {
+        const e1 = Math.expm1(-y);
+        const em = e1 * (2 + e1);
+        ea = 1 + e1;
+        Ca = 1 + 0.5 * em;
+        Sa = y === 0 ? L : (-0.5 * em) / r;
+      }
+    } else if (a < 0) {
+      const r = Math.sqrt(-a);
+      const y = r * L;
+      Ca = Math.cos(y);
+      Sa = Math.sin(y) / r;
+    }
+    const b = 1 - x;
+    let Cb = 1;
+    let Sb = L;
+    let eb = 1;
+    if (b > 0) {
+      const r = Math.sqrt(b);
+      const y = r * L;
+      if (y > 0.5) {
+        eb = Math.exp(-y);
+        const E = eb * eb;
+        Cb = 0.5 + 0.5 * E;
+        Sb = (0.5 - 0.5 * E) / r;
+      } else {
+        const e1 = Math.expm1(-y);
+        const em = e1 * (2 + e1);
+        eb = 1 + e1;
+        Cb = 1 + 0.5 * em;
+        Sb = y === 0 ? L : (-0.5 * em) / r;
+      }
+    } else if (b < 0) {
+      const r = Math.sqrt(-b);
+      const y = r * L;
+      Cb = Math.cos(y);
+      Sb = Math.sin(y) / r;
+    }
+    const e = ea * eb;
+    const CC = Ca * Cb;
+    const CS = Ca * Sb;
+    const SC = Sa * Cb;
+    const SS = Sa * Sb;
+    const D = CC - e;
+    const t = 2 * u - 1;
+    const u1 = u - 1;
+    const pu = p - u;
+    const t2u = t * t * x;
+    const s00 = 4 * p * u1 - 2 * t * t + 1;
+    const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
+    const s04 = u * t - p * u1;
+    const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) * x;
+    const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) * (x * x);
+    const d4u1 = 4 * u - 1;
+    const diag = CC + 4 * u * t * D + SS * s00;
+    const n0 =
+      diag * w0 + (2 * u * d4u1 * D + SS * s01) * w1 + (u * CS + pu * SC) * w2 + (u1 * CS - u * SC) * w3 + (-2 * u * u * D + SS * s04) * w4;
+    const n1 =
+      (-2 * t * d4u1 * D + SS * s10) * w0 +
+      (e - 8 * u * t * D - 2 * SS * s00) * w1 +
+      (-t * CS - 2 * pu * SC) * w2 +
+      (-2 * u1 * CS + t * SC) * w3 +
+      (u * d4u1 * D + 0.5 * SS * s01) * w4;
+    const n2 = (4 * u1 * CS - t2u * SC) * w0 + (4 * u1 * CS - 2 * t * SC) * w1 + CC * w2 + (-(u1 / u) * SS) * w3 + (-u1 * CS + u * SC) * w4;
+    const n3 = (t2u * CS + 4 * pu * SC) * w0 + (2 * t * CS + 4 * pu * SC) * w1 + ((pu / u) * SS) * w2 + CC * w3 + (-u * CS - pu * SC) * w4;
+    const n4 =
+      (-8 * t * t * D + SS * s40) * w0 +
+      (-4 * t * d4u1 * D + 2 * SS * s10) * w1 +
+      (-t2u * CS - 4 * pu * SC) * w2 +
+      (-4 * u1 * CS + t2u * SC) * w3 +
+      diag * w4;
+    w0 = n0;
+    w1 = n1;
+    w2 = n2;
+    w3 = n3;
+    w4 = n4;
+    // Keep the minors within 2^±256 by exact powers of two, counted in the exponent (so |F| stays comparable across c).
+    const big = Math.max(Math.abs(w0), Math.abs(w1), Math.abs(w2), Math.abs(w3), Math.abs(w4));
+    if (!(big < RESCALE_ABOVE && big > RESCALE_BELOW) && big > 0 && big < Infinity) {
+      const ex = Math.round(Math.log2(big));
+      const f = 2 ** -ex;
+      w0 *= f;
+      w1 *= f;
+      w2 *= f;
+      w3 *= f;
+      w4 *= f;
+      exponent += ex;
+    }
   }
-  w[1] *= qPrev;
-  w[2] *= qPrev;
-  w[3] *= qPrev;
-  w[4] *= qPrev * qPrev;
-  halfspaceMinors(s, c, nH, null);
-  return w[0] * nH[5] - w[1] * (nH[4] - nH[1]) + w[2] * nH[3] + w[3] * nH[2] + w[4] * nH[0];
+  w1 *= qPrev;
+  w2 *= qPrev;
+  w3 *= qPrev;
+  w4 *= qPrev * qPrev;
+  secularScale.exponent = exponent;
+  // The half-space's bivector n = d_P ∧ d_S (halfspaceMinors), paired with the five minors (pair5).
+  const xH = c2 / (s.vsH * s.vsH);
+  const ra = Math.sqrt(Math.max(0, 1 - s.pH * xH));
+  const rb = Math.sqrt(Math.max(0, 1 - xH));
+  const g = 2 - xH;
+  const rr = ra * rb;
+  return w0 * (4 * rr - g * g) - w1 * (2 * g - 4 * rr) + w2 * (ra * xH) - w3 * (rb * xH) + w4 * (1 - rr);
 }
 
 /**
@@ -982,7 +994,263 @@ export function rayleighSecularDerivatives(
  * secularScale) and ∂F/∂c at fixed k on the same scale, without ∂F/∂k
  * (dk is NaN); secularSlope.scale holds d ln(scale)/dc, so that
  * d ln|F̃|/dc = dc/value + secularSlope.scale. For the root scan.
+ *
+ * The same forward differentiation as rayleighSecularDerivatives, written
+ * out with the minors in locals: the step matrix is linear in the six
+ * products CC, CS, SC, SS, D and e (stepMatrix), G = Σ π_i A_i(u), so
+ * G·w = Σ π_i (A_i w) and, e held fixed and D' = CC',
+ * G_c·w = Σ π_i' (A_i w) + u'·(∂G/∂u)·w: the vectors A_i w serve both.
  */
 export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number, out: SecularDerivatives): SecularDerivatives {
-  return fastDerivatives(s, omega, c, out, false);
+  const k = omega / c;
+  const c2 = c * c;
+  const { vs, p: pCol, q: qCol, thickness } = s;
+  let w0 = 1;
+  let w1 = 0;
+  let w2 = 0;
+  let w3 = 0;
+  let w4 = 0;
+  let v0 = 0;
+  let v1 = 0;
+  let v2 = 0;
+  let v3 = 0;
+  let v4 = 0;
+  let exponent = 0;
+  let slope = 0;
+  let qPrev = 1;
+  for (let j = 0; j < s.count; j++) {
+    const qj = qCol[j];
+    const ratio = qPrev / qj;
+    const ratio2 = ratio * ratio;
+    w1 *= ratio;
+    w2 *= ratio;
+    w3 *= ratio;
+    w4 *= ratio2;
+    v1 *= ratio;
+    v2 *= ratio;
+    v3 *= ratio;
+    v4 *= ratio2;
+    qPrev = qj;
+    const beta = vs[j];
+    const d = thickness[j];
+    const u = (beta * beta) / c2;
+    const x = 1 / u;
+    const p = pCol[j];
+    const L = k * d;
+    const a = 1 - p * x;
+    const b = 1 - x;
+    // The entire functions of each wave and their derivatives in a (derivFunctions), scaled alike.
+    let Ca = 1;
+    let Sa = L;
+    let ea = 1;
+    let ra = 0;
+    if (a > 0) {
+      ra = Math.sqrt(a);
+      const y = ra * L;
+      if (y > 0.5) {
+        ea = Math.exp(-y);
+        const E = ea * ea;
+        Ca = 0.5 + 0.5 * E;
+        Sa = (0.5 - 0.5 * E) / ra;
+      } else {
+        const e1 = Math.expm1(-y);
+        const em = e1 * (2 + e1);
+        ea = 1 + e1;
+        Ca = 1 + 0.5 * em;
+        Sa = y === 0 ? L : (-0.5 * em) / ra;
+      }
+      slope += (L * p * x) / (c * ra);
+    } else if (a < 0) {
+      const r = Math.sqrt(-a);
+      const y = r * L;
+      Ca = Math.cos(y);
+      Sa = Math.sin(y) / r;
+    }
+    let Cb = 1;
+    let Sb = L;
+    let eb = 1;
+    let rb = 0;
+    if (b > 0) {
+      rb = Math.sqrt(b);
+      const y = rb * L;
+      if (y > 0.5) {
+        eb = Math.exp(-y);
+        const E = eb * eb;
+        Cb = 0.5 + 0.5 * E;
+        Sb = (0.5 - 0.5 * E) / rb;
+      } else {
+        const e1 = Math.expm1(-y);
+        const em = e1 * (2 + e1);
+        eb = 1 + e1;
+        Cb = 1 + 0.5 * em;
+        Sb = y === 0 ? L : (-0.5 * em) / rb;
+      }
+      slope += (L * x) / (c * rb);
+    } else if (b < 0) {
+      const r = Math.sqrt(-b);
+      const y = r * L;
+      Cb = Math.cos(y);
+      Sb = Math.sin(y) / r;
+    }
+    const dSada = dSdaOf(a, L, Ca, Sa, ea);
+    const dSbdb = dSdaOf(b, L, Cb, Sb, eb);
+    // Along c at fixed k: da/dc = −2px/c, db/dc = −2x/c, du/dc = −2u/c; dC/da = L·S/2.
+    const dxc = (2 * x) / c;
+    const dac = -p * dxc;
+    const dbc = -dxc;
+    const dCa = 0.5 * L * Sa * dac;
+    const dSa = dSada * dac;
+    const dCb = 0.5 * L * Sb * dbc;
+    const dSb = dSbdb * dbc;
+    const e = ea * eb;
+    const CC = Ca * Cb;
+    const CS = Ca * Sb;
+    const SC = Sa * Cb;
+    const SS = Sa * Sb;
+    const D = CC - e;
+    const dCC = dCa * Cb + Ca * dCb;
+    const dCS = dCa * Sb + Ca * dSb;
+    const dSC = dSa * Cb + Sa * dCb;
+    const dSS = dSa * Sb + Sa * dSb;
+    const du = (-2 * u) / c;
+    // Coefficients of the step matrix in u and p (stepMatrix) and their u-derivatives (stepMatrixDu).
+    const t = 2 * u - 1;
+    const u1 = u - 1;
+    const pu = p - u;
+    const t2u = t * t * x;
+    const s00 = 4 * p * u1 - 2 * t * t + 1;
+    const s01 = 4 * p * u1 - 2 * u * (4 * u - 3);
+    const s04 = u * t - p * u1;
+    const s10 = -(8 * p * u * u1 - 16 * u * u * u + 20 * u * u - 6 * u + 1) * x;
+    const s40 = -(16 * p * u * u * u1 - 32 * u * u * u * u + 48 * u * u * u - 24 * u * u + 8 * u - 1) * (x * x);
+    const d4u1 = 4 * u - 1;
+    const ut4 = 4 * u * t;
+    const ud = 2 * u * d4u1;
+    const td = 2 * t * d4u1;
+    const iu2 = x * x;
+    const dt2u = t * (2 * u + 1) * iu2;
+    const ds00 = 4 * p - 8 * t;
+    const ds01 = 4 * p - 16 * u + 6;
+    const ds04 = t + 2 * u - p;
+    const ds10 = -8 * p + 32 * u - 20 + iu2;
+    const ds40 = -16 * p + 64 * u - 48 + 8 * iu2 - 2 * iu2 * x;
+    // A_i·w for the products D, SS, CS, SC (CC's is w with row 1 zero, e's is row 1 alone).
+    const Dw0 = ut4 * w0 + ud * w1 - 2 * u * u * w4;
+    const Dw1 = -td * w0 - 2 * ut4 * w1 + 0.5 * ud * w4;
+    const Dw4 = -8 * t * t * w0 - 2 * td * w1 + ut4 * w4;
+    const Sw0 = s00 * w0 + s01 * w1 + s04 * w4;
+    const Sw1 = s10 * w0 - 2 * s00 * w1 + 0.5 * s01 * w4;
+    const Sw2 = -(u1 * x) * w3;
+    const Sw3 = pu * x * w2;
+    const Sw4 = s40 * w0 + 2 * s10 * w1 + s00 * w4;
+    const Cw0 = u * w2 + u1 * w3;
+    const Cw1 = -t * w2 - 2 * u1 * w3;
+    const Cw2 = 4 * u1 * (w0 + w1) - u1 * w4;
+    const Cw3 = t2u * w0 + 2 * t * w1 - u * w4;
+    const Cw4 = -t2u * w2 - 4 * u1 * w3;
+    const Xw0 = pu * w2 - u * w3;
+    const Xw1 = -2 * pu * w2 + t * w3;
+    const Xw2 = -t2u * w0 - 2 * t * w1 + u * w4;
+    const Xw3 = pu * (4 * (w0 + w1) - w4);
+    const Xw4 = -4 * pu * w2 + t2u * w3;
+    // The same for the tangent v = ∂w/∂c.
+    const Dv0 = ut4 * v0 + ud * v1 - 2 * u * u * v4;
+    const Dv1 = -td * v0 - 2 * ut4 * v1 + 0.5 * ud * v4;
+    const Dv4 = -8 * t * t * v0 - 2 * td * v1 + ut4 * v4;
+    const Sv0 = s00 * v0 + s01 * v1 + s04 * v4;
+    const Sv1 = s10 * v0 - 2 * s00 * v1 + 0.5 * s01 * v4;
+    const Sv2 = -(u1 * x) * v3;
+    const Sv3 = pu * x * v2;
+    const Sv4 = s40 * v0 + 2 * s10 * v1 + s00 * v4;
+    const Cv0 = u * v2 + u1 * v3;
+    const Cv1 = -t * v2 - 2 * u1 * v3;
+    const Cv2 = 4 * u1 * (v0 + v1) - u1 * v4;
+    const Cv3 = t2u * v0 + 2 * t * v1 - u * v4;
+    const Cv4 = -t2u * v2 - 4 * u1 * v3;
+    const Xv0 = pu * v2 - u * v3;
+    const Xv1 = -2 * pu * v2 + t * v3;
+    const Xv2 = -t2u * v0 - 2 * t * v1 + u * v4;
+    const Xv3 = pu * (4 * (v0 + v1) - v4);
+    const Xv4 = -4 * pu * v2 + t2u * v3;
+    // (∂G/∂u)·w: CC's and e's coefficients are constant.
+    const cw = w2 + w3;
+    const Uw0 = (16 * u - 4) * w0 + (16 * u - 2) * w1 - 4 * u * w4;
+    const Uw1 = -(32 * u - 12) * w0 - (32 * u - 8) * w1 + (8 * u - 1) * w4;
+    const Uw4 = -32 * t * w0 - (64 * u - 24) * w1 + (16 * u - 4) * w4;
+    const Zw0 = ds00 * w0 + ds01 * w1 + ds04 * w4;
+    const Zw1 = ds10 * w0 - 2 * ds00 * w1 + 0.5 * ds01 * w4;
+    const Zw4 = ds40 * w0 + 2 * ds10 * w1 + ds00 * w4;
+    const cMs = CS - SC;
+    const g0 = D * Uw0 + SS * Zw0 + cMs * cw;
+    const g1 = D * Uw1 + SS * Zw1 - 2 * cMs * cw;
+    const g2 = CS * (4 * (w0 + w1) - w4) - SC * (dt2u * w0 + 4 * w1 - w4) - iu2 * SS * w3;
+    const g3 = CS * (dt2u * w0 + 4 * w1 - w4) - SC * (4 * (w0 + w1) - w4) - p * iu2 * SS * w2;
+    const g4 = D * Uw4 + SS * Zw4 - CS * (dt2u * w2 + 4 * w3) + SC * (4 * w2 + dt2u * w3);
+    // v ← G·v + G_c·w, w ← G·w.
+    const nv0 = CC * v0 + D * Dv0 + SS * Sv0 + CS * Cv0 + SC * Xv0 + dCC * (w0 + Dw0) + dSS * Sw0 + dCS * Cw0 + dSC * Xw0 + du * g0;
+    const nv1 = e * v1 + D * Dv1 + SS * Sv1 + CS * Cv1 + SC * Xv1 + dCC * Dw1 + dSS * Sw1 + dCS * Cw1 + dSC * Xw1 + du * g1;
+    const nv2 = CC * v2 + SS * Sv2 + CS * Cv2 + SC * Xv2 + dCC * w2 + dSS * Sw2 + dCS * Cw2 + dSC * Xw2 + du * g2;
+    const nv3 = CC * v3 + SS * Sv3 + CS * Cv3 + SC * Xv3 + dCC * w3 + dSS * Sw3 + dCS * Cw3 + dSC * Xw3 + du * g3;
+    const nv4 = CC * v4 + D * Dv4 + SS * Sv4 + CS * Cv4 + SC * Xv4 + dCC * (w4 + Dw4) + dSS * Sw4 + dCS * Cw4 + dSC * Xw4 + du * g4;
+    const nw0 = CC * w0 + D * Dw0 + SS * Sw0 + CS * Cw0 + SC * Xw0;
+    const nw1 = e * w1 + D * Dw1 + SS * Sw1 + CS * Cw1 + SC * Xw1;
+    const nw2 = CC * w2 + SS * Sw2 + CS * Cw2 + SC * Xw2;
+    const nw3 = CC * w3 + SS * Sw3 + CS * Cw3 + SC * Xw3;
+    const nw4 = CC * w4 + D * Dw4 + SS * Sw4 + CS * Cw4 + SC * Xw4;
+    w0 = nw0;
+    w1 = nw1;
+    w2 = nw2;
+    w3 = nw3;
+    w4 = nw4;
+    v0 = nv0;
+    v1 = nv1;
+    v2 = nv2;
+    v3 = nv3;
+    v4 = nv4;
+    const big = Math.max(Math.abs(w0), Math.abs(w1), Math.abs(w2), Math.abs(w3), Math.abs(w4));
+    if (!(big < RESCALE_ABOVE && big > RESCALE_BELOW) && big > 0 && big < Infinity) {
+      const ex = Math.round(Math.log2(big));
+      const f = 2 ** -ex;
+      w0 *= f;
+      w1 *= f;
+      w2 *= f;
+      w3 *= f;
+      w4 *= f;
+      v0 *= f;
+      v1 *= f;
+      v2 *= f;
+      v3 *= f;
+      v4 *= f;
+      exponent += ex;
+    }
+  }
+  const q2 = qPrev * qPrev;
+  w1 *= qPrev;
+  w2 *= qPrev;
+  w3 *= qPrev;
+  w4 *= q2;
+  v1 *= qPrev;
+  v2 *= qPrev;
+  v3 *= qPrev;
+  v4 *= q2;
+  secularScale.exponent = exponent;
+  secularSlope.scale = slope;
+  // The half-space's bivector and its c-derivative (halfspaceMinors), paired with w and v (pair5).
+  halfspaceMinors(s, c, nH, dnH);
+  const pair = (y0: number, y1: number, y2: number, y3: number, y4: number, n: Float64Array) =>
+    y0 * n[5] - y1 * (n[4] - n[1]) + y2 * n[3] + y3 * n[2] + y4 * n[0];
+  out.value = pair(w0, w1, w2, w3, w4, nH);
+  out.dc = pair(v0, v1, v2, v3, v4, nH) + pair(w0, w1, w2, w3, w4, dnH);
+  out.dk = NaN;
+  return out;
+}
+
+/** dS/da of derivFunctions (S = sinh(√a L)/√a, scaled by `scale`), by series for small |a|L². */
+function dSdaOf(a: number, L: number, C: number, S: number, scale: number): number {
+  const aL2 = a * L * L;
+  if (Math.abs(aL2) < 0.1) {
+    const L3 = L * L * L;
+    return scale * L3 * (1 / 6 + aL2 * (1 / 60 + aL2 * (1 / 1680 + aL2 * (1 / 90720 + aL2 / 7983360))));
+  }
+  return (L * C - S) / (2 * a);
 }

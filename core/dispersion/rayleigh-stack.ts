@@ -260,13 +260,14 @@ export class RayleighStackSolver {
       let f2 = NaN;
       let g2 = NaN;
       let phi2 = NaN;
-      if (c1 < top) {
+      const change = f1 === 0 || f0 * f1 < 0;
+      // The look-ahead is not needed when this cell's root is the last one asked for.
+      if (c1 < top && !(change && o.found + 1 >= modes)) {
         c2 = this.nextPoint(c1, phi1, top);
         phi2 = this.nextPhase;
         f2 = this.f(c2);
         g2 = magnitude(f2);
       }
-      const change = f1 === 0 || f0 * f1 < 0;
       if (change) {
         this.refine(c0, f0, c1, f1, out, modes);
       } else if (f0 !== 0) {
