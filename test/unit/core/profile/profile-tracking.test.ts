@@ -88,6 +88,39 @@ describe('the forward step of the layered estimate, tracked and warm-started', (
   }
 });
 
+describe('the screening form of the forward step (search samples and refinement steps only)', () => {
+  it('predicts Rayleigh picks exactly as the verified form where no speed decreases with depth, and under a low-velocity layer tracks instead of solving every pick in full', () => {
+    const rand = mulberry32(21);
+    let lowVelocity = 0;
+    let fullVerified = 0;
+    let fullScreened = 0;
+    for (let t = 0; t < 60; t++) {
+      const m = randomModel(rand);
+      const picks = picksOf(24, 1, rand);
+      const verified = new Float64Array(picks.n);
+      const screened = new Float64Array(picks.n);
+      let before = forwardWork.fullSolves;
+      predictPicks(picks, m, verified);
+      fullVerified += forwardWork.fullSolves - before;
+      before = forwardWork.fullSolves;
+      const screenedBefore = forwardWork.screenedModels;
+      predictPicks(picks, m, screened, undefined, undefined, true);
+      expect(forwardWork.screenedModels - screenedBefore).toBe(1);
+      const all = [...m.layers, m.halfspace];
+      const decreases = all.some((l, j) => j > 0 && (l.vs < all[j - 1].vs || l.vp < all[j - 1].vp));
+      if (decreases) {
+        lowVelocity++;
+        fullScreened += forwardWork.fullSolves - before;
+      } else {
+        for (let i = 0; i < picks.n; i++) expect(screened[i]).toBe(verified[i]);
+      }
+    }
+    expect(lowVelocity).toBeGreaterThan(10);
+    // Verified: every pick of a low-velocity model in full; screened: about one per model.
+    expect(fullScreened).toBeLessThan(fullVerified / 4);
+  }, 60_000);
+});
+
 describe('the wavelength–depth start (common practice)', () => {
   it('puts interfaces in order inside the box, speeds from 1.1 × the picked velocity, the half-space the fastest', () => {
     const v = [400, 330, 260, 210, 190, 185];
