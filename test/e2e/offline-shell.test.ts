@@ -12,7 +12,6 @@ import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
   freePort,
-  launchBrowser,
   openApp,
   openTab,
   reload,
@@ -145,14 +144,16 @@ describe('the installable app shell', () => {
 
 describe('updates wait for the user', () => {
   it('a newer build installs and waits; it takes over only when the page sends SKIP_WAITING', async () => {
-    const port = await freePort();
+    // An origin of its own (a port the app above never used, so no service worker is registered
+    // for it yet), opened in a new tab of the same browser rather than a second browser.
+    let port = await freePort();
+    while (port === app.server.port) port = await freePort();
     const v1 = await startPreview(port);
-    const browser = await launchBrowser();
+    const page = await app.browser.context.newPage();
     // The "newer build": the same app with a service worker that differs by one comment.
     const newer = mkdtempSync(join(tmpdir(), 'shearfield-newer-'));
     let v2: Awaited<ReturnType<typeof startPreview>> | undefined;
     try {
-      const page = browser.context.pages()[0] ?? (await browser.context.newPage());
       await page.goto(v1.url, { waitUntil: 'load' });
       await waitForServiceWorkerControl(page);
       await v1.stop();
@@ -181,7 +182,7 @@ describe('updates wait for the user', () => {
       expect(tookOver.waiting).toBeNull();
       expect(['activating', 'activated']).toContain(tookOver.active);
     } finally {
-      await browser.close();
+      await page.close();
       await v1.stop();
       await v2?.stop();
       rmSync(newer, { recursive: true, force: true });
