@@ -8,7 +8,8 @@
  *   office tests spend much of their time waiting on Chromium, the office
  *   server or the app's compute worker.
  * - The longest files start first (test/long-first-sequencer.ts), so that
- *   no long file starts near the end and runs alone.
+ *   no long file starts near the end and runs alone; every run writes each
+ *   file's time to test-results/file-times.json (test/file-times-reporter.ts).
  */
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
@@ -27,7 +28,7 @@ export default mergeConfig(
       hookTimeout: 120_000,
       maxWorkers: Math.max(2, availableParallelism() - 1),
       sequence: { sequencer: LongFirstSequencer },
-      reporters: ['default', './test/summary-reporter.ts'],
+      reporters: ['default', './test/file-times-reporter.ts', './test/summary-reporter.ts'],
       projects: [
         { extends: true, test: { name: 'tests', include: ['test/**/*.test.ts', 'test/**/*.test.tsx'], exclude: [...configDefaults.exclude] } },
       ],
