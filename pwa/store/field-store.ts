@@ -30,7 +30,7 @@ import {
 } from '../../core/exchange/records';
 import type { GeometryOverrides } from '../../core/recordings/recording';
 import { SCHEMA_VERSION, upgradeTo, type FieldDB, type OutboxEntry } from './schema';
-import { checkEstimate, checkPick, checkRecord, checkRecording, checkSite, pickOf } from './validate';
+import { checkEstimate, checkPick, checkRecord, checkRecording, checkSite, loadSiteModelCheck, needsSiteModelCheck, pickOf } from './validate';
 import { recordingOfInput, roomFor, sha256Hex, type StorageEstimate } from './recordings';
 
 /** A store failure, in plain words; `field` names the bad field when the input was at fault. */
@@ -348,6 +348,7 @@ class IdbFieldStore implements FieldStore {
   }
 
   async saveSite(site: SiteRecord): Promise<SiteRecord> {
+    if (needsSiteModelCheck(site)) await loadSiteModelCheck();
     check(() => checkSite(site));
     const record: SiteRecord = { ...site };
     await this.write(['sites', 'outbox'], 'the site', async (tx) => {
@@ -539,6 +540,7 @@ class IdbFieldStore implements FieldStore {
 
   async putIncoming(records: StoredRecord[], options: IncomingOptions = {}): Promise<string[]> {
     if (!Array.isArray(records)) throw new StoreError('The incoming records must be a list.', { field: 'records' });
+    if (records.some(needsSiteModelCheck)) await loadSiteModelCheck();
     const clean = records.map((r, i) => {
       try {
         return checkRecord(r);

@@ -12,7 +12,7 @@ import { checkRecordLimits } from '../../core/exchange/record-limits';
 import { InputError, describeValue } from '../../core/shared/errors';
 import { checkDensity, checkShearSpeed, checkThickness } from '../../core/dispersion/model';
 import { validatePick, type Pick } from '../../core/picks/picks';
-import { checkSiteModel, type AnyRecord, type EstimateRecord, type EstimateSettings, type PickRecord, type RecordingRecord, type SiteRecord, type StoredRecord } from '../../core/exchange/records';
+import type { AnyRecord, EstimateRecord, EstimateSettings, PickRecord, RecordingRecord, SiteRecord, StoredRecord } from '../../core/exchange/records';
 import { checkRecordingFields } from '../../core/exchange/recording-record';
 
 /** Text limits for site fields (common practice). */
@@ -109,7 +109,21 @@ export function checkEstimateSettings(s: EstimateSettings | undefined, field = '
   }
 }
 
-/** Checks a site record; throws InputError naming the first bad field. */
+/** The check of a site's layer-builder model (core/site/site-model.ts), loaded on first need: it is not part of the first download. */
+let siteModelCheck: ((value: unknown, field: string) => unknown) | undefined;
+
+/** Loads the site model's check; the store awaits it before checking records that may carry a model. */
+export async function loadSiteModelCheck(): Promise<void> {
+  siteModelCheck ??= (await import('../../core/site/site-model')).checkSiteModel;
+}
+
+/** True when a record is a site carrying a layer-builder model (its own or a kept version's), so its check must be loaded first. */
+export function needsSiteModelCheck(r: unknown): boolean {
+  const site = r as Partial<SiteRecord> | null;
+  return !!site && site.type === 'site' && (site.layeredModel !== undefined || (site.conflicts ?? []).some((c) => (c.record as Partial<SiteRecord>).layeredModel !== undefined));
+}
+
+/** Checks a site record; throws InputError naming the first bad field (a site with a model: after loadSiteModelCheck). */
 export function checkSite(site: SiteRecord): void {
   checkMeta(site, 'site');
   text(site.name, 'name', SITE_TEXT_LIMITS.name, true);
@@ -136,7 +150,12 @@ export function checkSite(site: SiteRecord): void {
     }
   }
   checkEstimateSettings(site.settings);
-  if (site.layeredModel !== undefined) checkSiteModel(site.layeredModel, 'layeredModel');
+  if (site.layeredModel !== undefined) {
+    if (!siteModelCheck) {
+      throw new InputError('layeredModel', 'The layer builder model could not be checked: its checks are not loaded (loadSiteModelCheck); nothing was saved.');
+    }
+    siteModelCheck(site.layeredModel, 'layeredModel');
+  }
 }
 
 /** The Pick part of a pick record (what core/picks/picks.ts validates). */

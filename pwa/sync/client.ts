@@ -39,7 +39,7 @@ import { hasConflicts, planMerge } from '../../core/exchange/sync';
 import type { ErrorResponse, PullResponse, PushResponse, StatusResponse } from '../../core/exchange/sync-protocol';
 import { StoreError, type FieldStore } from '../store';
 import { pullRecordings, pushRecordings, RECORDINGS_CURSOR_KEY } from './recording-sync';
-import { checkRecord as checkFieldRecord } from '../store/validate';
+import { checkRecord as checkFieldRecord, loadSiteModelCheck, needsSiteModelCheck } from '../store/validate';
 
 /** Settings keys in the field store. */
 export const SYNC_KEYS = {
@@ -530,6 +530,7 @@ export class SyncClient {
     };
     const good: AnyRecord[] = [];
     const indexOf = new Map<string, number>();
+    if (incoming.some(needsSiteModelCheck)) await loadSiteModelCheck();
     incoming.forEach((r, i) => {
       try {
         checkFieldRecord(r);

@@ -1,14 +1,15 @@
 /**
  * The layer builder's model kept with a site (core/exchange/records.ts
- * SiteLayeredModel): its checks (one sentence naming the layer and field),
+ * SiteLayeredModel): its checks (core/site/site-model.ts checkSiteModel) (one sentence naming the layer and field),
  * its trip through a bundle and a sync push check, and the merge rules it
  * follows as a site field. The models are invented.
  */
 import { describe, expect, it } from 'vitest';
 import { bundleToJson, checkRecord, makeBundle, parseBundle, planBundleImport } from '../../../../core/exchange/bundle';
-import { checkSiteModel, nextRevision, type SiteLayeredModel, type SiteRecord } from '../../../../core/exchange/records';
+import { checkSiteModel } from '../../../../core/site/site-model';
+import { nextRevision, type SiteLayeredModel, type SiteRecord } from '../../../../core/exchange/records';
 import { mergeRecord } from '../../../../core/exchange/sync';
-import { checkSite } from '../../../../pwa/store/validate';
+import { checkSite, loadSiteModelCheck } from '../../../../pwa/store/validate';
 import { inputError } from '../../../input-error';
 
 const T0 = '2026-05-04T08:00:00.000Z';
@@ -83,7 +84,8 @@ describe('a site layered model: checks', () => {
     });
   }
 
-  it('the field store refuses a site whose model is bad, naming the layer and field', () => {
+  it('the field store refuses a site whose model is bad, naming the layer and field', async () => {
+    await loadSiteModelCheck();
     const e = inputError(() => checkSite(site(edited((m) => (m.model.layers[0].vs_m_s = -5)))));
     expect(e.message).toBe('layeredModel.model.layers[0].vs_m_s must be greater than 0 m/s, but it is -5.');
   });
