@@ -30,12 +30,22 @@
  *    two close roots of an osculation (two branches that nearly touch, e.g.
  *    a mode of a buried low-velocity layer meeting one of the crust) are
  *    both reported; if it does not, the outcome notes the close approach;
- *    Beside a root the slope on that side says nothing (|F| may turn
- *    between the root and a pair), so by default (`careful`) such a cell
- *    is judged by its far side only and searched otherwise; the fast mode
- *    (careful = false) uses both slopes always and a coarser grid (π/5 of
- *    phase, 6 % of c), about a third of the work, and can miss a close
- *    pair within two cells of a third root: curves use it and check each
+ *    Beside a root r the slope on that side says little: |F| falls
+ *    towards r anyway and may turn between r and a pair. So by default
+ *    (`careful`) such a cell is judged by its far side first, and a cell
+ *    that passes is searched unless a second test rules the pair out: the
+ *    root of the next cell is refined first, the factor (c − r) of each
+ *    neighbouring root is divided out of F̃ (d ln|F̃/(c − r)|/dc =
+ *    d ln|F̃|/dc − 1/(c − r)), and where the two slopes of what is left,
+ *    times the cell's width w, are both small (the rest is flat over the
+ *    cell) a pair r₁, r₂ would still make them rise by at least 4 across
+ *    it (1/(c − r₁) + 1/(c − r₂) goes from below −2/w to above 2/w); a
+ *    rise below 2 rules it out (PAIR_RISE, PAIR_FLAT, NEAR_ROOT_CELLS;
+ *    the same roots as searching every such cell on 75,000 seeded random
+ *    solves of every mode, and rayleigh-close-pairs.test.ts). The
+ *    fast mode (careful = false) uses both plain slopes always and a
+ *    coarser grid (π/5 of phase, 6 % of c), and can miss a close pair
+ *    within two cells of a third root: curves use it and check each
  *    frequency against its neighbours (curve.ts followModes);
  *  - each sign change is refined by Brent's method (core/numeric/roots.ts).
  *
@@ -106,6 +116,23 @@ const HALFSPACE_STEP = 0.05;
 const RELATIVE_STEP = 0.04;
 /** The same in the fast mode. */
 const FAST_RELATIVE_STEP = 0.06;
+/**
+ * Careful mode, a cell beside a root that its far side lets pass (valley):
+ * a pair is ruled out where the slopes of ln|F̃/(c − r)| times the cell's
+ * width rise by less than PAIR_RISE across it and neither exceeds
+ * PAIR_FLAT in size. A pair makes the rise at least 4 where the rest of F
+ * is flat over the cell. Over 60,000 seeded random solves (every mode;
+ * models as in rayleigh-random.test.ts, half with a very soft layer at
+ * depth; mulberry32 seeds 1–4), the 64 pairs that the far-side test let
+ * through had a rise of 7.8 or more, a slope of 17 or more in size, or a
+ * root within 0.05 cells; about three quarters of the other cells it let
+ * through (no pair) are ruled out.
+ */
+const PAIR_RISE = 2;
+/** The largest |slope|·width at either end of a cell that still counts as flat (see PAIR_RISE). */
+const PAIR_FLAT = 4;
+/** … unless a neighbouring root lies within this fraction of the cell's width of its end. */
+const NEAR_ROOT_CELLS = 0.1;
 /** Two roots closer than this (relative) are reported as a close approach of two branches. */
 export const CLOSE_ROOTS_RTOL = 1e-3;
 /** Iterations of the minimiser when probing a local minimum of |F|. */
@@ -172,6 +199,9 @@ export class RayleighStackSolver {
   private readonly slopeAt = new Float64Array([NaN, NaN]);
   private readonly slopeVal = new Float64Array(2);
   private slopeNext = 0;
+  /** A root refined ahead of its cell's turn (solve), and the lower end of that cell (NaN: none). */
+  private ahead: { x: number; status: RootStatus } = { x: NaN, status: 'converged' };
+  private aheadAt = NaN;
   private readonly f = (c: number): number => {
     this.outcome.evaluations++;
     return rayleighSecular(this.stack, this.omega, c);
@@ -241,15 +271,30 @@ export class RayleighStackSolver {
     if (!(omega > 0) || modes <= 0 || !(this.floor > 0)) return 0;
     this.omega = omega;
     const top = this.stack.vsH;
-    let c0 = start !== undefined && start > this.floor && start < this.stack.vsH ? start : this.floor;
+    const fromFloor = !(start !== undefined && start > this.floor && start < this.stack.vsH);
+    let c0 = fromFloor ? this.floor : (start as number);
+    // From the floor, one grid step below it too, so that the first cell is judged like any other (with a
+    // neighbour below, not as walled in by the unknown); a root there is reported too.
+    const cBehind = c0 / (1 + (this.careful ? RELATIVE_STEP : FAST_RELATIVE_STEP));
+    const fBehind = fromFloor ? this.f(cBehind) : NaN;
+    let gPrev = fromFloor ? magnitude(fBehind) : NaN;
     let f0 = this.f(c0);
     let g0 = magnitude(f0);
     let c1 = this.nextPoint(c0, this.phase(c0), top);
     let phi1 = this.nextPhase;
     let f1 = this.f(c1);
     let g1 = magnitude(f1);
-    let gPrev = NaN;
     let changePrev = false;
+    // The root of the cell just left (NaN if none), and a root refined ahead of its turn: that of the next
+    // cell, found before the cell beside it is judged (careful mode), kept until its own cell comes.
+    let rootPrev = NaN;
+    this.aheadAt = NaN;
+    if (fromFloor && (f0 === 0 || fBehind * f0 < 0)) {
+      const r = this.root(cBehind, fBehind, c0, f0);
+      this.emit(r.x, r.status, modes, out);
+      rootPrev = r.x;
+      changePrev = true;
+    }
     // Each cell (c0, c1) is settled with its neighbours' values at hand (one grid point of look-ahead).
     while (o.found < modes) {
       if (c0 >= top) {
@@ -269,7 +314,9 @@ export class RayleighStackSolver {
         g2 = magnitude(f2);
       }
       if (change) {
-        this.refine(c0, f0, c1, f1, out, modes);
+        const r = c0 === this.aheadAt ? this.ahead : this.root(c0, f0, c1, f1);
+        this.emit(r.x, r.status, modes, out);
+        rootPrev = r.x;
       } else if (f0 !== 0) {
         // Two close roots pull |F| down towards the cell from both sides: search a cell whose |F| is
         // lower at each end than beyond it (a root next door counts as lower beyond), or whose end is a
@@ -279,8 +326,18 @@ export class RayleighStackSolver {
         const rightWall = c1 >= top || g1 < g2 || changeNext;
         const dipLeft = g0 < gPrev && g0 <= g1;
         const dipRight = c1 < top && g1 < g0 && g1 <= g2;
-        if (((leftWall && rightWall) || dipLeft || dipRight) && this.valley(c0, c1, top, changePrev, changeNext)) this.probe(c0, f0, c1, f1, out, modes);
+        if ((leftWall && rightWall) || dipLeft || dipRight) {
+          let rootNext = NaN;
+          if (changeNext && this.careful) {
+            // The next cell's root, found now so that the judgement of this cell can take it out.
+            this.ahead = this.root(c1, f1, c2, f2);
+            this.aheadAt = c1;
+            rootNext = this.ahead.x;
+          }
+          if (this.valley(c0, c1, top, changePrev, changeNext, rootPrev, rootNext)) this.probe(c0, f0, c1, f1, out, modes);
+        }
       }
+      if (!change) rootPrev = NaN;
       gPrev = g0;
       changePrev = change;
       c0 = c1;
@@ -327,31 +384,62 @@ export class RayleighStackSolver {
    * cell that ends at β_H, where F is analytic in r_β, not in c. A NaN
    * slope counts as a valley.
    */
-  private valley(ca: number, cb: number, top: number, rootLeft: boolean, rootRight: boolean): boolean {
+  private valley(ca: number, cb: number, top: number, rootLeft: boolean, rootRight: boolean, rPrev: number, rNext: number): boolean {
     if (cb >= top) return true;
-    // Beside a root, the slope on that side says nothing (|F̃| may turn between the root and a pair).
-    const useLeft = !(this.careful && rootLeft);
-    const useRight = !(this.careful && rootRight);
-    if (!useLeft && !useRight) return true;
-    // Beside a root on the right, |F̃| most often falls into cb: look there first.
-    if (useRight && rootRight && this.logSlope(cb) <= 0) return false;
-    if (useLeft) {
-      const s = this.stack;
-      let left = this.logSlope(ca);
-      // A wave whose speed v lies in (ca, cb] has its factor e^{−√a L} taken back out at ca: the
-      // function judged, F̃·e^{√a L}, is then analytic over the cell (and its slope at ca only lower).
-      for (let j = 0; j < s.count; j++) {
-        const L = (this.omega / ca) * s.thickness[j];
-        const xj = (ca * ca) / (s.vs[j] * s.vs[j]);
-        if (s.vs[j] > ca && s.vs[j] <= cb) left -= (L * xj) / (ca * Math.sqrt(1 - xj));
-        const pj = s.p[j];
-        if (s.vp[j] > ca && s.vp[j] <= cb) left -= (L * pj * xj) / (ca * Math.sqrt(1 - pj * xj));
-      }
+    if (!(this.careful && (rootLeft || rootRight))) {
+      // Both slopes (fast mode, or careful with no root beside). Beside a root on the right, |F̃| most
+      // often falls into cb: look there first.
+      if (rootRight && this.logSlope(cb) <= 0) return false;
+      if (this.leftSlope(ca, cb) >= 0) return false;
+      return rootRight || !(this.logSlope(cb) <= 0);
+    }
+    // Careful, beside a root: the slope on the root's side says nothing, so the far side judges first.
+    let left = NaN;
+    if (!rootLeft) {
+      left = this.leftSlope(ca, cb);
       if (left >= 0) return false;
     }
-    return !useRight || rootRight || !(this.logSlope(cb) <= 0);
+    if (!rootRight && this.logSlope(cb) <= 0) return false;
+    // The far side allows a pair. Divide the factors (c − r) of the neighbouring roots out of F̃, leaving
+    // G̃ = F̃/Π(c − r), and read the slopes S_a, S_b of ln|G̃| at both ends (w = cb − ca). A pair r₁ < r₂ in
+    // the cell adds 1/(c − r₁) + 1/(c − r₂) to them, below −2/w at ca and above 2/w at cb: where the rest of
+    // G̃ is flat over the cell, the slopes rise by at least 4/w across it. The pair is ruled out only where
+    // they rise by less than PAIR_RISE/w and both are flat (|S|·w ≤ PAIR_FLAT: steeper, more roots or near
+    // misses crowd the cell, and the rest of G̃ may turn within it), and no root lies within
+    // NEAR_ROOT_CELLS·w of the cell (its own pull then dwarfs a pair's).
+    const w = cb - ca;
+    if ((rootLeft && ca - rPrev < NEAR_ROOT_CELLS * w) || (rootRight && rNext - cb < NEAR_ROOT_CELLS * w)) return true;
+    let dLeft = 0;
+    let dRight = 0;
+    if (rootLeft) {
+      dLeft += 1 / (ca - rPrev);
+      dRight += 1 / (cb - rPrev);
+    }
+    if (rootRight) {
+      dLeft += 1 / (ca - rNext);
+      dRight += 1 / (cb - rNext);
+    }
+    if (Number.isNaN(left)) left = this.leftSlope(ca, cb);
+    const sa = (left - dLeft) * w;
+    const sb = (this.logSlope(cb) - dRight) * w;
+    return !(sb - sa < PAIR_RISE && Math.abs(sa) <= PAIR_FLAT && Math.abs(sb) <= PAIR_FLAT);
   }
 
+  /** d ln|F̃|/dc at ca, with the factor e^{−√a L} of each wave whose speed lies in (ca, cb] taken back out. */
+  private leftSlope(ca: number, cb: number): number {
+    const s = this.stack;
+    let left = this.logSlope(ca);
+    // A wave whose speed v lies in (ca, cb] has its factor e^{−√a L} taken back out at ca: the
+    // function judged, F̃·e^{√a L}, is then analytic over the cell (and its slope at ca only lower).
+    for (let j = 0; j < s.count; j++) {
+      const L = (this.omega / ca) * s.thickness[j];
+      const xj = (ca * ca) / (s.vs[j] * s.vs[j]);
+      if (s.vs[j] > ca && s.vs[j] <= cb) left -= (L * xj) / (ca * Math.sqrt(1 - xj));
+      const pj = s.p[j];
+      if (s.vp[j] > ca && s.vp[j] <= cb) left -= (L * pj * xj) / (ca * Math.sqrt(1 - pj * xj));
+    }
+    return left;
+  }
 
   /**
    * The cell (ca, cb), whose ends have one sign, may hide two close roots:

@@ -1,14 +1,15 @@
 /**
  * The careful Rayleigh scan (the solver's default) never skips a close pair
- * of roots beside a third root: five seeded cases where two branches come
+ * of roots beside a third root: six seeded cases where two branches come
  * within 0.2–1.1 % of each other next to another mode, in or beside the
  * cell of that mode's root, where the scan judges whether to search a cell
  * whose ends share a sign (rayleigh-stack.ts, valley). Each case was found
- * by a seeded search (mulberry32 seeds 1–3, 15,000 solves each, models as
+ * by a seeded search (mulberry32 seeds 1–4, 15,000 solves each, models as
  * in rayleigh-random.test.ts, every other one with a very soft layer at
- * depth) as a pair that a weaker judgement missed: the slope on the root's
- * side with the root divided out (all five), or the rise of that slope
- * across the cell without the near-root guard (the first).
+ * depth) as a pair that a weaker judgement of that cell missed: reading the
+ * slope on the root's side with the root divided out (the first five), or
+ * the rise of the slopes across the cell without its guards for steep
+ * slopes and a root within 0.1 cells (the first and the last).
  *
  * Reference: a dense scan of the plain six-minor secular function
  * (rayleighSecularReference, not the solver's five-minor step) over the
@@ -61,6 +62,12 @@ const CASES: PairCase[] = [
     pair: [338.9888, 339.9749],
     window: [304.4693, 344.0139],
     model: {layers: [{thickness: 26.3697058808757, vs: 556.8623210024089, vp: 1232.6153087817552, density: 1812.4871014151722}, {thickness: 27.9766813153401, vs: 236.9171370472759, vp: 1500, density: 1809.6163589507341}, {thickness: 18.967668770463206, vs: 597.8501305449754, vp: 1358.3164208561898, density: 1948.6289157066494}, {thickness: 11.026454000850208, vs: 95.41276613250375, vp: 186.0081500441613, density: 1969.8349351529032}], halfspace: {vs: 617.6546872585063, vp: 1117.726552620026, density: 2025.71842642501}},
+  },
+  {
+    f: 44.07083023795374,
+    pair: [156.8762, 157.5455],
+    window: [146.5753, 158.1677],
+    model: {layers: [{thickness: 20.54591854836326, vs: 165.43024306185544, vp: 525.197855856563, density: 1848.8614598754793}, {thickness: 14.42434008908458, vs: 120.6541883200407, vp: 198.14338171763248, density: 2105.512611102313}, {thickness: 19.71120626514312, vs: 736.8180778250098, vp: 1940.0402818021723, density: 1500.1955702900887}, {thickness: 15.179402878507972, vs: 65.1457409048453, vp: 1500, density: 2164.7068082820624}], halfspace: {vs: 700.4219807766177, vp: 1081.4429515166278, density: 2458.30922042951}},
   },
 ];
 
