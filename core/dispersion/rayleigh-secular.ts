@@ -1237,12 +1237,15 @@ export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number,
   secularSlope.scale = slope;
   // The half-space's bivector and its c-derivative (halfspaceMinors), paired with w and v (pair5).
   halfspaceMinors(s, c, nH, dnH);
-  const pair = (y0: number, y1: number, y2: number, y3: number, y4: number, n: Float64Array) =>
-    y0 * n[5] - y1 * (n[4] - n[1]) + y2 * n[3] + y3 * n[2] + y4 * n[0];
-  out.value = pair(w0, w1, w2, w3, w4, nH);
-  out.dc = pair(v0, v1, v2, v3, v4, nH) + pair(w0, w1, w2, w3, w4, dnH);
+  out.value = pairScalars(w0, w1, w2, w3, w4, nH);
+  out.dc = pairScalars(v0, v1, v2, v3, v4, nH) + pairScalars(w0, w1, w2, w3, w4, dnH);
   out.dk = NaN;
   return out;
+}
+
+/** pair5 of the five minors given one by one. */
+function pairScalars(y0: number, y1: number, y2: number, y3: number, y4: number, n: Float64Array): number {
+  return y0 * n[5] - y1 * (n[4] - n[1]) + y2 * n[3] + y3 * n[2] + y4 * n[0];
 }
 
 /** dS/da of derivFunctions (S = sinh(√a L)/√a, scaled by `scale`), by series for small |a|L². */

@@ -141,6 +141,7 @@ const PROBE_ITERATIONS = 40;
 const PROBE_RTOL = 1e-10;
 /** Brent's relative tolerance for the roots (about 100 units of rounding; F is not better conditioned). */
 const ROOT_RTOL = 2e-14;
+const ROOT_OPTIONS = { rtol: ROOT_RTOL };
 
 /** A pair of roots (or a near miss) so close that two branches osculate or cross there. */
 export interface CloseApproach {
@@ -535,7 +536,7 @@ export class RayleighStackSolver {
 
   /** The root of a cell with a sign change (Brent), not yet written. */
   private root(a: number, fa: number, b: number, fb: number): { x: number; status: RootStatus } {
-    const r = brent(this.f, a, b, fa, fb, { rtol: ROOT_RTOL });
+    const r = brent(this.f, a, b, fa, fb, ROOT_OPTIONS);
     return { x: r.x, status: r.status };
   }
 
