@@ -341,7 +341,8 @@ export function predictPicks(picks: ForwardPicks, model: ForwardModel, out: Floa
       engine = engines[w] = factory(model, screening);
     }
     const omega = picks.omega[i];
-    const g = guesses && spread <= (w === 0 ? LOVE_WARM_SPREAD : RAYLEIGH_WARM_SPREAD) ? guesses[i] : NaN;
+    // (The first Love pick of a curve takes its guess at any move: the Sturm count verifies it, and else it is solved in full.)
+    const g = guesses && (spread <= (w === 0 ? LOVE_WARM_SPREAD : RAYLEIGH_WARM_SPREAD) || (w === 0 && Number.isNaN(c1))) ? guesses[i] : NaN;
     // The nearby model's root, else the curve tracked from the higher frequencies, else the full solver.
     const old = guesses ? guesses[i] : NaN;
     let c = Number.isNaN(g) ? NaN : near(engine, omega, mode, g, width);

@@ -14,8 +14,9 @@
  * rate is held to the same N, as the parameters of one trial are not
  * independent).
  *
- * Sizes: the issue asks for at least 200 trials per case. At about a
- * second per Rayleigh trial that is minutes, too long for npm test, so
+ * Sizes: the issue asks for at least 200 trials per case. At about 0.6 s
+ * of one core per Rayleigh or joint trial (the bench, 2026-12) that is
+ * minutes, too long for npm test, so
  * npm test runs 12 trials of each Rayleigh case and 24 Love trials with a
  * lighter search and ensemble (LIGHT), about 40 s of one core, and the
  * bands are correspondingly wide (at 12 trials a 95 % rate must reach
