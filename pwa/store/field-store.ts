@@ -11,6 +11,14 @@
  *   let the transaction commit half-way).
  * - Revisions: rev 1 creates a record; any other rev must be exactly one
  *   above the stored one, else the edit is stale and is refused.
+ * - A site revision saved with `amendUnsent` folds into the stored one when
+ *   that one never left the device (no push or bundle export has read it
+ *   since it was saved, and none is under way: `whileSending`): the new
+ *   revision's history then leaves the folded revision's key out, so a long
+ *   run of edits between syncs stays one step from what the office holds
+ *   (core/exchange/revision.ts keeps at most 64 ancestors). A revision that
+ *   may have left keeps its key in the history, so it is superseded, never
+ *   set beside the new one as a conflict.
  * - A failed write (full storage, an aborted transaction, a closed
  *   database) rejects with a StoreError in plain words, and the transaction
  *   is rolled back, so nothing changes.
@@ -29,6 +37,7 @@ import {
   type StoredRecord,
 } from '../../core/exchange/records';
 import type { GeometryOverrides } from '../../core/recordings/recording';
+import { HISTORY_LIMIT, revisionKey } from '../../core/exchange/revision';
 import { SCHEMA_VERSION, upgradeTo, type FieldDB, type OutboxEntry } from './schema';
 import { checkEstimate, checkPick, checkRecord, checkRecording, checkSite, loadSiteModelCheck, needsSiteModelCheck, pickOf } from './validate';
 import { recordingOfInput, roomFor, sha256Hex, type StorageEstimate } from './recordings';
@@ -51,7 +60,7 @@ export interface FieldStore {
   /** A site by id (deleted ones too: check `deleted`). */
   getSite(id: string): Promise<SiteRecord | undefined>;
   /** Saves a site revision (rev 1 creates; else the stored rev must be rev − 1). Returns what was stored. */
-  saveSite(site: SiteRecord): Promise<SiteRecord>;
+  saveSite(site: SiteRecord, options?: SaveSiteOptions): Promise<SiteRecord>;
   /** Deletes a site as tombstones: the site, its picks and its estimates each get a deleted revision. */
   deleteSite(id: string): Promise<void>;
   /** The site's picks that are not deleted, by `order`. */
@@ -72,6 +81,12 @@ export interface FieldStore {
   outbox(): Promise<OutboxEntry[]>;
   /** Removes acknowledged entries from the outbox. */
   ackOutbox(seqs: number[]): Promise<void>;
+  /**
+   * Runs `send` (a push, a bundle export: anything that reads records to
+   * send them off the device) marked as a send, so that no site revision it
+   * may read is amended afterwards (see `SaveSiteOptions.amendUnsent`).
+   */
+  whileSending<T>(send: () => Promise<T>): Promise<T>;
   /** Every record, tombstones included (for export and sync). */
   allRecords(): Promise<AnyRecord[]>;
   /**
@@ -120,6 +135,20 @@ export interface SaveRecordingInput {
   overrides?: GeometryOverrides;
   /** Whether the raw bytes travel. @default the site's choice, else false */
   attach?: boolean;
+}
+
+/** @see FieldStore.saveSite */
+export interface SaveSiteOptions {
+  /**
+   * Fold this revision into the stored one when the stored one never left
+   * the device (saved here in the current send generation, with no send
+   * under way): the new revision's history leaves the stored revision's key
+   * out. For edits that come in long runs (the layer builder's cells), so
+   * that more than 64 of them between syncs do not outgrow the history the
+   * office needs to see the edit as made from its own revision.
+   * @default false
+   */
+  amendUnsent?: boolean;
 }
 
 /** How openFieldStore opens the store. */
@@ -286,6 +315,36 @@ function outboxEntry(r: StoredRecord, queuedAt: string): OutboxEntry {
   return { recordId: r.id, type: r.type, rev: r.rev, queuedAt } as OutboxEntry;
 }
 
+/** Settings key of the send state: `{ gen, active }` (see `whileSending`). */
+export const SENDING_KEY = 'outbox.sending';
+/** A send marked longer ago than this is taken as abandoned (the page closed during it). */
+const SEND_LEASE_MS = 60 * 60 * 1000;
+
+/** The send generation and the sends under way (id → start, ms since 1970). */
+interface SendingState {
+  gen: number;
+  active: Record<string, number>;
+}
+
+function sendingStateOf(value: unknown, now = Date.now()): SendingState {
+  const v = value as Partial<SendingState> | undefined;
+  const gen = typeof v?.gen === 'number' && Number.isInteger(v.gen) ? v.gen : 0;
+  const active: Record<string, number> = {};
+  for (const [id, at] of Object.entries(v?.active ?? {})) if (typeof at === 'number' && now - at < SEND_LEASE_MS) active[id] = at;
+  return { gen, active };
+}
+
+/**
+ * The history of a revision that folds into the stored one: the stored
+ * revision's own history and any further keys the new one names (e.g. a
+ * resolved conflict's), without the stored revision's key, newest 64 kept.
+ */
+function amendedHistory(stored: SiteRecord, incoming: SiteRecord): string[] {
+  const storedKey = revisionKey(stored);
+  const keys = [...new Set([...(stored.history ?? []), ...(incoming.history ?? [])])].filter((k) => k !== storedKey);
+  return keys.length > HISTORY_LIMIT ? keys.slice(keys.length - HISTORY_LIMIT) : keys;
+}
+
 class IdbFieldStore implements FieldStore {
   constructor(
     private readonly db: IDBPDatabase<FieldDB>,
@@ -347,14 +406,25 @@ class IdbFieldStore implements FieldStore {
     return this.read('the site', () => this.db.get('sites', id));
   }
 
-  async saveSite(site: SiteRecord): Promise<SiteRecord> {
+  async saveSite(site: SiteRecord, options: SaveSiteOptions = {}): Promise<SiteRecord> {
     if (needsSiteModelCheck(site)) await loadSiteModelCheck();
     check(() => checkSite(site));
-    const record: SiteRecord = { ...site };
-    await this.write(['sites', 'outbox'], 'the site', async (tx) => {
-      checkRevision(await tx.objectStore('sites').get(record.id), record, 'This site');
+    let record: SiteRecord = { ...site };
+    await this.write(['sites', 'outbox', 'settings'], 'the site', async (tx) => {
+      const stored = await tx.objectStore('sites').get(record.id);
+      checkRevision(stored, record, 'This site');
+      const sending = sendingStateOf(await tx.objectStore('settings').get(SENDING_KEY));
+      const outbox = tx.objectStore('outbox');
+      if (options.amendUnsent && stored && Object.keys(sending.active).length === 0) {
+        // The stored revision's own entry, queued in this generation: no send has read it.
+        const unsent = (await outbox.index('by-record').getAll(stored.id)).find((e) => e.rev === stored.rev && e.gen === sending.gen);
+        if (unsent) {
+          record = { ...record, history: amendedHistory(stored, record) };
+          await outbox.delete(unsent.seq);
+        }
+      }
       await tx.objectStore('sites').put(record);
-      await tx.objectStore('outbox').add(outboxEntry(record, record.updatedAt));
+      await outbox.add({ ...outboxEntry(record, record.updatedAt), gen: sending.gen });
     });
     return record;
   }
@@ -524,6 +594,25 @@ class IdbFieldStore implements FieldStore {
     await this.write(['outbox'], 'the outbox acknowledgement', async (tx) => {
       for (const s of seqs) await tx.objectStore('outbox').delete(s);
     });
+  }
+
+  async whileSending<T>(send: () => Promise<T>): Promise<T> {
+    const id = crypto.randomUUID();
+    // A new generation at the start and at the end: a site revision saved before or during the send is never amended.
+    const step = (mark: boolean) =>
+      this.write(['settings'], 'the send mark', async (tx) => {
+        const state = sendingStateOf(await tx.objectStore('settings').get(SENDING_KEY));
+        if (mark) state.active[id] = Date.now();
+        else delete state.active[id];
+        await tx.objectStore('settings').put({ gen: state.gen + 1, active: state.active }, SENDING_KEY);
+      });
+    await step(true);
+    try {
+      return await send();
+    } finally {
+      // Should the end fail to be written, the mark stays until its lease runs out: nothing is amended meanwhile.
+      await step(false).catch(() => undefined);
+    }
   }
 
   async allRecords(): Promise<AnyRecord[]> {

@@ -12,6 +12,7 @@ export {
   type PersistenceAnswer,
   type SaveRecordingInput,
   type FieldStoreOptions,
+  type SaveSiteOptions,
 } from './field-store';
 export { STORAGE_RESERVE_BYTES, type StorageEstimate } from './recordings';
 export { pickOf } from './validate';

@@ -38,6 +38,13 @@ export interface OutboxEntry {
   rev: number;
   /** When it was queued, ISO 8601 (UTC). */
   queuedAt: string;
+  /**
+   * The send generation it was queued in (field-store.ts `whileSending`):
+   * a site revision whose entry still carries the current generation has
+   * not been read by any push or bundle export. Absent on entries queued by
+   * an import or by versions before it (never amended).
+   */
+  gen?: number;
 }
 
 /** Schema version 1 (kept so that migrations and their tests are honest). */

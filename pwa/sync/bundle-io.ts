@@ -83,7 +83,8 @@ export async function exportBundle(
   exportedBy?: string,
   options: { includeDemo?: boolean } = {},
 ): Promise<BundleFile> {
-  const all = await store.allRecords();
+  // Marked as a send: a site revision that leaves in the bundle is never amended afterwards.
+  const all = await store.whileSending(() => store.allRecords());
   let ids = siteIds;
   let demoLeftOut = 0;
   if (!ids && !options.includeDemo) {

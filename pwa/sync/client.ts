@@ -369,7 +369,8 @@ export class SyncClient {
     let pulled = 0;
     let conflicts = 0;
     try {
-      const push = await this.push(serverUrl, token);
+      // Marked as a send, so that no site revision it reads is amended afterwards (field-store.ts whileSending).
+      const push = await this.store.whileSending(() => this.push(serverUrl, token));
       pushed = push.pushed;
       conflicts += push.conflicts;
       // Seismograph recordings after the records (their sites must reach the office first); see recording-sync.ts.

@@ -338,6 +338,41 @@ describe('office sync, two tablets and a crash', () => {
     expect((await b.getSite(sites[0].id))!.layeredModel!.model.layers[0].thickness_m).toBe(5);
   });
 
+  it('3c. 100 layer builder edits on one tablet offline between syncs: no conflict, the office and the other tablet hold the last model', async () => {
+    const data = tempDataDir();
+    const tA = await addDevice(data, 'tablet-a');
+    const tB = await addDevice(data, 'tablet-b');
+    const srv = await office(data);
+    const [a, b] = [await tablet(), await tablet()];
+    const [ca, cb] = [clientFor(a), clientFor(b)];
+    await ca.configure(srv.url, tA);
+    await cb.configure(srv.url, tB);
+    const { sites } = await survey(a, 1, 2);
+    expect((await ca.syncNow()).ok).toBe(true);
+    expect((await cb.syncNow()).ok).toBe(true);
+    // Invented models: 100 saved cell edits, as the layer builder saves them (pwa/ui/controllers/layered-work.ts).
+    const model = (h: number) => ({
+      model: { layers: [{ thickness_m: h, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
+      pInput: 'vp' as const,
+      waves: { love: true, rayleigh: false },
+      modes: 2,
+    });
+    for (let i = 1; i <= 100; i++) {
+      const site = (await a.getSite(sites[0].id))!;
+      await a.saveSite(nextRevision(site, { layeredModel: model(2 + i / 10) }), { amendUnsent: true });
+    }
+    const ra = await ca.syncNow();
+    expect(ra.ok).toBe(true);
+    expect(ra.conflicts).toBe(0);
+    const [row] = query<{ body: string; conflicts: number }>(data, 'SELECT body, conflicts FROM records WHERE id = ?', sites[0].id);
+    expect(row.conflicts).toBe(0);
+    expect((JSON.parse(row.body) as SiteRecord).layeredModel!.model.layers[0].thickness_m).toBe(12);
+    const rb = await cb.syncNow();
+    expect(rb.conflicts).toBe(0);
+    expect(canonicalJson(await b.getSite(sites[0].id))).toBe(canonicalJson(JSON.parse(row.body)));
+    expect((await cb.refresh()).conflicts).toBe(0);
+  });
+
   it('4. the server SIGKILLed in the middle of a sync: the client retries after the restart, and everything converges with nothing lost or duplicated', async () => {
     const data = tempDataDir();
     const token = await addDevice(data, 'tablet-crash');

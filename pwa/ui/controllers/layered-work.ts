@@ -284,7 +284,12 @@ export class LayeredWork {
     this.runTrial(reading.model);
   }
 
-  /** Keeps the model with the site as a new revision of it (none when it is the one kept). */
+  /**
+   * Keeps the model with the site as a new revision of it (none when it is
+   * the one kept). While the site's last revision has not left the device,
+   * the new one folds into it: the site's history stays one step from what
+   * the office holds however many cells are edited between syncs.
+   */
   private async save(id: string, layeredModel: SiteLayeredModel): Promise<void> {
     const store = this.hub.store;
     const site = this.hub.current.sites.find((x) => x.id === id);
@@ -293,7 +298,8 @@ export class LayeredWork {
     if (json === modelJson(site)) return;
     this.keptJson = json;
     try {
-      const saved = await store.saveSite(nextRevision(site, { layeredModel }));
+      // Edits since the last sync fold into the site's unsent revision (field-store.ts amendUnsent), so a long run of them never looks like a conflict.
+      const saved = await store.saveSite(nextRevision(site, { layeredModel }), { amendUnsent: true });
       this.hub.set({ sites: replaceById(this.hub.current.sites, saved) });
       if (this.siteId === id) this.patch({ saveError: undefined });
     } catch (e) {

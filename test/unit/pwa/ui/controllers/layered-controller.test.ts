@@ -17,6 +17,7 @@ import type { TrialRunner } from '../../../../../pwa/ui/controllers/layered-cont
 import { bestFitCaption } from '../../../../../pwa/ui/controllers/layered-work';
 import { builderKey } from '../../../../../pwa/ui/controllers/layered-form';
 import { nextRevision } from '../../../../../core/exchange/records';
+import { revisionKey } from '../../../../../core/exchange/revision';
 import { pSpeedFromPoisson } from '../../../../../core/dispersion/model';
 import type { ProfileRunner } from '../../../../../pwa/ui/controllers/profile-controller';
 import { trialModel, type TrialRequest, type TrialResult } from '../../../../../pwa/worker/model-trial';
@@ -133,6 +134,33 @@ describe('the layer builder', () => {
     await vi.waitFor(() => expect(c.current.layered.trial.model?.layers[0].thickness).toBe(6.5));
     await new Promise((r) => setTimeout(r, 20));
     expect((await stores[0].getSite(id))!.rev).toBe(theirs.rev); // taking it saves nothing new
+  });
+
+  it('folds a run of 80 cell edits between syncs into one unsent site revision made from the synced one, and a reload right after the last edit has it', async () => {
+    const name = `layered-test-${++dbCount}`;
+    const idle: TrialRunner = () => new Promise<TrialResult>(() => undefined); // the curves are not looked at here
+    const c = await started(name, idle);
+    await c.sites.createSite('Builder edit run site (invented)');
+    await typeTwoLayers(c);
+    const id = c.current.openSiteId!;
+    const store = stores[0];
+    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel?.waves.rayleigh).toBe(true));
+    // A sync sends the site: its outbox is acknowledged inside a send, as the sync client does.
+    await store.whileSending(async () => store.ackOutbox((await store.outbox()).map((e) => e.seq)));
+    const synced = (await store.getSite(id))!;
+    for (let i = 1; i <= 80; i++) {
+      c.layered.editCell(0, 'thickness', String(4 + i / 10));
+      await c.layered.commit();
+    }
+    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel!.model.layers[0].thickness_m).toBe(12));
+    const last = (await store.getSite(id))!;
+    expect(last.rev).toBe(synced.rev + 80);
+    expect(last.history).toEqual([...(synced.history ?? []), revisionKey(synced)]);
+    expect((await store.outbox()).filter((e) => e.recordId === id).map((e) => e.rev)).toEqual([last.rev]);
+    // A fresh app on the same store (a reload right after the last edit) has the last model.
+    const again = await started(name, idle);
+    again.sites.openSite(id, 'whatif');
+    await vi.waitFor(() => expect(again.current.layered.rows[0].thickness).toBe('12'));
   });
 
   it('moves a model an earlier version kept on this device only to the site when the site opens', async () => {
