@@ -53,7 +53,9 @@
  * layer or the half-space, below which the modes of a layered half-space
  * are not expected (the slowest possible guided wave is the Rayleigh wave
  * of the slowest solid); test/unit/core/dispersion/rayleigh-random.test.ts
- * scans from 0.3·β_min on seeded random models to check this.
+ * scans from 0.3·β_min on seeded random models to check this. F is also
+ * evaluated one grid step below the floor, so that the first cell has a
+ * neighbour below like any other (a root found there is reported).
  *
  * Group velocity: U = dω/dk along F(c, k) = 0 with ω = ck, by implicit
  * differentiation, U = c − k·F_k/F_c, with F_k and F_c exact (forward
