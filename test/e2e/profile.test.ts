@@ -87,6 +87,11 @@ describe('the layered profile in Chromium, offline', () => {
     expect(words.includes('for reference only')).toBe(level === 'unresolved');
     expect(await fit.getAttribute('data-unsupported')).toBe(String(level === 'unresolved'));
     expect(await page.getByTestId('record-fit').count()).toBe(0);
+    // The Rayleigh picks of the image's kind in the picks plot's shapes (squares for group, triangles for phase), as the key names them.
+    const kind = (await page.getByTestId('record-pick-key').textContent())?.includes('phase picks') ? 'phase' : 'group';
+    const shapes = new Set(((await page.locator('canvas.dispersion-image').getAttribute('data-picks')) ?? '').split(' ').filter(Boolean));
+    expect(shapes).toEqual(new Set([kind === 'phase' ? 'triangle' : 'square']));
+    expect(await page.getByTestId('record-pick-key').textContent()).toContain(kind === 'phase' ? '△ Rayleigh' : '■ Rayleigh');
     await page.locator('figure.image-figure').screenshot({ path: join(ARTIFACT_DIR, 'records-layered-fit.png') });
     expect(pageErrors).toEqual([]);
   }, 300_000);

@@ -7,8 +7,9 @@
  *     phase-shift image once on the fundamental ridge, add the picks;
  *  3. import a synthetic SEG-2 single-trace record, tap its multiple-filter
  *     image once, add the picks;
- *  4. the estimate's 95 % interval holds the true thickness; the image view
- *     is photographed for the README (docs/screenshot-records.png);
+ *  4. the estimate's 95 % interval holds the true thickness; the picks on
+ *     the image have the picks plot's shapes, named in its key; the image
+ *     view is photographed for the README (docs/screenshot-records.png);
  *  5. at phone size, with the image and the ridge's points open, nothing
  *     scrolls sideways.
  *
@@ -138,6 +139,11 @@ describe('records to picks to an estimate, offline', () => {
     await page.getByRole('button', { name: 'Phase velocity (all traces)', pressed: true }).waitFor({ timeout: 30_000 });
     await tapImage(20, loveVelocities(INVENTED_SOFT_SITE, 20, 0).phase);
     await page.getByRole('button', { name: 'Add to picks' }).waitFor({ timeout: 60_000 });
+    // The site's Love phase picks drawn in the picks plot's shape for them (open diamonds), as the image's key says.
+    const shapes = ((await page.locator('canvas.dispersion-image').getAttribute('data-picks')) ?? '').split(' ').filter(Boolean);
+    expect(shapes.length).toBeGreaterThan(5);
+    expect(new Set(shapes)).toEqual(new Set(['diamond']));
+    expect(await page.getByTestId('record-pick-key').textContent()).toBe("The site's phase picks: ◇ Love, △ Rayleigh.");
     const dismiss = page.getByRole('button', { name: 'Dismiss this message' });
     while (await dismiss.count()) await dismiss.first().click();
     mkdirSync(ARTIFACT_DIR, { recursive: true });

@@ -2,7 +2,8 @@
  * The dispersion image on a canvas, in the dispersion plot's units and axes
  * (frequency in Hz or period in s across, log or linear as the plot is set;
  * velocity in m/s up), with the site's picks, the best-fit curves and the
- * followed ridge over it. The best fit is the layered estimate's Love and
+ * followed ridge over it. The picks have the picks plot's shapes (Love and
+ * Rayleigh apart without colour, curve-style.ts). The best fit is the layered estimate's Love and
  * Rayleigh curves when there is one (drawn as the picks plot draws them,
  * curve-style.ts: colour and line style by wave, thin and faint when the
  * estimate is not resolved), else the one-layer model's Love curves.
@@ -15,7 +16,7 @@
  * Pointer: a tap follows the ridge through that point (onTap); pressing on
  * one of the ridge's two end handles and dragging moves that end (onDragEnd).
  * The canvas carries its plot frame in data-frame (CSS pixels and axis
- * ranges) for tests.
+ * ranges) and the shapes of the picks it drew in data-picks, for tests.
  */
 import { useEffect, useMemo, useRef } from 'preact/hooks';
 import type { PickRecord } from '../../../core/exchange/records';
@@ -25,7 +26,7 @@ import type { Ridge } from '../../../core/signal/ridge';
 import type { PlotSettings } from '../controllers/app-state';
 import { logBand } from '../../../core/dispersion/curve';
 import { computedColumns, curveColumns, type ComputedCurves } from './chart-data';
-import { curveDash, faded, modeColour, palette } from './curve-style';
+import { curveDash, faded, modeColour, palette, pickShape, pickShapeFilled, tracePickShape, type PickShape } from './curve-style';
 
 export interface DispersionImageProps {
   image: DispersionImage;
@@ -321,23 +322,34 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
         });
         ctx.setLineDash([]);
       }
-      // The site's picks of this image's kind: white rings.
+      // The site's picks of this image's kind, in the picks plot's shapes (curve-style.ts: Love discs or diamonds,
+      // Rayleigh squares or triangles), white over a dark edge so that they show on every part of the ramp.
       const kind = image.method === 'phase-shift' ? 'phase' : 'group';
+      const drawn: PickShape[] = [];
+      ctx.lineJoin = 'round';
       for (const p of props.picks) {
         if (p.kind !== kind) continue;
-        const X = xOf(fr, p.frequency);
-        const Y = yOf(fr, p.velocity);
-        ctx.lineWidth = 2;
-        ctx.strokeStyle = '#000000';
+        const shape = pickShape(p.wave, kind);
+        drawn.push(shape);
         ctx.beginPath();
-        ctx.arc(X, Y, 5, 0, 2 * Math.PI);
-        ctx.stroke();
-        ctx.strokeStyle = '#ffffff';
-        ctx.lineWidth = 1.2;
-        ctx.beginPath();
-        ctx.arc(X, Y, 4, 0, 2 * Math.PI);
-        ctx.stroke();
+        tracePickShape(ctx, shape, xOf(fr, p.frequency), yOf(fr, p.velocity), 5);
+        if (pickShapeFilled(shape)) {
+          ctx.fillStyle = '#ffffff';
+          ctx.fill();
+          ctx.strokeStyle = '#000000';
+          ctx.lineWidth = 1.5;
+          ctx.stroke();
+        } else {
+          ctx.strokeStyle = '#000000';
+          ctx.lineWidth = 3.5;
+          ctx.stroke();
+          ctx.strokeStyle = '#ffffff';
+          ctx.lineWidth = 1.5;
+          ctx.stroke();
+        }
       }
+      ctx.lineJoin = 'miter';
+      c.dataset.picks = drawn.join(' ');
       // The followed ridge: kept points as magenta diamonds, trimmed or deleted ones faint, ends as handles.
       const ridge = props.ridge;
       const range = props.range;

@@ -26,7 +26,7 @@ import {
   type PickColumns,
   type PlotPick,
 } from './chart-data';
-import { curveDash, faded, modeColour, palette, type Palette } from './curve-style';
+import { curveDash, faded, modeColour, palette, pickShape, pickShapeFilled, tracePickShape, type Palette } from './curve-style';
 
 export interface PlotInput {
   picks: readonly PlotPick[];
@@ -284,33 +284,14 @@ export class DispersionPlot {
       ctx.moveTo(x - r * 0.8, y1);
       ctx.lineTo(x + r * 0.8, y1);
       ctx.stroke();
+      // The mark tells wave and kind by shape as well as colour (curve-style.ts pickShape), as the image and the keys do.
+      const shape = pickShape(rayleigh ? 'rayleigh' : 'love', p.phase[i] ? 'phase' : 'group');
       ctx.beginPath();
-      if (rayleigh) {
-        // Rayleigh picks: squares (group, filled) and triangles (phase, open), so no colour is needed to tell them from Love.
-        if (p.phase[i]) {
-          ctx.moveTo(x, y - r * 1.3);
-          ctx.lineTo(x + r * 1.2, y + r * 0.9);
-          ctx.lineTo(x - r * 1.2, y + r * 0.9);
-          ctx.closePath();
-          ctx.lineWidth = 2 * pr;
-          ctx.stroke();
-        } else {
-          ctx.rect(x - r * 0.9, y - r * 0.9, r * 1.8, r * 1.8);
-          ctx.fill();
-        }
-      } else if (p.phase[i]) {
-        // phase picks: open diamonds
-        ctx.moveTo(x, y - r * 1.2);
-        ctx.lineTo(x + r * 1.2, y);
-        ctx.lineTo(x, y + r * 1.2);
-        ctx.lineTo(x - r * 1.2, y);
-        ctx.closePath();
+      tracePickShape(ctx, shape, x, y, r);
+      if (pickShapeFilled(shape)) ctx.fill();
+      else {
         ctx.lineWidth = 2 * pr;
         ctx.stroke();
-      } else {
-        // group picks: filled discs
-        ctx.arc(x, y, r, 0, 2 * Math.PI);
-        ctx.fill();
       }
       if (i === this.selected) {
         ctx.strokeStyle = this.pal.select;

@@ -14,6 +14,7 @@ import type { EstimateState, PlotSettings } from '../controllers/app-state';
 import type { RecordsController, RecordsState } from '../controllers/records-controller';
 import type { RidgeController } from '../controllers/ridge-controller';
 import { DispersionImageCanvas } from '../charts/dispersion-image';
+import { PICK_SHAPE_GLYPH, pickShape } from '../charts/curve-style';
 import type { ComputedCurves } from '../charts/chart-data';
 import '../styles/records.css';
 
@@ -47,6 +48,12 @@ function layeredKey(c: ComputedCurves): string {
   if (waves.has('love')) parts.push('Love: mode colours, solid for group velocity, dashed for phase');
   if (waves.has('rayleigh')) parts.push('Rayleigh: its own colour, dash-dot for phase velocity, dash-dot-dot for group');
   return `— Layered best-fit curves (${parts.join('; ')}).`;
+}
+
+/** The key of the picks on the image: the picks plot's shapes for the image's kind (charts/curve-style.ts). */
+export function picksKey(kind: 'phase' | 'group'): string {
+  const glyph = (wave: 'love' | 'rayleigh') => PICK_SHAPE_GLYPH[pickShape(wave, kind)];
+  return `The site's ${kind} picks: ${glyph('love')} Love, ${glyph('rayleigh')} Rayleigh.`;
 }
 
 export function RecordsView(p: RecordsViewProps) {
@@ -239,7 +246,7 @@ export function RecordsView(p: RecordsViewProps) {
                 onDragEnd={(end, f) => p.ridge.dragEnd(end, f)}
               />
               <figcaption>
-                <span class="key key-ridge">◆ ridge points</span> <span class="key">○ the site's {s.image.method === 'phase-shift' ? 'phase' : 'group'} picks</span>{' '}
+                <span class="key key-ridge">◆ ridge points</span> <span class="key" data-testid="record-pick-key">{picksKey(s.image.method === 'phase-shift' ? 'phase' : 'group')}</span>{' '}
                 {p.layered ? (
                   <span class="key" data-testid="record-layered-fit" data-unsupported={String(!!p.layered.unsupported)}>
                     {layeredKey(p.layered)} {p.layeredCaption} {CAUTION}
