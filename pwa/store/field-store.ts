@@ -339,8 +339,7 @@ function sendingStateOf(value: unknown, now = Date.now()): SendingState {
  * revision's own history and any further keys the new one names (e.g. a
  * resolved conflict's), without the stored revision's key, newest 64 kept.
  */
-function amendedHistory(stored: SiteRecord, incoming: SiteRecord): string[] {
-  const storedKey = revisionKey(stored);
+function amendedHistory(stored: SiteRecord, storedKey: string, incoming: SiteRecord): string[] {
   const keys = [...new Set([...(stored.history ?? []), ...(incoming.history ?? [])])].filter((k) => k !== storedKey);
   return keys.length > HISTORY_LIMIT ? keys.slice(keys.length - HISTORY_LIMIT) : keys;
 }
@@ -416,15 +415,16 @@ class IdbFieldStore implements FieldStore {
       const sending = sendingStateOf(await tx.objectStore('settings').get(SENDING_KEY));
       const outbox = tx.objectStore('outbox');
       if (options.amendUnsent && stored && Object.keys(sending.active).length === 0) {
-        // The stored revision's own entry, queued in this generation: no send has read it.
-        const unsent = (await outbox.index('by-record').getAll(stored.id)).find((e) => e.rev === stored.rev && e.gen === sending.gen);
+        // The stored revision's own entry (not one a sync or an import has since replaced), queued in this generation: no send has read it.
+        const storedKey = revisionKey(stored);
+        const unsent = (await outbox.index('by-record').getAll(stored.id)).find((e) => e.key === storedKey && e.gen === sending.gen);
         if (unsent) {
-          record = { ...record, history: amendedHistory(stored, record) };
+          record = { ...record, history: amendedHistory(stored, storedKey, record) };
           await outbox.delete(unsent.seq);
         }
       }
       await tx.objectStore('sites').put(record);
-      await outbox.add({ ...outboxEntry(record, record.updatedAt), gen: sending.gen });
+      await outbox.add({ ...outboxEntry(record, record.updatedAt), gen: sending.gen, key: revisionKey(record) });
     });
     return record;
   }

@@ -45,6 +45,8 @@ export interface OutboxEntry {
    * an import or by versions before it (never amended).
    */
   gen?: number;
+  /** The revision key of the site revision it queued (so a fold can tell it is still the stored one). */
+  key?: string;
 }
 
 /** Schema version 1 (kept so that migrations and their tests are honest). */

@@ -115,6 +115,25 @@ describe('site revisions that fold into the unsent one', () => {
     expect(after.history!.at(-1)).toBe(revisionKey(during2));
   });
 
+  it('a version that arrived from elsewhere is never folded away, even at the revision number of the unsent one it replaced', async () => {
+    const store = await tablet();
+    const base = await sentSite(store);
+    const mine = await edit(store, 4);
+    // Another tablet's edit of the same base arrives by a pull (same rev): both are kept, one shown.
+    const theirs = nextRevision(base, { notes: 'Invented note from the other tablet' }, new Date(Date.parse(mine.updatedAt) + 60_000));
+    expect(theirs.rev).toBe(mine.rev);
+    const merged = mergeRecord(mine, theirs);
+    expect(merged.action).toBe('conflict');
+    await store.putIncoming([merged.record], { expectedRevs: new Map([[base.id, mine.rev]]) });
+    const stored = (await store.getSite(base.id))!;
+    expect(stored.notes).toBe(theirs.notes); // the later save is shown
+    const after = await edit(store, 5);
+    expect(after.history!.at(-1)).toBe(revisionKey(stored));
+    expect(after.conflicts).toEqual(stored.conflicts); // still waiting for review
+    expect(mergeRecord(merged.record, after).action).toBe('conflict'); // a newer revision of a record with conflicts waiting
+    expect(mergeRecord(merged.record, after).reason).toBe('newer revision of a record that still has conflicts waiting for review');
+  });
+
   it('a revision that left in a bundle is never folded away: a tablet that imported the bundle takes the next one as made from it', async () => {
     const store = await tablet();
     await sentSite(store);
