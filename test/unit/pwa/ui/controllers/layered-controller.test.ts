@@ -144,7 +144,7 @@ describe('the layer builder', () => {
     await typeTwoLayers(c);
     const id = c.current.openSiteId!;
     const store = stores[0];
-    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel?.waves.rayleigh).toBe(true));
+    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel?.waves.rayleigh).toBe(true), { timeout: 10_000 });
     // A sync sends the site: its outbox is acknowledged inside a send, as the sync client does.
     await store.whileSending(async () => store.ackOutbox((await store.outbox()).map((e) => e.seq)));
     const synced = (await store.getSite(id))!;
@@ -152,7 +152,8 @@ describe('the layer builder', () => {
       c.layered.editCell(0, 'thickness', String(4 + i / 10));
       await c.layered.commit();
     }
-    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel!.model.layers[0].thickness_m).toBe(12));
+    // The 80 saves run one after another after the loop (the store's transactions): wait for the last, however busy the machine.
+    await vi.waitFor(async () => expect((await store.getSite(id))!.layeredModel!.model.layers[0].thickness_m).toBe(12), { timeout: 30_000 });
     const last = (await store.getSite(id))!;
     expect(last.rev).toBe(synced.rev + 80);
     expect(last.history).toEqual([...(synced.history ?? []), revisionKey(synced)]);
@@ -160,7 +161,7 @@ describe('the layer builder', () => {
     // A fresh app on the same store (a reload right after the last edit) has the last model.
     const again = await started(name, idle);
     again.sites.openSite(id, 'whatif');
-    await vi.waitFor(() => expect(again.current.layered.rows[0].thickness).toBe('12'));
+    await vi.waitFor(() => expect(again.current.layered.rows[0].thickness).toBe('12'), { timeout: 10_000 });
   });
 
   it('moves a model an earlier version kept on this device only to the site when the site opens', async () => {
