@@ -836,11 +836,13 @@ function valueStep(G: Float64Array, v: Float64Array): void {
 }
 
 /**
- * d/dc of ln(scale) at fixed k, where scale is the positive factor
+ * d/dc of ln(scale), where scale is the positive factor
  * Π_j e^{−(√a_j + √b_j)L_j} that the fast recursion takes out (so
  * d ln|F̃|/dc = F_c/F + this, F̃ the scaled value rayleighSecular returns,
- * apart from its exact power of two). Infinite as c → α_j or β_j from
- * below (√a is not smooth at a = 0).
+ * apart from its exact power of two): at fixed k after
+ * rayleighSecularDerivatives, along the scan (fixed ω) after
+ * rayleighSecularSlope. Infinite as c → α_j or β_j from below (√a is not
+ * smooth at a = 0).
  */
 export const secularSlope = { scale: 0 };
 
@@ -991,9 +993,11 @@ export function rayleighSecularDerivatives(
 
 /**
  * F̃ (the scaled value of rayleighSecular, with its power of two in
- * secularScale) and ∂F/∂c at fixed k on the same scale, without ∂F/∂k
- * (dk is NaN); secularSlope.scale holds d ln(scale)/dc, so that
- * d ln|F̃|/dc = dc/value + secularSlope.scale. For the root scan.
+ * secularScale) and, in dc, dF/dc along the root scan, at fixed ω
+ * (k = ω/c, so dF/dc = ∂F/∂c − (k/c)·∂F/∂k), on the same scale; dk is
+ * NaN. secularSlope.scale holds d ln(scale)/dc along the same path, so
+ * that d ln|F̃(c, ω/c)|/dc = dc/value + secularSlope.scale: the slope of
+ * the function the scan samples. For the root scan.
  *
  * The same forward differentiation as rayleighSecularDerivatives, written
  * out with the minors in locals: the step matrix is linear in the six
@@ -1059,7 +1063,7 @@ export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number,
         Ca = 1 + 0.5 * em;
         Sa = y === 0 ? L : (-0.5 * em) / ra;
       }
-      slope += (L * p * x) / (c * ra);
+      slope += (L * p * x) / (c * ra) + (ra * L) / c;
     } else if (a < 0) {
       const r = Math.sqrt(-a);
       const y = r * L;
@@ -1085,7 +1089,7 @@ export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number,
         Cb = 1 + 0.5 * em;
         Sb = y === 0 ? L : (-0.5 * em) / rb;
       }
-      slope += (L * x) / (c * rb);
+      slope += (L * x) / (c * rb) + (rb * L) / c;
     } else if (b < 0) {
       const r = Math.sqrt(-b);
       const y = r * L;
@@ -1094,14 +1098,16 @@ export function rayleighSecularSlope(s: RayleighStack, omega: number, c: number,
     }
     const dSada = dSdaOf(a, L, Ca, Sa, ea);
     const dSbdb = dSdaOf(b, L, Cb, Sb, eb);
-    // Along c at fixed k: da/dc = −2px/c, db/dc = −2x/c, du/dc = −2u/c; dC/da = L·S/2.
+    // Along the scan (ω fixed, k = ω/c): da/dc = −2px/c, db/dc = −2x/c, du/dc = −2u/c, dL/dc = −L/c;
+    // dC/da = L·S/2, dC/dL = a·S, dS/dL = C (the scale factors held fixed, their own slope in `slope`).
     const dxc = (2 * x) / c;
     const dac = -p * dxc;
     const dbc = -dxc;
-    const dCa = 0.5 * L * Sa * dac;
-    const dSa = dSada * dac;
-    const dCb = 0.5 * L * Sb * dbc;
-    const dSb = dSbdb * dbc;
+    const dLc = -L / c;
+    const dCa = 0.5 * L * Sa * dac + a * Sa * dLc;
+    const dSa = dSada * dac + Ca * dLc;
+    const dCb = 0.5 * L * Sb * dbc + b * Sb * dLc;
+    const dSb = dSbdb * dbc + Cb * dLc;
     const e = ea * eb;
     const CC = Ca * Cb;
     const CS = Ca * Sb;

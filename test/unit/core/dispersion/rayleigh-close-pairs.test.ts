@@ -1,15 +1,17 @@
 /**
  * The careful Rayleigh scan (the solver's default) never skips a close pair
- * of roots beside a third root: six seeded cases where two branches come
- * within 0.2–1.1 % of each other next to another mode, in or beside the
+ * of roots beside a third root: eight seeded cases where two branches come
+ * within 0.2–1.3 % of each other next to another mode, in or beside the
  * cell of that mode's root, where the scan judges whether to search a cell
  * whose ends share a sign (rayleigh-stack.ts, valley). Each case was found
  * by a seeded search (mulberry32 seeds 1–4, 15,000 solves each, models as
  * in rayleigh-random.test.ts, every other one with a very soft layer at
  * depth) as a pair that a weaker judgement of that cell missed: reading the
- * slope on the root's side with the root divided out (the first five), or
- * the rise of the slopes across the cell without its guards for steep
- * slopes and a root within 0.1 cells (the first and the last).
+ * slope on the root's side with the root divided out (the first five), the
+ * rise of the slopes across the cell without its guards for steep slopes
+ * and a root within 0.1 cells (the first and the sixth), or slopes taken at
+ * fixed k instead of along the scan (fixed ω; the last two, which the
+ * solver missed before).
  *
  * Reference: a dense scan of the plain six-minor secular function
  * (rayleighSecularReference, not the solver's five-minor step) over the
@@ -68,6 +70,18 @@ const CASES: PairCase[] = [
     pair: [156.8762, 157.5455],
     window: [146.5753, 158.1677],
     model: {layers: [{thickness: 20.54591854836326, vs: 165.43024306185544, vp: 525.197855856563, density: 1848.8614598754793}, {thickness: 14.42434008908458, vs: 120.6541883200407, vp: 198.14338171763248, density: 2105.512611102313}, {thickness: 19.71120626514312, vs: 736.8180778250098, vp: 1940.0402818021723, density: 1500.1955702900887}, {thickness: 15.179402878507972, vs: 65.1457409048453, vp: 1500, density: 2164.7068082820624}], halfspace: {vs: 700.4219807766177, vp: 1081.4429515166278, density: 2458.30922042951}},
+  },
+  {
+    f: 38.9865180345098,
+    pair: [245.2706, 248.3559],
+    window: [208.3638, 266.4937],
+    model: {layers: [{thickness: 13.241880957502872, vs: 260.0144580937922, vp: 1500, density: 2264.185022097081}, {thickness: 5.243995157419704, vs: 60.21938072517514, vp: 119.68810085933237, density: 2370.9565678145736}, {thickness: 7.15151936118491, vs: 129.4352703820914, vp: 484.658416616838, density: 1731.5513249486685}, {thickness: 8.431745479116216, vs: 593.4614446666092, vp: 1918.6634663041675, density: 2025.6201543379575}, {thickness: 20.571967274183407, vs: 67.99877531826496, vp: 1500, density: 1960.8394573442638}], halfspace: {vs: 932.741792074664, vp: 1579.395746283693, density: 1911.0538367182016}},
+  },
+  {
+    f: 48.36076347703204,
+    pair: [736.6852, 738.8031],
+    window: [685.982, 770.9357],
+    model: {layers: [{thickness: 1.9794265461387113, vs: 338.80831581540406, vp: 1500, density: 1600.7197129074484}, {thickness: 29.410647259792313, vs: 825.0481936521828, vp: 3002.790762552141, density: 2067.2763837501407}, {thickness: 28.190038829226978, vs: 96.75654849037528, vp: 242.71000561509626, density: 1928.7556689232588}, {thickness: 8.742758256266825, vs: 587.0460247993469, vp: 1500, density: 2198.301045689732}, {thickness: 14.491536559304222, vs: 118.97257558535784, vp: 392.2134418446587, density: 2087.0273942127824}], halfspace: {vs: 788.922930171694, vp: 1400.5715682825382, density: 1896.8614113517106}},
   },
 ];
 

@@ -31,6 +31,8 @@ import {
   rayleighSecularDerivatives,
   rayleighSecularDerivativesReference,
   rayleighSecularSlope,
+  secularScale,
+  secularSlope,
 } from '../../../../core/dispersion/rayleigh-secular';
 import { mulberry32 } from '../../../../core/shared/random';
 
@@ -215,10 +217,48 @@ describe('fast derivatives of the secular function (five-minor step)', () => {
       // amplified by (β/c)⁴ in layers much stiffer than c (header of rayleigh-secular.ts).
       const amplification = Math.max(1, (Math.max(...layers.map((l) => l.vs)) / c) ** 4);
       expect(Math.abs(rayleighSecular(s, omega, c) / fast.value - 1), ctx).toBeLessThan(1e-12 * amplification);
-      // The scan's slope path (value and F_c only, written out in locals) likewise.
+      // The scan's slope (value and dF/dc along the scan at fixed ω, written out in locals): dF/dc = F_c − (k/c)·F_k.
       const slope = rayleighSecularSlope(s, omega, c, { value: 0, dc: 0, dk: 0 });
       expect(Math.abs(slope.value / fast.value - 1), ctx).toBeLessThan(1e-12 * amplification);
-      expect(Math.abs(slope.dc / slope.value / (ref.dc / ref.value) - 1), ctx).toBeLessThan(1e-8);
+      const k = omega / c;
+      const along = (ref.dc - (k / c) * ref.dk) / ref.value;
+      // Relative to the larger of the two terms (they may cancel).
+      const size = Math.max(Math.abs(ref.dc), Math.abs((k / c) * ref.dk)) / Math.abs(ref.value);
+      expect(Math.abs(slope.dc / slope.value - along) / size, ctx).toBeLessThan(1e-8);
     }
+  });
+
+  it('give the slope of ln|F̃| along the scan (fixed ω) that the root scan reads, as a central difference does (30 seeded models)', () => {
+    const rand = mulberry32(11);
+    const lnF = (s: ReturnType<typeof prepareRayleighStack>, omega: number, c: number) =>
+      Math.log(Math.abs(rayleighSecular(s, omega, c))) + secularScale.exponent * Math.LN2;
+    let checked = 0;
+    for (let t = 0; t < 30; t++) {
+      const n = 1 + Math.floor(rand() * 5);
+      const layers = [];
+      for (let i = 0; i < n; i++) {
+        const vs = 60 + rand() * 840;
+        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
+      }
+      const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
+      const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
+      const omega = 2 * Math.PI * 0.5 * Math.pow(60, rand());
+      const c = vsH * (0.3 + 0.69 * rand());
+      // Away from a wave speed (ln of the scale has a square-root kink there) and from a root of F.
+      const speeds = layers.flatMap((l) => [l.vs, l.vp]);
+      if (speeds.some((v) => Math.abs(c / v - 1) < 1e-3)) continue;
+      const d = rayleighSecularSlope(s, omega, c, { value: 0, dc: 0, dk: 0 });
+      const got = d.dc / d.value + secularSlope.scale;
+      const h = 1e-6 * c;
+      // Fourth-order central difference: truncation about h⁴ times the fifth derivative, far below the tolerance.
+      const num = (8 * (lnF(s, omega, c + h) - lnF(s, omega, c - h)) - (lnF(s, omega, c + 2 * h) - lnF(s, omega, c - 2 * h))) / (12 * h);
+      if (Math.abs(got) * c > 1e4) continue; // beside a root: ln|F| is too steep for the difference
+      // Tolerance: rounding of ln|F| (about 1e-12 relative to F, amplified by (β/c)⁴ in layers much stiffer than c) over h.
+      const amplification = Math.max(1, (Math.max(...layers.map((l) => l.vs)) / c) ** 4);
+      const tol = (1e-11 * amplification) / h + 1e-6 * Math.abs(got);
+      expect(Math.abs(got - num), `case ${t}: c ${c}, ω ${omega}: slope ${got}, difference ${num}, tol ${tol}`).toBeLessThan(tol);
+      checked++;
+    }
+    expect(checked).toBeGreaterThan(20);
   });
 });
