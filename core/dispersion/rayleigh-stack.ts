@@ -90,6 +90,13 @@ import {
 
 const slopeScratch: SecularDerivatives = { value: 0, dc: 0, dk: 0 };
 
+// The scan's inner calls through plain module constants: under a CommonJS transform (tsx, which runs the
+// benches and the office command line from source) every use of an imported binding is a property getter.
+const secular = rayleighSecular;
+const secularWithSlope = rayleighSecularSlope;
+const scaleOfValue = secularScale;
+const scaleOfSlope = secularSlope;
+
 export { prepareRayleighStack, rayleighSecular, type RayleighStack } from './rayleigh-secular';
 
 /**
@@ -210,7 +217,7 @@ export class RayleighStackSolver {
   private aheadAt = NaN;
   private readonly f = (c: number): number => {
     this.outcome.evaluations++;
-    return rayleighSecular(this.stack, this.omega, c);
+    return secular(this.stack, this.omega, c);
   };
 
   constructor(stack: RayleighStack) {
@@ -368,8 +375,8 @@ export class RayleighStackSolver {
     if (c === this.slopeAt[1]) return this.slopeVal[1];
     this.outcome.evaluations++;
     this.outcome.slopeEvaluations++;
-    const d = rayleighSecularSlope(this.stack, this.omega, c, slopeScratch);
-    const v = d.dc / d.value + secularSlope.scale;
+    const d = secularWithSlope(this.stack, this.omega, c, slopeScratch);
+    const v = d.dc / d.value + scaleOfSlope.scale;
     const i = this.slopeNext;
     this.slopeAt[i] = c;
     this.slopeVal[i] = v;
@@ -565,7 +572,7 @@ export class RayleighStackSolver {
 
 /** log₂|F| of the value just computed, with its power-of-two scale (comparable across c). */
 function magnitude(f: number): number {
-  return Math.log2(Math.abs(f)) + secularScale.exponent;
+  return Math.log2(Math.abs(f)) + scaleOfValue.exponent;
 }
 
 const derivatives = { value: 0, dc: 0, dk: 0 };
