@@ -84,6 +84,8 @@ export interface LoveStack {
   readonly muH: number;
   /** The slowest layer's shear speed: the lower end of the Love-wave range, m/s. */
   readonly vsMin: number;
+  /** 1/β per layer, s/m (the propagator multiplies by it). */
+  readonly invVs: Float64Array;
 }
 
 /** Copies a (validated) model into the propagator's columnar form. */
@@ -93,6 +95,7 @@ export function prepareLoveStack(model: LayeredModel): LoveStack {
   const vs = new Float64Array(n);
   const density = new Float64Array(n);
   const mu = new Float64Array(n);
+  const invVs = new Float64Array(n);
   let vsMin = Infinity;
   for (let j = 0; j < n; j++) {
     const l = model.layers[j];
@@ -100,10 +103,11 @@ export function prepareLoveStack(model: LayeredModel): LoveStack {
     vs[j] = l.vs;
     density[j] = l.density;
     mu[j] = l.density * l.vs * l.vs;
+    invVs[j] = 1 / l.vs;
     if (l.vs < vsMin) vsMin = l.vs;
   }
   const { vs: vsH, density: densityH } = model.halfspace;
-  return { count: n, thickness, vs, density, mu, vsH, densityH, muH: densityH * vsH * vsH, vsMin };
+  return { count: n, thickness, vs, density, mu, vsH, densityH, muH: densityH * vsH * vsH, vsMin, invVs };
 }
 
 /**
@@ -169,7 +173,7 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
   let l = 1;
   let t = 0;
   let m = 0;
-  const { thickness, vs, mu, count } = s;
+  const { thickness, vs, mu, count, invVs } = s;
   for (let j = 0; j < count; j++) {
     const b = vs[j];
     const d = thickness[j];
@@ -177,7 +181,7 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
     let l1: number;
     let t1: number;
     if (c > b) {
-      const nu = (k * Math.sqrt((c - b) * (c + b))) / b;
+      const nu = k * Math.sqrt((c - b) * (c + b)) * invVs[j];
       const x = nu * d;
       const cs = Math.cos(x);
       const sn = Math.sin(x);
@@ -194,7 +198,7 @@ function propagate(s: LoveStack, omega: number, c: number, countNodes: boolean):
         m = mNew;
       }
     } else {
-      const g = (k * Math.sqrt((b - c) * (b + c))) / b;
+      const g = k * Math.sqrt((b - c) * (b + c)) * invVs[j];
       // e^(−2γd) − 1: expm1 where γd is small (exact there), exp (cheaper) where e^(−2γd) < 0.61, with no cancellation.
       const gd2 = 2 * g * d;
       const em = gd2 > 0.5 ? Math.exp(-gd2) - 1 : Math.expm1(-gd2);
