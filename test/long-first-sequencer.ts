@@ -15,34 +15,33 @@ import { BaseSequencer, type TestSpecification } from 'vitest/node';
 /**
  * Test files that take longest, longest first: the order of their times
  * (test-results/file-times.json, from queued to done) in a clean-clone run
- * of npm test with two workers, 2026-12-02 17:44 (a load of about 10 on the
- * shared 2-core machine), each file's share averaged with its share of an
- * earlier, quieter run (load 2-8). Keep it roughly up to date: a file
- * missing here only starts later.
+ * of npm test with two workers on the 2-core machine at a load of about 4,
+ * 2026-12-02 18:17 (984 tests, vitest 277 s). Keep it roughly up to date
+ * from that file after a full run: a file missing here only starts later.
  */
 export const LONG_FILES: readonly string[] = [
   'test/e2e/office-sync-browser.test.ts',
   'test/reference/profile-coverage.test.ts',
-  'test/e2e/phone-layout.test.ts',
-  'test/e2e/office-server.test.ts',
-  'test/e2e/app.test.ts',
-  'test/e2e/office-integrity.test.ts',
-  'test/e2e/office-sync.test.ts',
-  'test/reference/estimate-coverage.test.ts',
-  'test/unit/office/site-cli.test.ts',
-  'test/e2e/field-trust.test.ts',
   'test/unit/core/exchange/importer-fuzz.test.ts',
-  'test/e2e/layer-builder.test.ts',
-  'test/unit/core/recordings/fuzz.test.ts',
-  'test/e2e/offline-shell.test.ts',
-  'test/e2e/records.test.ts',
   'test/unit/core/dispersion/love-random.test.ts',
+  'test/reference/estimate-coverage.test.ts',
+  'test/e2e/phone-layout.test.ts',
+  'test/unit/core/recordings/fuzz.test.ts',
+  'test/e2e/office-server.test.ts',
+  'test/e2e/field-trust.test.ts',
+  'test/e2e/app.test.ts',
+  'test/e2e/records.test.ts',
+  'test/e2e/layer-builder.test.ts',
+  'test/e2e/office-integrity.test.ts',
+  'test/e2e/offline-shell.test.ts',
+  'test/e2e/office-sync.test.ts',
+  'test/unit/office/site-cli.test.ts',
   'test/e2e/office-exports.test.ts',
+  'test/e2e/profile.test.ts',
+  'test/unit/core/profile/profile-estimate.test.ts',
+  'test/reference/rayleigh-thin-layer-random.test.ts',
   'test/unit/office/estimate-layers-cli.test.ts',
   'test/reference/rayleigh-thin-layer.test.ts',
-  'test/unit/core/profile/profile-estimate.test.ts',
-  'test/e2e/profile.test.ts',
-  'test/reference/rayleigh-thin-layer-random.test.ts',
   'test/unit/office/curve-cli.test.ts',
   'test/e2e/office-integrity-browser.test.ts',
   'test/e2e/office-recordings.test.ts',
