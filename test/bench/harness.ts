@@ -56,13 +56,18 @@ export async function bench(name: string, fn: () => unknown, options: BenchOptio
     times.push((performance.now() - t0) / inner);
   }
   if (sink === Symbol.for('never')) console.log(sink);
-  times.sort((a, b) => a - b);
+  return summary(name, times, options);
+}
+
+/** The result of times measured elsewhere (e.g. in a worker thread): median and 10th/90th percentiles. */
+export function summary(name: string, times: readonly number[], options: Pick<BenchOptions, 'target_ms' | 'note'> = {}): BenchResult {
+  const sorted = [...times].sort((a, b) => a - b);
   return {
     name,
-    median_ms: quantile(times, 0.5),
-    p10_ms: quantile(times, 0.1),
-    p90_ms: quantile(times, 0.9),
-    samples,
+    median_ms: quantile(sorted, 0.5),
+    p10_ms: quantile(sorted, 0.1),
+    p90_ms: quantile(sorted, 0.9),
+    samples: sorted.length,
     target_ms: options.target_ms,
     note: options.note,
   };
