@@ -41,10 +41,11 @@ export function syncWords(status: SyncStatus, online: boolean, when: (iso: strin
   let headline: string;
   if (status.state === 'not-set-up') {
     headline = n > 0 ? `Not set up: ${plural(n, 'change waits', 'changes wait')} on this tablet until an office address and token are entered.` : 'Not set up: enter the office address and this tablet’s token.';
+  } else if (!online || status.state === 'offline') {
+    // Before "syncing": an attempt that starts while the device says it is offline (a timer, a reload) cannot reach the office.
+    headline = n > 0 ? `Offline: ${plural(n, 'change waits', 'changes wait')} on this tablet and will be sent when the office can be reached.` : 'Offline: nothing is waiting to be sent.';
   } else if (status.state === 'syncing') {
     headline = 'Syncing with the office now…';
-  } else if (!online || status.state === 'offline') {
-    headline = n > 0 ? `Offline: ${plural(n, 'change waits', 'changes wait')} on this tablet and will be sent when the office can be reached.` : 'Offline: nothing is waiting to be sent.';
   } else if (status.state === 'error' || lastAttemptFailed) {
     headline = n > 0 ? `Not sent: the last attempt failed, and ${plural(n, 'change waits', 'changes wait')} on this tablet; sync will try again.` : 'The last attempt failed; sync will try again.';
   } else if (n > 0) {

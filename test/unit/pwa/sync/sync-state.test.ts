@@ -92,6 +92,12 @@ describe('sync says the truth', () => {
     expect(syncWords({ ...base, state: 'not-set-up' }, true, when).syncNowBlocked).toBe('Enter the office address and token first.');
   });
 
+  it('says "offline" while the device is offline, even while an attempt started then is still running', () => {
+    const base: SyncStatus = { state: 'syncing', pending: 3, conflicts: 0, heldDemo: 0, includeDemo: false, serverUrl: 'http://office:8750' };
+    expect(syncWords(base, false, when).headline).toBe('Offline: 3 changes wait on this tablet and will be sent when the office can be reached.');
+    expect(syncWords(base, true, when).headline).toBe('Syncing with the office now…');
+  });
+
   it('says "up to date" only with nothing waiting after a successful sync', () => {
     const ok: SyncStatus = { state: 'idle', pending: 0, conflicts: 0, heldDemo: 0, includeDemo: false, lastSuccess: '2026-05-04T10:00:00.000Z' };
     expect(syncWords(ok, true, when).headline).toBe('Up to date: nothing waiting to be sent; last sync at 2026-05-04T10:00:00.000Z.');
