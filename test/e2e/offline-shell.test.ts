@@ -164,7 +164,9 @@ describe('updates wait for the user', () => {
       const waiting = await page.evaluate(async () => {
         const reg = (await navigator.serviceWorker.getRegistration())!;
         await reg.update();
-        for (let i = 0; i < 200 && !reg.waiting; i++) await new Promise((r) => setTimeout(r, 50));
+        // reg.waiting is set a moment before its state reads 'installed' (two steps of the install), so wait for both;
+        // up to 30 s, as precaching the newer build on a loaded machine can take a while.
+        for (let i = 0; i < 600 && reg.waiting?.state !== 'installed'; i++) await new Promise((r) => setTimeout(r, 50));
         return {
           waiting: reg.waiting?.state ?? null,
           controllerIsOld: navigator.serviceWorker.controller !== null && reg.active !== reg.waiting,
@@ -187,5 +189,5 @@ describe('updates wait for the user', () => {
       await v2?.stop();
       rmSync(newer, { recursive: true, force: true });
     }
-  });
+  }, 90_000);
 });
