@@ -21,7 +21,11 @@
  *    in r_β = √(1 − c²/β_H²) (F is analytic in r_β, not in c, near β_H,
  *    where the overtones start);
  *  - where |F| (only smooth positive factors taken out, so its size is
- *    meaningful) has a local minimum between two grid points of one sign,
+ *    meaningful) has a local minimum between two grid points of one sign
+ *    (the cell's ends lower than the grid points beyond them, or an end a
+ *    dip; a root in the cell beyond such a grid point pulls |F| down there
+ *    and can hide a pair's valley, so those values are also compared with
+ *    that root's factor (c − r) divided out, the root refined first),
  *    and the exact slopes d ln|F|/dc along the scan at the two ends (rayleighSecularSlope,
  *    forward differentiation) confirm a valley, |F| falling into the cell
  *    from both ends (two hidden roots need that, unless F also turns at an
@@ -46,8 +50,8 @@
  *    slopes are those of the function the scan samples, F̃(c, ω/c), at
  *    fixed ω (rayleighSecularSlope); taken at fixed k instead, as before,
  *    they missed real pairs in 7 of those solves. The
- *    fast mode (careful = false) uses both plain slopes always and a
- *    coarser grid (π/5 of phase, 6 % of c), and can miss a close pair
+ *    fast mode (careful = false) uses both plain slopes always, a
+ *    coarser grid (π/5 of phase, 6 % of c) and the plain walls only, and can miss a close pair
  *    within two cells of a third root: curves use it and check each
  *    frequency against its neighbours (curve.ts followModes);
  *  - each sign change is refined by Brent's method (core/numeric/roots.ts).
@@ -302,6 +306,14 @@ export class RayleighStackSolver {
     // cell, found before the cell beside it is judged (careful mode), kept until its own cell comes.
     let rootPrev = NaN;
     this.aheadAt = NaN;
+    // The grid point below c0 and the root of the cell below that one (NaN: none), for the wall beyond a
+    // cell's neighbour; and a grid point evaluated ahead of its turn (the one after c2; NaN: none).
+    let cPrev = fromFloor ? cBehind : NaN;
+    let rootPrev2 = NaN;
+    let cLater = NaN;
+    let fLater = NaN;
+    let gLater = NaN;
+    let phiLater = NaN;
     if (fromFloor && (f0 === 0 || fBehind * f0 < 0)) {
       const r = this.root(cBehind, fBehind, c0, f0);
       this.emit(r.x, r.status, modes, out);
@@ -321,11 +333,20 @@ export class RayleighStackSolver {
       const change = f1 === 0 || f0 * f1 < 0;
       // The look-ahead is not needed when this cell's root is the last one asked for.
       if (c1 < top && !(change && o.found + 1 >= modes)) {
-        c2 = this.nextPoint(c1, phi1, top);
-        phi2 = this.nextPhase;
-        f2 = this.f(c2);
-        g2 = magnitude(f2);
+        if (cLater === cLater) {
+          c2 = cLater;
+          phi2 = phiLater;
+          f2 = fLater;
+          g2 = gLater;
+        } else {
+          c2 = this.nextPoint(c1, phi1, top);
+          phi2 = this.nextPhase;
+          f2 = this.f(c2);
+          g2 = magnitude(f2);
+        }
       }
+      cLater = NaN;
+      const rootLeftCell = rootPrev;
       if (change) {
         const r = c0 === this.aheadAt ? this.ahead : this.root(c0, f0, c1, f1);
         this.emit(r.x, r.status, modes, out);
@@ -335,22 +356,52 @@ export class RayleighStackSolver {
         // lower at each end than beyond it (a root next door counts as lower beyond), or whose end is a
         // dip of |F|. The last cell has no right neighbour: it counts as walled.
         const changeNext = c1 < top && (f2 === 0 || f1 * f2 < 0);
-        const leftWall = Number.isNaN(gPrev) || g0 < gPrev || changePrev;
+        // A root in the cell beyond a neighbour pulls |F| down at the neighbour's far end, the point a wall is
+        // judged against, and can hide the wall (a root just below cPrev, or just above c2): there the careful
+        // scan also judges the wall with that root's factor (c − r) divided out of both values compared (the
+        // fast scan does not: on 3,000 seeded solves it found no root more, for 5 % more evaluations).
+        const careful = this.careful;
+        let lowLeft = g0 < gPrev;
+        if (careful && !lowLeft && !changePrev && rootPrev2 === rootPrev2) {
+          lowLeft = g0 - Math.log2(c0 - rootPrev2) < gPrev - Math.log2(cPrev - rootPrev2);
+        }
+        const leftWall = Number.isNaN(gPrev) || lowLeft || changePrev;
         const rightWall = c1 >= top || g1 < g2 || changeNext;
-        const dipLeft = g0 < gPrev && g0 <= g1;
+        const dipLeft = lowLeft && g0 <= g1;
         const dipRight = c1 < top && g1 < g0 && g1 <= g2;
-        if ((leftWall && rightWall) || dipLeft || dipRight) {
+        let search = (leftWall && rightWall) || dipLeft || dipRight;
+        let wallBeyond = false;
+        if (careful && !search && !changeNext && c2 < top && (leftWall || g1 < g0)) {
+          // Only the right end's comparison with c2 failed: look one grid point beyond c2 (needed later anyway
+          // unless the scan stops first), and where that cell holds a root, refine it (kept for its turn) and
+          // compare with its factor divided out.
+          cLater = this.nextPoint(c2, phi2, top);
+          phiLater = this.nextPhase;
+          fLater = this.f(cLater);
+          gLater = magnitude(fLater);
+          if (fLater === 0 || f2 * fLater < 0) {
+            this.ahead = this.root(c2, f2, cLater, fLater);
+            this.aheadAt = c2;
+            const r = this.ahead.x;
+            search = wallBeyond = g1 - Math.log2(r - c1) < g2 - Math.log2(r - c2);
+          }
+        }
+        if (search) {
           let rootNext = NaN;
-          if (changeNext && this.careful) {
+          if (changeNext && careful) {
             // The next cell's root, found now so that the judgement of this cell can take it out.
-            this.ahead = this.root(c1, f1, c2, f2);
-            this.aheadAt = c1;
+            if (this.aheadAt !== c1) {
+              this.ahead = this.root(c1, f1, c2, f2);
+              this.aheadAt = c1;
+            }
             rootNext = this.ahead.x;
           }
-          if (this.valley(c0, c1, top, changePrev, changeNext, rootPrev, rootNext)) this.probe(c0, f0, c1, f1, out, modes);
+          if (this.valley(c0, c1, top, changePrev, changeNext, rootPrev, rootNext, wallBeyond)) this.probe(c0, f0, c1, f1, out, modes);
         }
       }
       if (!change) rootPrev = NaN;
+      rootPrev2 = rootLeftCell;
+      cPrev = c0;
       gPrev = g0;
       changePrev = change;
       c0 = c1;
@@ -397,14 +448,24 @@ export class RayleighStackSolver {
    * cell that ends at β_H, where F is analytic in r_β, not in c. A NaN
    * slope counts as a valley.
    */
-  private valley(ca: number, cb: number, top: number, rootLeft: boolean, rootRight: boolean, rPrev: number, rNext: number): boolean {
+  private valley(
+    ca: number,
+    cb: number,
+    top: number,
+    rootLeft: boolean,
+    rootRight: boolean,
+    rPrev: number,
+    rNext: number,
+    rightFirst: boolean,
+  ): boolean {
     if (cb >= top) return true;
     if (!(this.careful && (rootLeft || rootRight))) {
-      // Both slopes (fast mode, or careful with no root beside). Beside a root on the right, |F̃| most
-      // often falls into cb: look there first.
-      if (rootRight && this.logSlope(cb) <= 0) return false;
+      // Both slopes (fast mode, or careful with no root beside). Beside a root on the right, or one cell
+      // beyond (rightFirst), |F̃| most often falls into cb: look there first (the next cell reuses it).
+      const first = rootRight || rightFirst;
+      if (first && this.logSlope(cb) <= 0) return false;
       if (this.leftSlope(ca, cb) >= 0) return false;
-      return rootRight || !(this.logSlope(cb) <= 0);
+      return first || !(this.logSlope(cb) <= 0);
     }
     // Careful, beside a root: the slope on the root's side says nothing, so the far side judges first.
     let left = NaN;

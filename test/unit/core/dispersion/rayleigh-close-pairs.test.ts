@@ -1,22 +1,28 @@
 /**
  * The careful Rayleigh scan (the solver's default) never skips a close pair
- * of roots beside a third root: eight seeded cases where two branches come
- * within 0.2–1.3 % of each other next to another mode, in or beside the
+ * of roots beside a third root: eleven cases where two branches come
+ * within 0.2–2 % of each other next to another mode, in or beside the
  * cell of that mode's root, where the scan judges whether to search a cell
- * whose ends share a sign (rayleigh-stack.ts, valley). Each case was found
- * by a seeded search (mulberry32 seeds 1–4, 15,000 solves each, models as
+ * whose ends share a sign (rayleigh-stack.ts, valley). The first eight were
+ * found by a seeded search (mulberry32 seeds 1–4, 15,000 solves each, models as
  * in rayleigh-random.test.ts, every other one with a very soft layer at
  * depth) as a pair that a weaker judgement of that cell missed: reading the
  * slope on the root's side with the root divided out (the first five), the
  * rise of the slopes across the cell without its guards for steep slopes
  * and a root within 0.1 cells (the first and the sixth), or slopes taken at
- * fixed k instead of along the scan (fixed ω; the last two, which the
- * solver missed before).
+ * fixed k instead of along the scan (fixed ω; the seventh and eighth, which the
+ * solver missed before). The last three were met by hand (two at rounded
+ * model values, one with P speeds from Poisson's ratio 0.3, vp = vs·√3.5):
+ * a root in the cell beyond a neighbouring cell, close to the grid point
+ * between them, pulls |F| down there, so that the cell of the pair did not
+ * look lower than its surroundings and was never judged (a wall judged
+ * with that root's factor divided out, rayleigh-stack.ts solve); the
+ * solver missed these pairs before.
  *
  * Reference: a dense scan of the plain six-minor secular function
  * (rayleighSecularReference, not the solver's five-minor step) over the
  * window between the roots around the pair, 4,000 points (steps of 0.01 to
- * 0.06 m/s, finer than any gap here): each sign change there must hold a
+ * 0.08 m/s, finer than any gap here): each sign change there must hold a
  * solver root, and the solver may report no other root in the window.
  */
 import { describe, expect, it } from 'vitest';
@@ -29,7 +35,7 @@ interface PairCase {
   f: number;
   /** The close pair (m/s, rounded to 0.1 mm/s), as the careful scan finds it. */
   pair: [number, number];
-  /** The solver's roots just below and above the pair (m/s, rounded to 0.1 mm/s). */
+  /** The solver's roots just below and above the pair (m/s, rounded to 0.1 mm/s; the scan's floor where none lies below). */
   window: [number, number];
   model: LayeredModel;
 }
@@ -82,6 +88,24 @@ const CASES: PairCase[] = [
     pair: [736.6852, 738.8031],
     window: [685.982, 770.9357],
     model: {layers: [{thickness: 1.9794265461387113, vs: 338.80831581540406, vp: 1500, density: 1600.7197129074484}, {thickness: 29.410647259792313, vs: 825.0481936521828, vp: 3002.790762552141, density: 2067.2763837501407}, {thickness: 28.190038829226978, vs: 96.75654849037528, vp: 242.71000561509626, density: 1928.7556689232588}, {thickness: 8.742758256266825, vs: 587.0460247993469, vp: 1500, density: 2198.301045689732}, {thickness: 14.491536559304222, vs: 118.97257558535784, vp: 392.2134418446587, density: 2087.0273942127824}], halfspace: {vs: 788.922930171694, vp: 1400.5715682825382, density: 1896.8614113517106}},
+  },
+  {
+    f: 12.25,
+    pair: [338.1477, 345.0691],
+    window: [325.8854, 457.4617],
+    model: {layers: [{thickness: 13.545, vs: 365.14, vp: 1500, density: 1526.782}, {thickness: 16.451, vs: 214.824, vp: 1500, density: 1666.155}, {thickness: 10.008, vs: 608.914, vp: 1500, density: 1661.177}, {thickness: 13.384, vs: 99.781, vp: 307.305, density: 1733.185}, {thickness: 26.804, vs: 443.811, vp: 1346.2, density: 2457.884}], halfspace: {vs: 546.77, vp: 1525.857, density: 2115.356}},
+  },
+  {
+    f: 26.624,
+    pair: [290.3026, 295.3075],
+    window: [270.047, 340.5798],
+    model: {layers: [{thickness: 21.874, vs: 304.892, vp: 1500, density: 2465.907}, {thickness: 18.81, vs: 118.494, vp: 409.019, density: 1785.064}, {thickness: 11.393, vs: 327.768, vp: 603.701, density: 2103.061}], halfspace: {vs: 690.899, vp: 1500, density: 2178.622}},
+  },
+  {
+    f: 3 * Math.pow(40 / 3, 30 / 39),
+    pair: [577.3508, 588.5449],
+    window: [296.4816, 602.2354],
+    model: {layers: [{thickness: 48.89266017189191, vs: 634.3187939357434, vp: 634.3187939357434 * Math.sqrt(3.5), density: 1800}, {thickness: 7.355514144797329, vs: 355.2076431595691, vp: 355.2076431595691 * Math.sqrt(3.5), density: 1800}], halfspace: {vs: 640.134122792339, vp: 640.134122792339 * Math.sqrt(3.5), density: 2100}},
   },
 ];
 
