@@ -251,6 +251,30 @@ describe('office sync, one tablet', () => {
   });
 });
 
+/** Two tablets registered with one office, tablet A's one invented site (two picks) synced to both. */
+async function twoTabletsSharingOneSite() {
+  const data = tempDataDir();
+  const tA = await addDevice(data, 'tablet-a');
+  const tB = await addDevice(data, 'tablet-b');
+  const srv = await office(data);
+  const [a, b] = [await tablet(), await tablet()];
+  const [ca, cb] = [clientFor(a), clientFor(b)];
+  await ca.configure(srv.url, tA);
+  await cb.configure(srv.url, tB);
+  const { sites } = await survey(a, 1, 2);
+  expect((await ca.syncNow()).ok).toBe(true);
+  expect((await cb.syncNow()).ok).toBe(true);
+  return { data, a, b, ca, cb, sites };
+}
+
+/** An invented layer-builder model: one layer h metres thick over a half-space. */
+const oneLayerModel = (h: number) => ({
+  model: { layers: [{ thickness_m: h, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
+  pInput: 'vp' as const,
+  waves: { love: true, rayleigh: false },
+  modes: 2,
+});
+
 describe('office sync, two tablets and a crash', () => {
   it('3. two tablets editing one site from the same revision: both versions are kept, the conflict is flagged in the office and shown on both tablets', async () => {
     const data = tempDataDir();
@@ -300,26 +324,10 @@ describe('office sync, two tablets and a crash', () => {
   });
 
   it('3b. two tablets changing the layer builder model of one site from the same revision: both models are kept for review; keeping one after review converges everywhere', async () => {
-    const data = tempDataDir();
-    const tA = await addDevice(data, 'tablet-a');
-    const tB = await addDevice(data, 'tablet-b');
-    const srv = await office(data);
-    const [a, b] = [await tablet(), await tablet()];
-    const [ca, cb] = [clientFor(a), clientFor(b)];
-    await ca.configure(srv.url, tA);
-    await cb.configure(srv.url, tB);
-    const { sites } = await survey(a, 1, 2);
-    expect((await ca.syncNow()).ok).toBe(true);
-    expect((await cb.syncNow()).ok).toBe(true);
+    const { data, a, b, ca, cb, sites } = await twoTabletsSharingOneSite();
     // Invented models: the same layer, 5 m on tablet A and 8 m on tablet B.
-    const model = (h: number) => ({
-      model: { layers: [{ thickness_m: h, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
-      pInput: 'vp' as const,
-      waves: { love: true, rayleigh: false },
-      modes: 2,
-    });
-    const onA = await a.saveSite(nextRevision(sites[0], { layeredModel: model(5) }, new Date('2026-05-05T09:00:00Z')));
-    await b.saveSite(nextRevision((await b.getSite(sites[0].id))!, { layeredModel: model(8) }, new Date('2026-05-05T09:05:00Z')));
+    const onA = await a.saveSite(nextRevision(sites[0], { layeredModel: oneLayerModel(5) }, new Date('2026-05-05T09:00:00Z')));
+    await b.saveSite(nextRevision((await b.getSite(sites[0].id))!, { layeredModel: oneLayerModel(8) }, new Date('2026-05-05T09:05:00Z')));
     expect((await ca.syncNow()).conflicts).toBe(0);
     expect((await cb.syncNow()).conflicts).toBe(1);
     expect((await cli(['conflicts', '--data', data])).out).toContain(`from tablet-a; differs in layeredModel`);
@@ -329,7 +337,7 @@ describe('office sync, two tablets and a crash', () => {
     expect(shown.conflicts![0].record).toEqual(onA);
 
     // Tablet A keeps its own model after review: a revision that supersedes both, which reaches the office and tablet B.
-    await a.saveSite(resolveConflict(shown, { layeredModel: model(5) }));
+    await a.saveSite(resolveConflict(shown, { layeredModel: oneLayerModel(5) }));
     expect((await ca.syncNow()).ok).toBe(true);
     expect((await cb.syncNow()).ok).toBe(true);
     const [row] = query<{ body: string; conflicts: number }>(data, 'SELECT body, conflicts FROM records WHERE id = ?', sites[0].id);
@@ -339,27 +347,11 @@ describe('office sync, two tablets and a crash', () => {
   });
 
   it('3c. 100 layer builder edits on one tablet offline between syncs: no conflict, the office and the other tablet hold the last model', async () => {
-    const data = tempDataDir();
-    const tA = await addDevice(data, 'tablet-a');
-    const tB = await addDevice(data, 'tablet-b');
-    const srv = await office(data);
-    const [a, b] = [await tablet(), await tablet()];
-    const [ca, cb] = [clientFor(a), clientFor(b)];
-    await ca.configure(srv.url, tA);
-    await cb.configure(srv.url, tB);
-    const { sites } = await survey(a, 1, 2);
-    expect((await ca.syncNow()).ok).toBe(true);
-    expect((await cb.syncNow()).ok).toBe(true);
+    const { data, a, b, ca, cb, sites } = await twoTabletsSharingOneSite();
     // Invented models: 100 saved cell edits, as the layer builder saves them (pwa/ui/controllers/layered-work.ts).
-    const model = (h: number) => ({
-      model: { layers: [{ thickness_m: h, vs_m_s: 190, density_kg_m3: 1800 }], halfspace: { vs_m_s: 560, density_kg_m3: 2100 } },
-      pInput: 'vp' as const,
-      waves: { love: true, rayleigh: false },
-      modes: 2,
-    });
     for (let i = 1; i <= 100; i++) {
       const site = (await a.getSite(sites[0].id))!;
-      await a.saveSite(nextRevision(site, { layeredModel: model(2 + i / 10) }), { amendUnsent: true });
+      await a.saveSite(nextRevision(site, { layeredModel: oneLayerModel(2 + i / 10) }), { amendUnsent: true });
     }
     const ra = await ca.syncNow();
     expect(ra.ok).toBe(true);
