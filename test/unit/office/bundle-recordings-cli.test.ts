@@ -9,36 +9,19 @@
  * SQLite files in a temporary folder; the commands run in this process.
  */
 import { createHash } from 'node:crypto';
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { existsSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parseBundle } from '../../../core/exchange/bundle';
 import { fromBase64 } from '../../../core/exchange/base64';
 import { RECORDINGS_CSV_COLUMNS } from '../../../core/exchange/office-tables';
 import { CAUTION } from '../../../core/shared/caution';
 import type { PickRecord, RecordingRecord, SiteRecord } from '../../../core/exchange/records';
-import { main } from '../../../office/cli';
+import { cli, officeScratch } from './office-harness';
 import { OfficeStore } from '../../../office/store';
 
 const T = '2026-05-04T08:00:00.000Z';
-const dirs: string[] = [];
-afterAll(() => {
-  for (const d of dirs) rmSync(d, { recursive: true, force: true });
-});
-
-function dir(): string {
-  const d = mkdtempSync(join(tmpdir(), 'shearfield-bundle-rec-'));
-  dirs.push(d);
-  return d;
-}
-
-async function cli(args: string[]) {
-  let out = '';
-  let err = '';
-  const code = await main(args, { out: (t) => (out += t), err: (t) => (err += t) });
-  return { code, out, err };
-}
+const { dir } = officeScratch('shearfield-bundle-rec-');
 
 /** Invented sites, a pick, and invented bytes standing in for seismograph files. */
 const site = (id: string): SiteRecord => ({ type: 'site', id, rev: 1, updatedAt: T, name: `Invented site ${id}`, date: '2026-05-04', crew: '', notes: '', axisUnit: 'hz', settings: {} });

@@ -5,38 +5,19 @@
  */
 import Database from 'better-sqlite3';
 import { spawn } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { CAUTION } from '../../../core/shared/caution';
 import { demoPicks } from '../../../core/exchange/demo';
 import type { PickRecord, SiteRecord } from '../../../core/exchange/records';
 import { SUMMARY_CSV_COLUMNS } from '../../../core/exchange/office-tables';
-import { main } from '../../../office/cli';
-import { startOfficeServer, type RunningOffice } from '../../../office/server';
+import { cli, officeScratch } from './office-harness';
+import { startOfficeServer } from '../../../office/server';
 import { DB_FILE_NAME, OfficeStore, STORE_SCHEMA_VERSION, tokenHash } from '../../../office/store';
 
 const T = '2026-05-04T08:00:00.000Z';
-const running: RunningOffice[] = [];
-const dirs: string[] = [];
-afterAll(async () => {
-  for (const r of running) await r.close();
-  for (const d of dirs) rmSync(d, { recursive: true, force: true });
-});
-
-function dir(): string {
-  const d = mkdtempSync(join(tmpdir(), 'shearfield-office-unit-'));
-  dirs.push(d);
-  return d;
-}
-
-async function cli(args: string[]) {
-  let out = '';
-  let err = '';
-  const code = await main(args, { out: (t) => (out += t), err: (t) => (err += t) });
-  return { code, out, err };
-}
+const { dir, running } = officeScratch('shearfield-office-unit-');
 
 describe('devices', () => {
   it('add prints the token once and the store keeps only its SHA-256; list and revoke complete the set', async () => {

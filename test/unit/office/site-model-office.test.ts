@@ -7,38 +7,19 @@
  * SQLite files in a temporary folder; the server and the commands run in
  * this process. The site and its model are invented.
  */
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { afterAll, describe, expect, it } from 'vitest';
+import { describe, expect, it } from 'vitest';
 import { parseBundle } from '../../../core/exchange/bundle';
 import { nextRevision, type SiteLayeredModel, type SiteRecord } from '../../../core/exchange/records';
 import { modelFromJson } from '../../../core/dispersion/model';
 import { CAUTION } from '../../../core/shared/caution';
-import { main } from '../../../office/cli';
-import { startOfficeServer, type RunningOffice } from '../../../office/server';
+import { cli, officeScratch } from './office-harness';
+import { startOfficeServer } from '../../../office/server';
 import { OfficeStore } from '../../../office/store';
 
 const T = '2026-05-04T08:00:00.000Z';
-const running: RunningOffice[] = [];
-const dirs: string[] = [];
-afterAll(async () => {
-  for (const r of running) await r.close();
-  for (const d of dirs) rmSync(d, { recursive: true, force: true });
-});
-
-function dir(): string {
-  const d = mkdtempSync(join(tmpdir(), 'shearfield-site-model-'));
-  dirs.push(d);
-  return d;
-}
-
-async function cli(args: string[]) {
-  let out = '';
-  let err = '';
-  const code = await main(args, { out: (t) => (out += t), err: (t) => (err += t) });
-  return { code, out, err };
-}
+const { dir, running } = officeScratch('shearfield-site-model-');
 
 /** An invented two-layer model, its P speeds typed as Poisson's ratios 0.3 and 0.25 (vp = vs·√((2 − 2ν)/(1 − 2ν))). */
 const layeredModel: SiteLayeredModel = {
