@@ -3,7 +3,7 @@
  * beside its check, the source of the values it compares with.
  */
 import { loveVelocities, type TwoLayer } from '../core/dispersion/love-layer';
-import type { LayeredModel } from '../core/dispersion/model';
+import type { Layer, LayeredModel } from '../core/dispersion/model';
 import { picksToCsv, type Pick } from '../core/picks/picks';
 import { gaussian } from '../core/shared/random';
 import { WAVE_FORWARDS } from '../core/profile/profile-forward';
@@ -144,4 +144,19 @@ export function typedRayleighPicksCsv(count: number, from: number, to: number): 
     sd: Number(p.sd!.toFixed(1)),
   }));
   return picksToCsv(picks, { lineEnding: '\n' });
+}
+
+/**
+ * One to five seeded random layers for the Rayleigh solver checks: Vs 60–900 m/s,
+ * thickness 0.5–30 m, Vp/Vs 1.45–4, density 1500–2500 kg/m³ (invented ranges that
+ * span near-surface sites). Draws from `rand` in a fixed order, so a seed gives one set.
+ */
+export function randomLayers(rand: () => number): Required<Layer>[] {
+  const n = 1 + Math.floor(rand() * 5);
+  const layers: Required<Layer>[] = [];
+  for (let i = 0; i < n; i++) {
+    const vs = 60 + rand() * 840;
+    layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
+  }
+  return layers;
 }

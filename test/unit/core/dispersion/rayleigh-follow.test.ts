@@ -14,6 +14,7 @@ import { followModes } from '../../../../core/dispersion/curve';
 import type { LayeredModel } from '../../../../core/dispersion/model';
 import { RayleighStackSolver, prepareRayleighStack } from '../../../../core/dispersion/rayleigh-stack';
 import { mulberry32 } from '../../../../core/shared/random';
+import { randomLayers } from '../../../fixtures';
 
 const pairNearThirdRoot: LayeredModel = {
   layers: [
@@ -63,12 +64,7 @@ describe('Rayleigh curves: fast scan checked against neighbouring frequencies', 
     const rand = mulberry32(4242);
     const bad: string[] = [];
     for (let t = 0; t < 8; t++) {
-      const n = 1 + Math.floor(rand() * 5);
-      const layers = [];
-      for (let i = 0; i < n; i++) {
-        const vs = 60 + rand() * 840;
-        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
-      }
+      const layers = randomLayers(rand);
       const slowest = Math.min(...layers.map((l) => l.vs));
       const vsH = slowest + 20 + rand() * (1200 - slowest);
       const model: LayeredModel = { layers, halfspace: { vs: vsH, vp: vsH * (1.6 + rand()), density: 2000 } };

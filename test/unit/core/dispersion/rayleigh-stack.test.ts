@@ -35,6 +35,7 @@ import {
   secularSlope,
 } from '../../../../core/dispersion/rayleigh-secular';
 import { mulberry32 } from '../../../../core/shared/random';
+import { randomLayers } from '../../../fixtures';
 
 /** Invented site: soft layer over stiffer ground, Poisson's ratio 1/3 in both. */
 const twoLayer: LayeredModel = {
@@ -197,12 +198,7 @@ describe('fast derivatives of the secular function (five-minor step)', () => {
   it('agree with forward differentiation of the plain six-minor form on 150 seeded random models (F_c/F and F_k/F, scale-free)', () => {
     const rand = mulberry32(7);
     for (let t = 0; t < 150; t++) {
-      const n = 1 + Math.floor(rand() * 5);
-      const layers = [];
-      for (let i = 0; i < n; i++) {
-        const vs = 60 + rand() * 840;
-        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
-      }
+      const layers = randomLayers(rand);
       const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
       const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
       const omega = 2 * Math.PI * 0.5 * Math.pow(120, rand());
@@ -234,12 +230,7 @@ describe('fast derivatives of the secular function (five-minor step)', () => {
       Math.log(Math.abs(rayleighSecular(s, omega, c))) + secularScale.exponent * Math.LN2;
     let checked = 0;
     for (let t = 0; t < 30; t++) {
-      const n = 1 + Math.floor(rand() * 5);
-      const layers = [];
-      for (let i = 0; i < n; i++) {
-        const vs = 60 + rand() * 840;
-        layers.push({ thickness: 0.5 + rand() * 29.5, vs, vp: vs * (1.45 + rand() * 2.55), density: 1500 + rand() * 1000 });
-      }
+      const layers = randomLayers(rand);
       const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
       const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
       const omega = 2 * Math.PI * 0.5 * Math.pow(60, rand());
