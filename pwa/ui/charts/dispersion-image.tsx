@@ -98,6 +98,39 @@ function vAt(f: Frame, y: number): number {
   return back(fwd(f.vMin, f.yLog) + ((f.top + f.height - y) / f.height) * (fwd(f.vMax, f.yLog) - fwd(f.vMin, f.yLog)), f.yLog);
 }
 
+/**
+ * Strokes one curve column: velocities y against x, in the frame's axis unit
+ * (frequency or period); the pen lifts over gaps (a non-finite y).
+ */
+function strokeColumn(
+  ctx: CanvasRenderingContext2D,
+  f: Frame,
+  x: ArrayLike<number>,
+  y: ArrayLike<number>,
+  stroke: string,
+  width: number,
+  dash: number[],
+): void {
+  ctx.strokeStyle = stroke;
+  ctx.lineWidth = width;
+  ctx.setLineDash(dash);
+  ctx.beginPath();
+  let pen = false;
+  for (let i = 0; i < x.length; i++) {
+    const v = y[i];
+    if (!Number.isFinite(v)) {
+      pen = false;
+      continue;
+    }
+    const X = xOf(f, f.axis === 'frequency' ? x[i] : 1 / x[i]);
+    const Y = yOf(f, v);
+    if (pen) ctx.lineTo(X, Y);
+    else ctx.moveTo(X, Y);
+    pen = true;
+  }
+  ctx.stroke();
+}
+
 /** Index of the value nearest x in an ascending array. */
 function nearest(a: Float64Array, x: number): number {
   let lo = 0;
@@ -264,27 +297,8 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
           for (const [colour, width] of [
             ['rgba(0,0,0,0.7)', 4],
             ['#ffffff', 2],
-          ] as const) {
-            ctx.strokeStyle = colour;
-            ctx.lineWidth = width;
-            ctx.setLineDash([7, 5]);
-            ctx.beginPath();
-            let pen = false;
-            for (let i = 0; i < curves.x.length; i++) {
-              const y = col[i];
-              if (!Number.isFinite(y)) {
-                pen = false;
-                continue;
-              }
-              const hz = fr.axis === 'frequency' ? curves.x[i] : 1 / curves.x[i];
-              const X = xOf(fr, hz);
-              const Y = yOf(fr, y);
-              if (pen) ctx.lineTo(X, Y);
-              else ctx.moveTo(X, Y);
-              pen = true;
-            }
-            ctx.stroke();
-          }
+          ] as const)
+            strokeColumn(ctx, fr, curves.x, col, colour, width, [7, 5]);
         }
         ctx.setLineDash([]);
       }
@@ -299,26 +313,8 @@ export function DispersionImageCanvas(props: DispersionImageProps) {
           for (const [stroke, w] of [
             [faint ? 'rgba(255,255,255,0.35)' : 'rgba(255,255,255,0.85)', width + 2],
             [faint ? faded(colour) : colour, width],
-          ] as const) {
-            ctx.strokeStyle = stroke;
-            ctx.lineWidth = w;
-            ctx.setLineDash(curveDash(k.wave, k.kind) ?? []);
-            ctx.beginPath();
-            let pen = false;
-            for (let i = 0; i < layered.x.length; i++) {
-              const y = col[i];
-              if (!Number.isFinite(y)) {
-                pen = false;
-                continue;
-              }
-              const X = xOf(fr, fr.axis === 'frequency' ? layered.x[i] : 1 / layered.x[i]);
-              const Y = yOf(fr, y);
-              if (pen) ctx.lineTo(X, Y);
-              else ctx.moveTo(X, Y);
-              pen = true;
-            }
-            ctx.stroke();
-          }
+          ] as const)
+            strokeColumn(ctx, fr, layered.x, col, stroke, w, curveDash(k.wave, k.kind) ?? []);
         });
         ctx.setLineDash([]);
       }
