@@ -194,15 +194,26 @@ describe('Rayleigh group velocity (implicit differentiation of the secular funct
   });
 });
 
+/**
+ * A seeded random case for the secular-function checks: randomLayers over a
+ * half-space 20–620 m/s faster than the slowest layer (Vp = 2 Vs, 2000 kg/m³),
+ * ω log-uniform from 2π·0.5 to 2π·0.5·span rad/s, c from 0.3 to 0.99 of the
+ * half-space Vs. Draws from `rand` in a fixed order.
+ */
+function randomSecularCase(rand: () => number, span: number) {
+  const layers = randomLayers(rand);
+  const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
+  const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
+  const omega = 2 * Math.PI * 0.5 * Math.pow(span, rand());
+  const c = vsH * (0.3 + 0.69 * rand());
+  return { layers, s, omega, c };
+}
+
 describe('fast derivatives of the secular function (five-minor step)', () => {
   it('agree with forward differentiation of the plain six-minor form on 150 seeded random models (F_c/F and F_k/F, scale-free)', () => {
     const rand = mulberry32(7);
     for (let t = 0; t < 150; t++) {
-      const layers = randomLayers(rand);
-      const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
-      const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
-      const omega = 2 * Math.PI * 0.5 * Math.pow(120, rand());
-      const c = vsH * (0.3 + 0.69 * rand());
+      const { layers, s, omega, c } = randomSecularCase(rand, 120);
       const ref = rayleighSecularDerivativesReference(s, omega, c, { value: 0, dc: 0, dk: 0 });
       const fast = rayleighSecularDerivatives(s, omega, c);
       const ctx = `case ${t}: c ${c}, ω ${omega}, ${JSON.stringify(layers)}`;
@@ -230,11 +241,7 @@ describe('fast derivatives of the secular function (five-minor step)', () => {
       Math.log(Math.abs(rayleighSecular(s, omega, c))) + secularScale.exponent * Math.LN2;
     let checked = 0;
     for (let t = 0; t < 30; t++) {
-      const layers = randomLayers(rand);
-      const vsH = Math.min(...layers.map((l) => l.vs)) + 20 + rand() * 600;
-      const s = prepareRayleighStack({ layers, halfspace: { vs: vsH, vp: 2 * vsH, density: 2000 } });
-      const omega = 2 * Math.PI * 0.5 * Math.pow(60, rand());
-      const c = vsH * (0.3 + 0.69 * rand());
+      const { layers, s, omega, c } = randomSecularCase(rand, 60);
       // Away from a wave speed (ln of the scale has a square-root kink there) and from a root of F.
       const speeds = layers.flatMap((l) => [l.vs, l.vp]);
       if (speeds.some((v) => Math.abs(c / v - 1) < 1e-3)) continue;
