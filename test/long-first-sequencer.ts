@@ -16,17 +16,20 @@ import { BaseSequencer, type TestSpecification } from 'vitest/node';
  * Test files that take longest, longest first: the order of their times
  * (test-results/file-times.json, from queued to done) in a clean-clone run
  * of npm test with two workers on the 2-core machine at a load of about 4,
- * 2026-12-02 18:17 (984 tests, vitest 277 s). Keep it roughly up to date
+ * 2026-12-02 18:17 (984 tests, vitest 277 s), with the two 200-trial
+ * coverage files (about 80 s each) put first, 19:00. Keep it roughly up to date
  * from that file after a full run: a file missing here only starts later.
  */
 export const LONG_FILES: readonly string[] = [
+  'test/reference/profile-coverage-rayleigh.test.ts',
+  'test/reference/profile-coverage-joint.test.ts',
   'test/e2e/office-sync-browser.test.ts',
-  'test/reference/profile-coverage.test.ts',
   'test/unit/core/exchange/importer-fuzz.test.ts',
   'test/unit/core/dispersion/love-random.test.ts',
   'test/reference/estimate-coverage.test.ts',
   'test/e2e/phone-layout.test.ts',
   'test/unit/core/recordings/fuzz.test.ts',
+  'test/reference/profile-coverage.test.ts',
   'test/e2e/office-server.test.ts',
   'test/e2e/field-trust.test.ts',
   'test/e2e/app.test.ts',

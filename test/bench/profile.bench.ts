@@ -16,7 +16,7 @@
  * timed there is slower (`PROFILE_BENCH_TSX=1` times it there as well, for
  * comparison).
  *
- * Also the coverage runs too long for npm test: 200 seeded trials per case
+ * Also the coverage: 200 seeded trials per case
  * (test/reference/profile-coverage-trials.ts) at the default effort,
  * reported as rates in the note (a rate, not a time; median_ms is the time
  * per trial). `PROFILE_BENCH_TIMING_ONLY=1 npm run bench -- profile` runs the timings only.

@@ -1,7 +1,8 @@
 /**
  * Seeded coverage trials of the layered estimate, shared by the coverage
- * test (test/reference/profile-coverage.test.ts, modest sizes for npm test)
- * and the bench (test/bench/profile.bench.ts, 200 trials per case).
+ * tests (test/reference/profile-coverage*.test.ts: 200 trials of each case
+ * of issue 13, the Love case lighter) and the bench
+ * (test/bench/profile.bench.ts, 200 trials per case).
  *
  * Each trial: exact picks of an invented model from the forward step of
  * core/profile (fundamental mode, every third a phase pick, sd 3 % of the
@@ -126,4 +127,25 @@ function chi2Of(picks: readonly Pick[], model: ReturnType<typeof withPSpeeds>): 
   let s = 0;
   picks.forEach((p, i) => (s += ((p.velocity - predicted[i]) / p.sd!) ** 2));
   return s;
+}
+
+const P68 = 0.6826894921370859;
+const P95 = 0.95;
+
+/**
+ * Throws unless every per-parameter and pooled rate of `r` lies within 3
+ * binomial standard deviations, 3·√(p(1 − p)/N), of the nominal p (68.27 %
+ * or 95 %), N the number of trials (header of profile-coverage.test.ts).
+ */
+export function expectRates(r: CoverageReport) {
+  const checks: Array<[string, number]> = [];
+  for (const { parameter, rate68, rate95 } of r.rates) checks.push([`${parameter} 68 %`, rate68], [`${parameter} 95 %`, rate95]);
+  checks.push(['pooled 68 %', r.pooled68], ['pooled 95 %', r.pooled95]);
+  for (const [what, rate] of checks) {
+    const p = what.endsWith('68 %') ? P68 : P95;
+    const band = 3 * Math.sqrt((p * (1 - p)) / r.trials);
+    if (!(Math.abs(rate - p) <= band)) {
+      throw new Error(`${r.name}, ${what}: observed ${rate} over ${r.trials} trials, nominal ${p}, allowed ±${band.toFixed(4)} (3 binomial sd)`);
+    }
+  }
 }
