@@ -8,16 +8,6 @@
  * the search finds the deepest basin (the true model fits better than the
  * best fit found in at most 1 % of trials).
  */
-import { describe, expect, it } from 'vitest';
-import { COVERAGE_CASES, expectRates, runCoverage } from './profile-coverage-trials';
+import { describeCoverage200 } from './profile-coverage-200';
 
-describe('coverage of the layered estimate over 200 seeded noisy trials', () => {
-  it('two layers from 8 Love and 8 Rayleigh picks jointly: every parameter covers at about 68 % and 95 %, fits are poor as often as chance allows, the search finds the deepest basin', () => {
-    const c = COVERAGE_CASES.find((x) => x.name.startsWith('Love 8 + Rayleigh 8'))!;
-    const r = runCoverage({ ...c, trials: 200 });
-    console.log(JSON.stringify(r));
-    expectRates(r);
-    expect(r.poorFits).toBeLessThanOrEqual(19);
-    expect(r.searchMisses).toBeLessThanOrEqual(2);
-  }, 900_000);
-});
+describeCoverage200('Love 8 + Rayleigh 8', 'two layers from 8 Love and 8 Rayleigh picks jointly');
