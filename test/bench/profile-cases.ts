@@ -8,6 +8,7 @@
  */
 import { vpFromPoisson } from '../../core/profile/p-speed';
 import type { ProfileOptions } from '../../core/profile/profile-estimate';
+import { forwardWork } from '../../core/profile/profile-forward';
 import type { LayeredModel } from '../../core/dispersion/model';
 import type { Pick } from '../../core/picks/picks';
 import { mulberry32 } from '../../core/shared/random';
@@ -49,3 +50,10 @@ export const PROFILE_CASES: readonly ProfileCase[] = [
     samples: 5,
   },
 ];
+
+/** The forward work per call since `before` (a copy of forwardWork), over `calls` calls. */
+export function workPerCall(before: typeof forwardWork, calls: number): Record<string, number> {
+  const work: Record<string, number> = {};
+  for (const key of Object.keys(forwardWork) as Array<keyof typeof forwardWork>) work[key] = Math.round((forwardWork[key] - before[key]) / calls);
+  return work;
+}

@@ -8,7 +8,7 @@
 import { parentPort, workerData } from 'node:worker_threads';
 import { estimateProfile } from '../../core/profile/profile-estimate';
 import { forwardWork } from '../../core/profile/profile-forward';
-import { PROFILE_CASES } from './profile-cases';
+import { PROFILE_CASES, workPerCall } from './profile-cases';
 
 const c = PROFILE_CASES[(workerData as { index: number }).index];
 const picks = c.picks();
@@ -20,6 +20,4 @@ for (let s = 0; s < c.samples; s++) {
   estimateProfile(picks, c.options);
   times.push(performance.now() - t0);
 }
-const work: Record<string, number> = {};
-for (const key of Object.keys(forwardWork) as Array<keyof typeof forwardWork>) work[key] = Math.round((forwardWork[key] - before[key]) / c.samples);
-parentPort!.postMessage({ times, work });
+parentPort!.postMessage({ times, work: workPerCall(before, c.samples) });

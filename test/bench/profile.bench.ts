@@ -31,7 +31,7 @@ import { estimateProfile } from '../../core/profile/profile-estimate';
 import { forwardWork } from '../../core/profile/profile-forward';
 import { COVERAGE_CASES, runCoverage } from '../reference/profile-coverage-trials';
 import { bench, summary, type BenchResult } from './harness';
-import { PROFILE_CASES, type ProfileCase } from './profile-cases';
+import { PROFILE_CASES, workPerCall, type ProfileCase } from './profile-cases';
 
 const here = dirname(fileURLToPath(import.meta.url));
 
@@ -80,9 +80,7 @@ async function underTsx(): Promise<BenchResult[]> {
       },
       { samples: c.samples, warmup: 1 },
     );
-    const work: Record<string, number> = {};
-    for (const key of Object.keys(forwardWork) as Array<keyof typeof forwardWork>) work[key] = Math.round((forwardWork[key] - before[key]) / calls);
-    r.note = workNote(c, work, 'Node, this process, under tsx');
+    r.note = workNote(c, workPerCall(before, calls), 'Node, this process, under tsx');
     out.push(r);
   }
   return out;
